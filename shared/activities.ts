@@ -1,0 +1,445 @@
+import { z } from 'zod';
+import type { ActivitySettings, ActivityType, AgendaItem, Criterion, Phase } from './schemas/agenda-item';
+
+/** Everything Cairn can put on a packing list. */
+export const MaterialKey = z.enum([
+  'sticky_notes',
+  'markers',
+  'paper_a4',
+  'paper_a3',
+  'dot_stickers',
+  'tape',
+  'whiteboard',
+  'projector',
+  'tablet',
+  'timer',
+  'snacks',
+  'water',
+]);
+/** A material's key, e.g. `'dot_stickers'`. */
+export type MaterialKey = z.infer<typeof MaterialKey>;
+
+/** How a material appears on the packing list and how it adds up over the agenda. */
+export interface MaterialDefinition {
+  label: string;
+  unit: string;
+  /**
+   * Used up by each activity (sticky notes, paper, snacks): the quantities of the items are added.
+   * Otherwise the thing is picked up again for the next activity (markers, tape, a projector):
+   * the packing list takes the largest quantity any one item asks for.
+   */
+  consumable: boolean;
+}
+
+/** Plain names of the phases, for messages and headings. */
+export const PHASE_LABELS: Record<Phase, string> = {
+  opening: 'Opening',
+  empathize: 'Empathize',
+  define: 'Define',
+  ideate: 'Ideate',
+  prototype: 'Prototype',
+  test: 'Test',
+  closing: 'Closing',
+  break: 'Break',
+};
+
+/** Labels, units and adding-up rule of every material. */
+export const MATERIALS: Record<MaterialKey, MaterialDefinition> = {
+  sticky_notes: { label: 'Sticky notes', unit: 'notes', consumable: true },
+  markers: { label: 'Markers', unit: 'markers', consumable: false },
+  paper_a4: { label: 'A4 paper', unit: 'sheets', consumable: true },
+  paper_a3: { label: 'A3 paper', unit: 'sheets', consumable: true },
+  dot_stickers: { label: 'Dot stickers', unit: 'dots', consumable: true },
+  tape: { label: 'Masking tape', unit: 'rolls', consumable: false },
+  whiteboard: { label: 'Whiteboard or wall space', unit: 'boards', consumable: false },
+  projector: { label: 'Projector and screen', unit: 'sets', consumable: false },
+  tablet: { label: "Facilitator's tablet", unit: 'tablets', consumable: false },
+  timer: { label: 'Spare timer', unit: 'timers', consumable: false },
+  snacks: { label: 'Healthy snacks', unit: 'servings', consumable: true },
+  water: { label: 'Water', unit: 'cups', consumable: true },
+};
+
+/**
+ * What one agenda item needs of one material.
+ * - `person`: `quantity` for each participant;
+ * - `team`: `quantity` for each team;
+ * - `voter_dot`: `quantity` dot stickers for each dot a voter spends (dots per voter × criteria ×
+ *   headcount), so 1.5 means 50 % spare;
+ * - `fixed`: `quantity` once for the whole workshop.
+ */
+export interface MaterialRule {
+  item: MaterialKey;
+  per: 'person' | 'team' | 'voter_dot' | 'fixed';
+  quantity: number;
+  /** Where the quantity comes from: a published guide, or "common practice". */
+  source: string;
+  /** The rule applies only when this setting of the item is true (snacks and water at a break). */
+  onlyIfSetting?: 'snacks';
+}
+
+/** One activity type: its plain name, default phase and timebox, prompt, settings and materials. */
+export interface ActivityDefinition {
+  type: ActivityType;
+  label: string;
+  phase: Phase;
+  defaultTimeboxMin: number;
+  /** The shortest Cairn suggests cutting the item to: about two thirds of the default. */
+  minTimeboxMin: number;
+  defaultPrompt: string;
+  defaultSettings: ActivitySettings;
+  /** Pure talk, not an activity: the talk-length rule applies. */
+  talkOnly: boolean;
+  /** A break or lunch: resets the stretch rule, never shortened, outside the phase order. */
+  isBreak: boolean;
+  /** Asks people to move about the room. */
+  movement: boolean;
+  materials: MaterialRule[];
+  description: string;
+}
+
+/** The usual pair of dot-vote criteria, for the planner to add (common practice: impact / effort matrix). */
+export const IMPACT_EFFORT_CRITERIA: readonly Criterion[] = [
+  { id: 'impact', label: 'Impact' },
+  { id: 'effort', label: 'Effort' },
+];
+
+/** The shortest cut of a timebox Cairn suggests: two thirds of it, rounded (common practice). */
+export function defaultMinTimebox(timeboxMin: number): number {
+  return Math.max(1, Math.round((timeboxMin * 2) / 3));
+}
+
+// Origins of the quantities, written once so the packing list can name them.
+const PRACTICE = 'common practice';
+const SPARE_DOTS =
+  'a published facilitation guide; common practice: dots per voter × voters, plus 50 % spare';
+const DOTS_PER_VOTER =
+  'published guides (Global Learning Partners, "Dot-mocracy"; Dotmocracy handbook): 3–5 dots per voter is common';
+const INTERVIEW_CYCLE = 'd.school gift-giving exercise: 2 × 4 min interview, 2 × 4 min dig deeper';
+const STORYBOARD_STEPS = 'common practice; published method cards: a storyboard runs 10–20 steps';
+const RAPID_SKETCH = 'common practice: 8 sketches in 8 minutes, one minute each';
+
+const marker: MaterialRule = {
+  item: 'markers',
+  per: 'person',
+  quantity: 1,
+  source: `${PRACTICE}: one marker each, so everyone writes their own notes`,
+};
+const screen: MaterialRule = {
+  item: 'projector',
+  per: 'fixed',
+  quantity: 1,
+  source: `${PRACTICE}: one screen the whole room can read`,
+};
+const facilitatorTablet: MaterialRule = {
+  item: 'tablet',
+  per: 'fixed',
+  quantity: 1,
+  source: `${PRACTICE}: the facilitator runs the day from one tablet`,
+};
+const wall: MaterialRule = {
+  item: 'whiteboard',
+  per: 'fixed',
+  quantity: 1,
+  source: `${PRACTICE}: one shared wall or whiteboard to cluster and vote on`,
+};
+const refreshments = (snackSource: string, waterSource: string): MaterialRule[] => [
+  { item: 'snacks', per: 'person', quantity: 1, source: snackSource, onlyIfSetting: 'snacks' },
+  { item: 'water', per: 'person', quantity: 1, source: waterSource, onlyIfSetting: 'snacks' },
+];
+
+function activity(
+  def: Omit<ActivityDefinition, 'minTimeboxMin' | 'talkOnly' | 'isBreak' | 'movement'> &
+    Partial<Pick<ActivityDefinition, 'minTimeboxMin' | 'talkOnly' | 'isBreak' | 'movement'>>,
+): ActivityDefinition {
+  return {
+    talkOnly: false,
+    isBreak: false,
+    movement: false,
+    minTimeboxMin: defaultMinTimebox(def.defaultTimeboxMin),
+    ...def,
+  };
+}
+
+/** Every activity type Cairn offers, with the defaults a new agenda item starts from. */
+export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
+  welcome: activity({
+    type: 'welcome',
+    label: 'Welcome',
+    phase: 'opening',
+    defaultTimeboxMin: 10,
+    defaultPrompt: 'Welcome! Here is the plan for today and how we look after what you share.',
+    defaultSettings: {},
+    talkOnly: true,
+    materials: [screen, facilitatorTablet],
+    description: 'Greet the room, show the plan for the day and the data policy while people join.',
+  }),
+  icebreaker: activity({
+    type: 'icebreaker',
+    label: 'Icebreaker',
+    phase: 'opening',
+    defaultTimeboxMin: 15,
+    defaultPrompt:
+      'Find your partner on your screen and tell each other ' +
+      'one thing you did for the first time this year.',
+    defaultSettings: { rounds: 3, roundMinutes: 3, movement: true },
+    movement: true,
+    materials: [
+      { item: 'timer', per: 'fixed', quantity: 1, source: `${PRACTICE}: a spare timer for timed rounds` },
+    ],
+    description: 'Short rounds in rotating pairs so people meet someone new before the real work.',
+  }),
+  interview: activity({
+    type: 'interview',
+    label: 'Interview',
+    phase: 'empathize',
+    defaultTimeboxMin: 25,
+    defaultPrompt:
+      'Ask your partner about a recent time they tried something new. ' +
+      'Note what they say, think, do and feel.',
+    // Each partner takes a turn: 4 min interview, then 4 min digging deeper (INTERVIEW_CYCLE).
+    defaultSettings: { rounds: 2, roundMinutes: 4 },
+    materials: [
+      { item: 'paper_a4', per: 'person', quantity: 1, source: `${PRACTICE}: one note sheet each (${INTERVIEW_CYCLE})` },
+      marker,
+      { item: 'timer', per: 'fixed', quantity: 1, source: `${PRACTICE}: a spare timer for timed rounds` },
+    ],
+    description: 'Paired interviews in turns, each an interview then a dig deeper, to hear real stories.',
+  }),
+  empathy_map: activity({
+    type: 'empathy_map',
+    label: 'Empathy map',
+    phase: 'empathize',
+    defaultTimeboxMin: 25,
+    defaultPrompt: 'Add what you heard to your team’s map: what they see, hear, say and do, think and feel.',
+    defaultSettings: { painsAndGains: false },
+    materials: [
+      { item: 'paper_a3', per: 'team', quantity: 1, source: `${PRACTICE}: one large canvas for each team's map` },
+      { item: 'sticky_notes', per: 'person', quantity: 15, source: `${PRACTICE}: about 15 notes each for a team map` },
+      { item: 'tape', per: 'team', quantity: 1, source: `${PRACTICE}: one roll for each team to hang its map` },
+      marker,
+    ],
+    description: 'Each team sorts its interview notes into the quadrants of a shared map.',
+  }),
+  insights: activity({
+    type: 'insights',
+    label: 'Insights',
+    phase: 'define',
+    defaultTimeboxMin: 15,
+    defaultPrompt: 'What surprised you? Write one thing you learned per note.',
+    defaultSettings: {},
+    materials: [
+      {
+        item: 'sticky_notes',
+        per: 'person',
+        quantity: 10,
+        source: `${PRACTICE}: about 10 notes each, one insight per note`,
+      },
+      marker,
+      wall,
+    ],
+    description: 'Short notes of what was learned, grouped into themes on the wall.',
+  }),
+  point_of_view: activity({
+    type: 'point_of_view',
+    label: 'Point of view',
+    phase: 'define',
+    defaultTimeboxMin: 10,
+    defaultPrompt: 'Finish the sentence: [who] needs [to do what] because [what we learned].',
+    defaultSettings: {},
+    materials: [
+      { item: 'sticky_notes', per: 'person', quantity: 3, source: `${PRACTICE}: a few drafts each` },
+    ],
+    description: 'A guided sentence that names the person, their need and the insight behind it.',
+  }),
+  how_might_we: activity({
+    type: 'how_might_we',
+    label: 'How might we',
+    phase: 'define',
+    defaultTimeboxMin: 15,
+    defaultPrompt: 'Turn a need into a question: How might we [do something] for [whom] so that [outcome]?',
+    defaultSettings: {},
+    materials: [
+      { item: 'sticky_notes', per: 'person', quantity: 5, source: `${PRACTICE}: about 5 questions each` },
+      wall,
+    ],
+    description: 'Turn needs into open questions, neither too broad nor too narrow, to vote on.',
+  }),
+  dot_vote: activity({
+    type: 'dot_vote',
+    label: 'Dot vote',
+    phase: 'ideate',
+    defaultTimeboxMin: 10,
+    defaultPrompt: 'Spend your dots on the questions you most want to work on.',
+    // Criteria are optional: none means one overall vote; IMPACT_EFFORT_CRITERIA is the usual pair.
+    defaultSettings: { dotsPerVoter: 3, topN: 3 },
+    materials: [
+      { item: 'dot_stickers', per: 'voter_dot', quantity: 1.5, source: `${SPARE_DOTS}; ${DOTS_PER_VOTER}` },
+      wall,
+      screen,
+    ],
+    description: 'Everyone spends a small budget of dots; the tally stays hidden until voting closes.',
+  }),
+  preference_vote: activity({
+    type: 'preference_vote',
+    label: 'Preference vote',
+    phase: 'ideate',
+    defaultTimeboxMin: 10,
+    defaultPrompt: 'Put the options in the order you prefer them, favourite first.',
+    defaultSettings: { topN: 3 },
+    materials: [screen],
+    description: 'Everyone ranks the options on their phone; Cairn counts the result.',
+  }),
+  team_sort: activity({
+    type: 'team_sort',
+    label: 'Team sort',
+    phase: 'ideate',
+    defaultTimeboxMin: 10,
+    defaultPrompt: 'Rank the challenges you would most like to work on. Cairn will form even teams.',
+    defaultSettings: { teamCount: 3 },
+    materials: [screen],
+    description: 'Participants rank the winning challenges; Cairn forms balanced teams, one challenge each.',
+  }),
+  sketch: activity({
+    type: 'sketch',
+    label: 'Sketch',
+    phase: 'ideate',
+    defaultTimeboxMin: 25,
+    defaultPrompt:
+      'Fold a sheet into eight. Sketch eight ideas in eight minutes, ' +
+      'one a minute, then photograph your sheet.',
+    defaultSettings: { sketchesPerPerson: 8 },
+    materials: [
+      {
+        item: 'paper_a4',
+        per: 'person',
+        quantity: 2,
+        source: `${RAPID_SKETCH}; one sheet folded into eight, one spare`,
+      },
+      marker,
+    ],
+    description: 'Rapid paper sketches, photographed with a caption and shared for feedback.',
+  }),
+  storyboard: activity({
+    type: 'storyboard',
+    label: 'Storyboard',
+    phase: 'prototype',
+    defaultTimeboxMin: 30,
+    defaultPrompt: 'Tell the idea as a story, frame by frame: who they are, what happens, how it ends.',
+    defaultSettings: { storyboardFrames: 12 },
+    materials: [
+      { item: 'paper_a3', per: 'team', quantity: 2, source: `${PRACTICE}: two large sheets for each team's frames` },
+      { item: 'sticky_notes', per: 'team', quantity: 20, source: `${STORYBOARD_STEPS}; a note a frame, with spare` },
+      { item: 'tape', per: 'team', quantity: 1, source: `${PRACTICE}: one roll for each team` },
+      marker,
+    ],
+    description: "Each team lays out its idea as ordered frames, the prototype the others will test.",
+  }),
+  test_rounds: activity({
+    type: 'test_rounds',
+    label: 'Test rounds',
+    phase: 'test',
+    defaultTimeboxMin: 30,
+    defaultPrompt:
+      'Visit the team on your screen, try their idea, ' +
+      'and note what worked, what did not, your questions and your ideas.',
+    defaultSettings: { rounds: 2 },
+    materials: [
+      {
+        item: 'paper_a3',
+        per: 'team',
+        quantity: 1,
+        source: `${PRACTICE}: one sheet a team for the feedback capture grid (d.school method card)`,
+      },
+      {
+        item: 'sticky_notes',
+        per: 'person',
+        quantity: 8,
+        source: `${PRACTICE}: two notes for each of the grid's four parts`,
+      },
+      { item: 'timer', per: 'fixed', quantity: 1, source: `${PRACTICE}: a spare timer for timed rounds` },
+    ],
+    description: "Testers visit another team's prototype in rounds and record feedback in four parts.",
+  }),
+  break: activity({
+    type: 'break',
+    label: 'Break',
+    phase: 'break',
+    defaultTimeboxMin: 15,
+    // Breaks are never cut (published workshop-planning guides: 15 min breaks): the shortest is the default.
+    minTimeboxMin: 15,
+    defaultPrompt: 'Time for a break. Stretch, have a drink, and be back when the countdown ends.',
+    defaultSettings: { snacks: true },
+    isBreak: true,
+    materials: refreshments(
+      `${PRACTICE}: one healthy snack each a break`,
+      `${PRACTICE}: a cup of water each a break`,
+    ),
+    description: 'A pause to rest and refuel.',
+  }),
+  lunch: activity({
+    type: 'lunch',
+    label: 'Lunch',
+    phase: 'break',
+    defaultTimeboxMin: 45,
+    // Published workshop-planning guides: lunch at least 45 min on a full day; never cut below it.
+    minTimeboxMin: 45,
+    defaultPrompt: 'Lunch! Step away from the work for a while. We start again when the countdown ends.',
+    defaultSettings: { snacks: true },
+    isBreak: true,
+    materials: refreshments(
+      `${PRACTICE}: a healthy option each at lunch, besides the meal`,
+      `${PRACTICE}: a cup of water each at lunch`,
+    ),
+    description: 'A proper lunch break away from the work.',
+  }),
+  talk: activity({
+    type: 'talk',
+    label: 'Talk',
+    phase: 'opening',
+    defaultTimeboxMin: 15,
+    defaultPrompt: 'Listen in: a short talk to set up what comes next.',
+    defaultSettings: {},
+    talkOnly: true,
+    materials: [screen],
+    description: 'A short input from the front. Keep it brief: it is not an activity.',
+  }),
+  closing: activity({
+    type: 'closing',
+    label: 'Closing',
+    phase: 'closing',
+    defaultTimeboxMin: 15,
+    defaultPrompt: 'Before you go: what will you take away from today, and what should happen next?',
+    defaultSettings: {},
+    materials: [
+      { item: 'sticky_notes', per: 'person', quantity: 3, source: `${PRACTICE}: a few reflections each` },
+      screen,
+    ],
+    description: 'What happens next, and a short reflection from everyone.',
+  }),
+};
+
+/**
+ * Whether an agenda item is a break (a break or lunch, or any item placed in the break phase).
+ * @example isBreakItem({ type: 'lunch', ... }) // true
+ */
+export function isBreakItem(item: Pick<AgendaItem, 'type' | 'phase'>): boolean {
+  return item.phase === 'break' || ACTIVITY_LIBRARY[item.type].isBreak;
+}
+
+/**
+ * A new agenda item of a type, filled in from the library's defaults.
+ * @example newAgendaItem('dot_vote', 'a1').settings.dotsPerVoter // 3
+ */
+export function newAgendaItem(type: ActivityType, id: string): AgendaItem {
+  const def = ACTIVITY_LIBRARY[type];
+  return {
+    id,
+    type,
+    phase: def.phase,
+    title: def.label,
+    timeboxMin: def.defaultTimeboxMin,
+    minTimeboxMin: def.minTimeboxMin,
+    prompt: def.defaultPrompt,
+    settings: structuredClone(def.defaultSettings),
+  };
+}

@@ -1,0 +1,73 @@
+import { ACTIVITY_LIBRARY, MATERIALS, MaterialKey, type MaterialRule } from './activities';
+import type { AgendaItem } from './schemas/agenda-item';
+
+/** One line of the packing list. */
+export interface PackingLine {
+  key: MaterialKey;
+  label: string;
+  quantity: number;
+  unit: string;
+  /** Where the quantities come from, each origin once. */
+  sources: string[];
+  /** The agenda items that need it, in agenda order. */
+  usedBy: string[];
+}
+
+// How much of a material one item asks for under one rule.
+function ruleQuantity(rule: MaterialRule, item: AgendaItem, headcount: number, teamCount: number): number {
+  switch (rule.per) {
+    case 'person':
+      return rule.quantity * headcount;
+    case 'team':
+      return rule.quantity * teamCount;
+    case 'fixed':
+      return rule.quantity;
+    case 'voter_dot': {
+      const dots = item.settings.dotsPerVoter ?? ACTIVITY_LIBRARY[item.type].defaultSettings.dotsPerVoter ?? 1;
+      const criteria = Math.max(1, item.settings.criteria?.length ?? 0);
+      return Math.ceil(dots * criteria * headcount * rule.quantity);
+    }
+  }
+}
+
+/**
+ * The packing list for an agenda: each item's material rules for the headcount and teams, added up.
+ * Consumables (sticky notes, paper, dots, snacks, water) are summed over the items; things used
+ * again (markers, tape, projector, tablet, whiteboard, timer) take the largest any one item needs.
+ * Quantities are rounded up to whole units; lines that come to nothing are left out.
+ * @example packingList(items, 18, 3).find((l) => l.key === 'dot_stickers')?.quantity // 162 for 3 dots × 2 criteria
+ */
+export function packingList(items: AgendaItem[], headcount: number, teamCount: number): PackingLine[] {
+  const lines = new Map<MaterialKey, { quantity: number; sources: Set<string>; usedBy: Set<string> }>();
+  for (const item of items) {
+    for (const rule of ACTIVITY_LIBRARY[item.type].materials) {
+      if (rule.onlyIfSetting && item.settings[rule.onlyIfSetting] !== true) continue;
+      const quantity = ruleQuantity(rule, item, headcount, teamCount);
+      let line = lines.get(rule.item);
+      if (!line) {
+        line = { quantity: 0, sources: new Set(), usedBy: new Set() };
+        lines.set(rule.item, line);
+      }
+      line.quantity = MATERIALS[rule.item].consumable ? line.quantity + quantity : Math.max(line.quantity, quantity);
+      line.sources.add(rule.source);
+      line.usedBy.add(item.id);
+    }
+  }
+  // Lines in the catalogue's order, so the list reads the same every time.
+  return MaterialKey.options.flatMap((key) => {
+    const line = lines.get(key);
+    if (!line) return [];
+    const quantity = Math.ceil(line.quantity);
+    if (quantity <= 0) return [];
+    return [
+      {
+        key,
+        label: MATERIALS[key].label,
+        quantity,
+        unit: MATERIALS[key].unit,
+        sources: [...line.sources],
+        usedBy: [...line.usedBy],
+      },
+    ];
+  });
+}

@@ -1,0 +1,241 @@
+import { z } from 'zod';
+import { ACTIVITY_LIBRARY, PHASE_LABELS, isBreakItem } from './activities';
+import { Phase, type AgendaItem } from './schemas/agenda-item';
+import type { DayWindow, RuleSettings } from './schemas/day-window';
+
+/** The rules of the trade a plan can break. */
+export const ScheduleWarningCode = z.enum([
+  'load_above_ceiling',
+  'phases_out_of_order',
+  'no_break_stretch',
+  'short_lunch',
+  'talk_too_long',
+  'overruns_window',
+  'day_too_short',
+]);
+/** A schedule warning's code. */
+export type ScheduleWarningCode = z.infer<typeof ScheduleWarningCode>;
+
+/** One broken rule: which items, a plain explanation, and where the rule comes from. */
+export interface ScheduleWarning {
+  code: ScheduleWarningCode;
+  itemIds: string[];
+  message: string;
+  origin: string;
+}
+
+/** When one agenda item runs, in minutes since midnight and as clock times. */
+export interface ScheduledItem {
+  id: string;
+  startMin: number;
+  endMin: number;
+  start: string;
+  end: string;
+}
+
+/** The computed day: item times, load against the window, and the rules the plan breaks. */
+export interface Schedule {
+  items: ScheduledItem[];
+  /** Sum of all timeboxes, breaks included. */
+  plannedMin: number;
+  /** Minutes from the window's start to its end. */
+  windowMin: number;
+  /** plannedMin as a percentage of windowMin (not rounded). */
+  loadPct: number;
+  endsAt: string;
+  fullDay: boolean;
+  warnings: ScheduleWarning[];
+}
+
+/** Where each rule comes from, shown beside the warning. */
+export const RULE_ORIGINS: Record<ScheduleWarningCode, string> = {
+  load_above_ceiling: 'common practice: leave slack in the plan, agendas always overrun',
+  phases_out_of_order:
+    'the design-thinking process: empathize, define, ideate, prototype, test, in that order',
+  no_break_stretch: 'published workshop-planning guides: never more than 60–90 min without a break',
+  short_lunch: 'published workshop-planning guides: on a full day, lunch of at least 45 min',
+  talk_too_long: 'common practice: keep talks short, people learn by doing',
+  overruns_window: 'the day window set in the brief',
+  day_too_short:
+    'common practice: each phase the day covers needs at least one activity, at its shortest',
+};
+
+/** The phases a design day needs when the agenda is still empty. */
+export const CORE_PHASES: readonly Phase[] = ['empathize', 'define', 'ideate', 'prototype', 'test'];
+
+// The schema lists the phases in the order a day runs them; breaks sit outside the order.
+const PHASE_ORDER: readonly Phase[] = Phase.options.filter((p) => p !== 'break');
+
+/**
+ * Minutes since midnight of a `HH:MM` clock time.
+ * @example toMinutes('09:30') // 570
+ */
+export function toMinutes(clock: string): number {
+  const match = /^(\d{1,2}):(\d{2})$/.exec(clock);
+  if (!match) throw new RangeError(`Not a HH:MM time: ${clock}`);
+  return Number(match[1]) * 60 + Number(match[2]);
+}
+
+/**
+ * The `HH:MM` clock time of minutes since midnight, rounded to the minute and wrapped past midnight.
+ * @example toClock(570) // '09:30'
+ */
+export function toClock(min: number): string {
+  const day = 24 * 60;
+  const m = ((Math.round(min) % day) + day) % day;
+  return `${String(Math.floor(m / 60)).padStart(2, '0')}:${String(m % 60).padStart(2, '0')}`;
+}
+
+/**
+ * Lays the items back to back from the window's start and checks the plan against the rules.
+ * Load counts every planned minute, breaks included, against the window from start to end.
+ * "Day too short": the window cannot hold, at their shortest, one activity of each phase the agenda
+ * uses (the shortest of the agenda's own items of that phase; with no activities yet, the shortest
+ * library activity of each of the five core phases). Opening and closing count when used.
+ * @example computeSchedule(items, { doorsOpen: '09:00', doorsClose: '17:00', start: '10:00', end: '16:00' }, rules)
+ */
+export function computeSchedule(items: AgendaItem[], window: DayWindow, rules: RuleSettings): Schedule {
+  const startMin = toMinutes(window.start);
+  const endMin = toMinutes(window.end);
+  const windowMin = endMin - startMin;
+
+  let t = startMin;
+  const scheduled: ScheduledItem[] = items.map((item) => {
+    const s = t;
+    t += item.timeboxMin;
+    return { id: item.id, startMin: s, endMin: t, start: toClock(s), end: toClock(t) };
+  });
+  const plannedMin = t - startMin;
+  // Multiply first: 306 × 100 / 360 is exactly 85, where 306 / 360 × 100 is not.
+  const loadPct = windowMin > 0 ? (plannedMin * 100) / windowMin : Infinity;
+  const fullDay = windowMin >= rules.fullDayMin;
+
+  const warnings: ScheduleWarning[] = [];
+  const warn = (code: ScheduleWarningCode, itemIds: string[], message: string) =>
+    warnings.push({ code, itemIds, message, origin: RULE_ORIGINS[code] });
+
+  if (loadPct > rules.loadCeilingPct) {
+    warn(
+      'load_above_ceiling',
+      [],
+      `The plan fills ${Math.round(loadPct * 10) / 10} % of the day, above the ${rules.loadCeilingPct} % ceiling. ` +
+        'Leave some slack: agendas always run over.',
+    );
+  }
+
+  // Phases: every activity must come at or after the latest phase seen so far.
+  let latest: AgendaItem | undefined;
+  for (const item of items) {
+    if (isBreakItem(item)) continue;
+    if (latest && PHASE_ORDER.indexOf(item.phase) < PHASE_ORDER.indexOf(latest.phase)) {
+      warn(
+        'phases_out_of_order',
+        [item.id, latest.id],
+        `“${item.title}” (${PHASE_LABELS[item.phase]}) comes after “${latest.title}” ` +
+          `(${PHASE_LABELS[latest.phase]}). ` +
+          'Run the phases in order.',
+      );
+    } else {
+      latest = item;
+    }
+  }
+
+  // Stretches of activities between breaks.
+  let stretch: AgendaItem[] = [];
+  let stretchMin = 0;
+  const closeStretch = () => {
+    if (stretchMin > rules.maxStretchMin) {
+      const from = scheduled[items.indexOf(stretch[0]!)]!;
+      warn(
+        'no_break_stretch',
+        stretch.map((i) => i.id),
+        `${stretchMin} min without a break from ${from.start}, longer than ${rules.maxStretchMin} min. Add a break.`,
+      );
+    }
+    stretch = [];
+    stretchMin = 0;
+  };
+  for (const item of items) {
+    if (isBreakItem(item)) {
+      closeStretch();
+    } else {
+      stretch.push(item);
+      stretchMin += item.timeboxMin;
+    }
+  }
+  closeStretch();
+
+  if (fullDay) {
+    const lunches = items.filter((i) => i.type === 'lunch');
+    if (lunches.length === 0) {
+      warn('short_lunch', [], `A full day needs a lunch break of at least ${rules.minLunchMin} min.`);
+    } else if (!lunches.some((l) => l.timeboxMin >= rules.minLunchMin)) {
+      warn(
+        'short_lunch',
+        lunches.map((l) => l.id),
+        `Lunch is shorter than ${rules.minLunchMin} min. On a full day people need a proper break.`,
+      );
+    }
+  }
+
+  for (const item of items) {
+    if (ACTIVITY_LIBRARY[item.type].talkOnly && item.timeboxMin > rules.maxTalkMin) {
+      warn(
+        'talk_too_long',
+        [item.id],
+        `“${item.title}” is ${item.timeboxMin} min of talk, over ${rules.maxTalkMin} min. ` +
+          'Shorten it or turn part of it into an activity.',
+      );
+    }
+  }
+
+  if (t > endMin) {
+    warn(
+      'overruns_window',
+      scheduled.filter((s) => s.endMin > endMin).map((s) => s.id),
+      `The plan ends at ${toClock(t)}, ${t - endMin} min after the workshop should end at ${window.end}.`,
+    );
+  }
+
+  const neededMin = shortestDayMin(items);
+  if (windowMin < neededMin) {
+    warn(
+      'day_too_short',
+      [],
+      `The day is ${windowMin} min long, but one activity of each phase needs at least ${neededMin} min. ` +
+        'Lengthen the day or cover fewer phases.',
+    );
+  }
+
+  return {
+    items: scheduled,
+    plannedMin,
+    windowMin,
+    loadPct,
+    endsAt: toClock(t),
+    fullDay,
+    warnings,
+  };
+}
+
+/**
+ * The fewest minutes a day needs: for each phase the agenda's activities use, the shortest minimum
+ * timebox among them; with no activities, the shortest library activity of each core phase.
+ * @example shortestDayMin([]) // sum over empathize … test of the library's shortest minimums
+ */
+export function shortestDayMin(items: AgendaItem[]): number {
+  const byPhase = new Map<Phase, number>();
+  for (const item of items) {
+    if (isBreakItem(item)) continue;
+    byPhase.set(item.phase, Math.min(byPhase.get(item.phase) ?? Infinity, item.minTimeboxMin));
+  }
+  if (byPhase.size === 0) {
+    for (const def of Object.values(ACTIVITY_LIBRARY)) {
+      if (!CORE_PHASES.includes(def.phase) || def.isBreak) continue;
+      byPhase.set(def.phase, Math.min(byPhase.get(def.phase) ?? Infinity, def.minTimeboxMin));
+    }
+  }
+  let sum = 0;
+  for (const min of byPhase.values()) sum += min;
+  return sum;
+}

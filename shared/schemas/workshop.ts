@@ -1,0 +1,80 @@
+import { z } from 'zod';
+import { DayWindow, RuleSettings } from './day-window';
+import { AgendaItem } from './agenda-item';
+import { WorkshopRole } from './user';
+
+/** The data-policy text shown at join when the facilitator has not written one. */
+export const DEFAULT_CONSENT_TEXT =
+  'Cairn keeps the notes, votes and photos you add today so the team can use them after the workshop. ' +
+  'Your display name is shown to the facilitators and, where an activity needs it, to your team. ' +
+  'Photos that show people are only shown or exported for those who said yes to photos; you can change your answer at any time from your phone. ' +
+  'The facilitator can delete names and photos after the workshop; anonymous tallies and notes stay. ' +
+  "Your organisation's data-protection policy applies.";
+
+/** A calendar date as `YYYY-MM-DD`. */
+export const IsoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date such as 2027-03-14');
+
+/** The brief of a workshop: what the facilitator fills in before planning the agenda. */
+export const WorkshopBrief = z.object({
+  title: z.string().trim().min(3, 'Give the workshop a title of at least 3 characters').max(120, 'Keep the title under 120 characters'),
+  objective: z.string().trim().min(1, 'Say what the organisation wants to learn or improve').max(2000),
+  persona: z.string().trim().max(1000, 'Keep the persona short (under 1000 characters)'),
+  date: IsoDate,
+  window: DayWindow,
+  venueNotes: z.string().max(2000, 'Keep venue notes under 2000 characters'),
+  headcount: z.number({ error: 'Enter the expected headcount' }).int().min(2, 'A workshop needs at least 2 participants').max(500, 'Cairn plans for at most 500 participants'),
+  teamCount: z.number().int().min(1).max(12),
+  roomCapacity: z.number().int().min(0).max(2000).nullable(),
+  consentText: z.string().trim().min(1, 'The data-policy text cannot be empty').max(4000),
+  rules: RuleSettings,
+});
+/** The brief of a workshop. */
+export type WorkshopBrief = z.infer<typeof WorkshopBrief>;
+
+/** Body that creates a workshop: a brief (defaults filled in) and an optional template. */
+export const CreateWorkshopBody = WorkshopBrief.partial({
+  persona: true,
+  venueNotes: true,
+  teamCount: true,
+  roomCapacity: true,
+  consentText: true,
+  rules: true,
+  window: true,
+}).extend({
+  templateId: z.enum(['full-day', 'half-day']).optional(),
+});
+/** Body that creates a workshop. */
+export type CreateWorkshopBody = z.infer<typeof CreateWorkshopBody>;
+
+/** Body that changes a workshop's brief (any subset). */
+export const UpdateWorkshopBody = WorkshopBrief.partial();
+/** Body that changes a workshop's brief. */
+export type UpdateWorkshopBody = z.infer<typeof UpdateWorkshopBody>;
+
+/** A workshop as listed for the signed-in person. */
+export const WorkshopSummary = z.object({
+  id: z.string(),
+  title: z.string(),
+  date: z.string(),
+  headcount: z.number(),
+  ownerName: z.string(),
+  myRole: WorkshopRole.or(z.literal('admin')),
+  itemCount: z.number(),
+  updatedAt: z.string(),
+});
+/** A workshop as listed. */
+export type WorkshopSummary = z.infer<typeof WorkshopSummary>;
+
+/** A workshop with its brief, agenda and packing state. */
+export const Workshop = WorkshopBrief.extend({
+  id: z.string(),
+  ownerId: z.string(),
+  ownerName: z.string(),
+  myRole: WorkshopRole.or(z.literal('admin')),
+  agenda: z.array(AgendaItem),
+  packed: z.array(z.string()),
+  createdAt: z.string(),
+  updatedAt: z.string(),
+});
+/** A workshop with its brief, agenda and packing state. */
+export type Workshop = z.infer<typeof Workshop>;

@@ -1,0 +1,285 @@
+import type { Criterion } from './schemas/agenda-item';
+
+/** The rules of one dot vote, e.g. `{ dotsPerVoter: 5, capPerOption: 2, allowStacking: true, criteria: [] }`. */
+export type DotVoteRules = {
+  /** Dots each voter may spend, per criterion. */
+  dotsPerVoter: number;
+  /** Most dots one voter may put on one option (per criterion). */
+  capPerOption: number;
+  /** Whether a voter may put more than one dot on one option. */
+  allowStacking: boolean;
+  /** The criteria voted on; an empty list means one criterion, `'overall'`. */
+  criteria: Criterion[];
+};
+
+/** Dots one voter put on one option for one criterion. */
+export type Dot = { voterId: string; optionId: string; criterionId: string; count: number };
+
+/** A voter's request to add (`delta > 0`) or take back (`delta < 0`) dots on one option. */
+export type DotChange = { optionId: string; criterionId: string; delta: number };
+
+/** Why a dot change was refused. */
+export type BallotErrorCode = 'budget_exceeded' | 'cap_exceeded' | 'stacking_off' | 'negative' | 'unknown_criterion';
+
+/** The answer of {@link checkBallot}. */
+export type BallotCheck = { ok: true } | { ok: false; code: BallotErrorCode; message: string };
+
+/** One option's line in a tally. */
+export type TallyRow = {
+  optionId: string;
+  dots: number;
+  /** Standard competition rank ("1224"): 1 + the number of options with more dots. */
+  rank: number;
+  /** Another option has exactly as many dots. */
+  tied: boolean;
+  /** The next count above or below (a different one) is within the near-tie margin. */
+  nearTie: boolean;
+};
+
+/** Tallies per criterion and over all criteria, each ordered by dots (most first), then by the given option order. */
+export type Tally = { perCriterion: Record<string, TallyRow[]>; overall: TallyRow[] };
+
+/** How close two different counts must be to count as a near tie. */
+export type NearTieMargin = {
+  /** Share of the larger count; the resulting margin is rounded up to a whole dot. */
+  relative: number;
+  /** Margin in dots that always counts as near. */
+  absolute: number;
+};
+
+/** The criterion id used when a dot vote has no criteria of its own. */
+export const OVERALL_CRITERION = 'overall';
+
+/**
+ * Default near-tie margin: 5 % of the larger count rounded up to a whole dot, and never less than 1 dot.
+ * Dots are whole, so the margin is too: Global Learning Partners ("Dot-mocracy") call 39 vs 37 effectively
+ * a tie, and 5 % of 39 = 1.95 rounds up to 2 dots, which flags it.
+ */
+export const DEFAULT_NEAR_TIE: NearTieMargin = { relative: 0.05, absolute: 1 };
+
+/**
+ * The criterion ids a dot vote is counted under.
+ * @example criterionIds({ ...rules, criteria: [] }) // ['overall']
+ */
+export function criterionIds(rules: Pick<DotVoteRules, 'criteria'>): string[] {
+  return rules.criteria.length > 0 ? rules.criteria.map((c) => c.id) : [OVERALL_CRITERION];
+}
+
+function criterionLabel(rules: DotVoteRules, criterionId: string): string {
+  const criterion = rules.criteria.find((c) => c.id === criterionId);
+  return criterion ? ` for ${criterion.label}` : '';
+}
+
+/**
+ * Whether one voter may make a dot change, given the dots they already hold; the budget is per criterion.
+ * The server calls it inside the transaction that writes the change; taking dots back is always allowed
+ * down to zero.
+ * @example checkBallot(rules, myDots, { optionId: 'o1', criterionId: 'overall', delta: 1 })
+ */
+export function checkBallot(rules: DotVoteRules, existingDotsOfVoter: Dot[], change: DotChange): BallotCheck {
+  if (!criterionIds(rules).includes(change.criterionId)) {
+    return { ok: false, code: 'unknown_criterion', message: 'This vote has no such criterion.' };
+  }
+  let onOption = 0;
+  let spent = 0;
+  for (const dot of existingDotsOfVoter) {
+    if (dot.criterionId !== change.criterionId) continue;
+    spent += dot.count;
+    if (dot.optionId === change.optionId) onOption += dot.count;
+  }
+  const after = onOption + change.delta;
+  if (after < 0) {
+    return { ok: false, code: 'negative', message: 'There is no dot there to take back.' };
+  }
+  // Taking dots back must stay possible even if the rules were tightened after the dots were placed.
+  if (change.delta <= 0) return { ok: true };
+  const where = criterionLabel(rules, change.criterionId);
+  if (!rules.allowStacking && after > 1) {
+    return { ok: false, code: 'stacking_off', message: `One dot per option${where} in this vote.` };
+  }
+  if (after > rules.capPerOption) {
+    return {
+      ok: false,
+      code: 'cap_exceeded',
+      message: `At most ${rules.capPerOption} ${plural(rules.capPerOption, 'dot')} on one option${where}.`,
+    };
+  }
+  if (spent + change.delta > rules.dotsPerVoter) {
+    const left = Math.max(0, rules.dotsPerVoter - spent);
+    return {
+      ok: false,
+      code: 'budget_exceeded',
+      message: `You have ${rules.dotsPerVoter} ${plural(rules.dotsPerVoter, 'dot')}${where} and ${left} left.`,
+    };
+  }
+  return { ok: true };
+}
+
+function plural(n: number, word: string): string {
+  return n === 1 ? word : `${word}s`;
+}
+
+/**
+ * Suggested dots per voter for a number of options.
+ * Rule: a third of the options, rounded (Global Learning Partners, "Dot-mocracy"), kept within 3–5 (the
+ * common range, published guides; the Dotmocracy handbook's "about a quarter of the options" falls in it
+ * for 12–20 options), and never more than half the options, so a vote still separates them (Cairn's own
+ * limit), and at least 1. Gives 1 for up to 3 options, 2 for 4–5, 3 for 6–10, 4 for 11–13, 5 from 14 on.
+ * @example suggestDotsPerVoter(12) // 4
+ */
+export function suggestDotsPerVoter(optionCount: number): number {
+  const third = Math.round(optionCount / 3);
+  const common = Math.min(5, Math.max(3, third));
+  return Math.max(1, Math.min(common, Math.floor(optionCount / 2)));
+}
+
+/**
+ * Standard competition ranks ("1224") of scores, higher first, in the order given.
+ * @example competitionRanks([5, 9, 5, 2]) // [2, 1, 2, 4]
+ */
+export function competitionRanks(scores: number[]): number[] {
+  const sorted = [...scores].sort((a, b) => b - a);
+  const firstIndex = new Map<number, number>();
+  sorted.forEach((score, i) => {
+    if (!firstIndex.has(score)) firstIndex.set(score, i);
+  });
+  return scores.map((score) => (firstIndex.get(score) ?? 0) + 1);
+}
+
+/** Whether two different counts lie within the near-tie margin. */
+function isNear(a: number, b: number, margin: NearTieMargin): boolean {
+  const larger = Math.max(a, b);
+  // The small epsilon keeps floating-point noise (0.05 * 60 = 3.0000000000000004) from adding a dot.
+  const allowed = Math.max(margin.absolute, Math.ceil(margin.relative * larger - 1e-9));
+  return Math.abs(a - b) <= allowed;
+}
+
+/** Rows for one set of counts: ordered by dots (most first), then by option order; ranked and flagged. */
+function rowsFrom(optionIds: string[], counts: Map<string, number>, margin: NearTieMargin): TallyRow[] {
+  const order = optionIds
+    .map((optionId, index) => ({ optionId, index, dots: counts.get(optionId) ?? 0 }))
+    .sort((a, b) => b.dots - a.dots || a.index - b.index);
+  const ranks = competitionRanks(order.map((o) => o.dots));
+  const distinct = [...new Set(order.map((o) => o.dots))]; // descending, as `order` is
+  return order.map(({ optionId, dots }, i) => {
+    const at = distinct.indexOf(dots);
+    const above = distinct[at - 1];
+    const below = distinct[at + 1];
+    return {
+      optionId,
+      dots,
+      rank: ranks[i],
+      tied: order[i - 1]?.dots === dots || order[i + 1]?.dots === dots,
+      nearTie:
+        (above !== undefined && isNear(above, dots, margin)) || (below !== undefined && isNear(below, dots, margin)),
+    };
+  });
+}
+
+/**
+ * Counts the dots per criterion and over all criteria (the sum of every criterion's dots).
+ * Dots on options or criteria not listed are ignored (e.g. an option removed after voting).
+ * @example tallyDots(['a', 'b'], ['overall'], dots).overall[0] // { optionId: 'a', dots: 7, rank: 1, ... }
+ */
+export function tallyDots(
+  optionIds: string[],
+  criterionIdList: string[],
+  dots: Dot[],
+  margin: NearTieMargin = DEFAULT_NEAR_TIE,
+): Tally {
+  const options = new Set(optionIds);
+  const perCriterionCounts = new Map(criterionIdList.map((c) => [c, new Map<string, number>()]));
+  const overallCounts = new Map<string, number>();
+  for (const dot of dots) {
+    const counts = perCriterionCounts.get(dot.criterionId);
+    if (!counts || !options.has(dot.optionId)) continue;
+    counts.set(dot.optionId, (counts.get(dot.optionId) ?? 0) + dot.count);
+    overallCounts.set(dot.optionId, (overallCounts.get(dot.optionId) ?? 0) + dot.count);
+  }
+  const perCriterion: Record<string, TallyRow[]> = {};
+  for (const [criterionId, counts] of perCriterionCounts) {
+    perCriterion[criterionId] = rowsFrom(optionIds, counts, margin);
+  }
+  return { perCriterion, overall: rowsFrom(optionIds, overallCounts, margin) };
+}
+
+/**
+ * The top N of a tally, with Cairn's tie policy: options whose whole tie group fits in the top N are
+ * selected; a tie group that straddles the cut-off is returned in `tiedAtCutoff` for the facilitator to
+ * break, and none of it is selected; `policy` says so in words for the console.
+ * @example selectTopN(rows, 3) // { selected: ['a', 'b'], tiedAtCutoff: ['c', 'd'], policy: '…' }
+ */
+export function selectTopN(
+  rows: TallyRow[],
+  n: number,
+): { selected: string[]; tiedAtCutoff: string[]; policy: string } {
+  const ordered = [...rows].sort((a, b) => a.rank - b.rank);
+  const groupSize = new Map<number, number>();
+  for (const row of ordered) groupSize.set(row.rank, (groupSize.get(row.rank) ?? 0) + 1);
+  const selected: string[] = [];
+  const tiedAtCutoff: string[] = [];
+  for (const row of ordered) {
+    const lastPlace = row.rank - 1 + (groupSize.get(row.rank) ?? 1);
+    if (lastPlace <= n) selected.push(row.optionId);
+    else if (row.rank <= n) tiedAtCutoff.push(row.optionId);
+  }
+  const places = Math.max(0, n);
+  let policy =
+    `Top ${places}: options ranked inside the top ${places} are selected; ` +
+    'options tied across the cut-off are left to the facilitator to break.';
+  if (tiedAtCutoff.length > 0) {
+    const open = places - selected.length;
+    policy += ` ${tiedAtCutoff.length} options tie for the last ${open === 1 ? 'place' : `${open} places`}.`;
+  }
+  return { selected, tiedAtCutoff, policy };
+}
+
+/**
+ * Who of the voters present has voted, and how many of their dots are still unspent (over every criterion).
+ * Dots of voters who are not present are not counted, so the rate stays between 0 and 1.
+ * @example participation(['v1', 'v2'], dots, rules) // { voters: 2, voted: 1, rate: 0.5, dotsLeft: 7 }
+ */
+export function participation(
+  voterIds: string[],
+  dots: Dot[],
+  rules: DotVoteRules,
+): { voters: number; voted: number; rate: number; dotsLeft: number } {
+  const present = new Set(voterIds);
+  const criteria = criterionIds(rules);
+  const spent = new Map<string, number>(); // `${voterId}\u0000${criterionId}` → dots
+  const votedIds = new Set<string>();
+  for (const dot of dots) {
+    if (!present.has(dot.voterId) || !criteria.includes(dot.criterionId) || dot.count <= 0) continue;
+    votedIds.add(dot.voterId);
+    const key = `${dot.voterId}\u0000${dot.criterionId}`;
+    spent.set(key, (spent.get(key) ?? 0) + dot.count);
+  }
+  let dotsLeft = 0;
+  for (const voterId of present) {
+    for (const criterionId of criteria) {
+      dotsLeft += Math.max(0, rules.dotsPerVoter - (spent.get(`${voterId}\u0000${criterionId}`) ?? 0));
+    }
+  }
+  const voters = present.size;
+  return { voters, voted: votedIds.size, rate: voters === 0 ? 0 : votedIds.size / voters, dotsLeft };
+}
+
+/**
+ * Each option's dots under two criteria, for a criteria matrix (e.g. impact against effort), in the
+ * overall order.
+ * @example criteriaMatrix(tally, 'effort', 'impact') // [{ optionId: 'a', x: 2, y: 9 }, …]
+ */
+export function criteriaMatrix(
+  tally: Tally,
+  xCriterionId: string,
+  yCriterionId: string,
+): { optionId: string; x: number; y: number }[] {
+  const dotsUnder = (criterionId: string): Map<string, number> => {
+    const rows = tally.perCriterion[criterionId];
+    if (!rows) throw new RangeError(`The tally has no criterion '${criterionId}'`);
+    return new Map(rows.map((r) => [r.optionId, r.dots]));
+  };
+  const xs = dotsUnder(xCriterionId);
+  const ys = dotsUnder(yCriterionId);
+  return tally.overall.map(({ optionId }) => ({ optionId, x: xs.get(optionId) ?? 0, y: ys.get(optionId) ?? 0 }));
+}

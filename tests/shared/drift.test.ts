@@ -1,0 +1,229 @@
+import { describe, expect, it } from 'vitest';
+import { newAgendaItem } from '../../shared/activities';
+import { computeDrift, suggestShortening } from '../../shared/drift';
+import { computeSchedule, toMinutes } from '../../shared/schedule';
+import { instantiateTemplate } from '../../shared/templates';
+import type { ActivityType, AgendaItem } from '../../shared/schemas/agenda-item';
+import { RuleSettings, type DayWindow } from '../../shared/schemas/day-window';
+
+// The worked numbers below are checked by hand; the expected values are written out, not computed.
+
+const WINDOW: DayWindow = { doorsOpen: '09:30', doorsClose: '12:00', start: '10:00', end: '11:30' };
+
+function item(id: string, type: ActivityType, timeboxMin: number, minTimeboxMin: number): AgendaItem {
+  return { ...newAgendaItem(type, id), timeboxMin, minTimeboxMin };
+}
+
+// 10:00 A (30) → 10:30 B (20) → 10:50 C (40) → 11:30; exactly the window.
+const SIMPLE = [item('A', 'interview', 30, 20), item('B', 'insights', 20, 13), item('C', 'sketch', 40, 27)];
+
+describe('computeDrift', () => {
+  it('is zero when the day runs to plan', () => {
+    // B started on time at 10:30; at 10:35 it has 15 min left.
+    const d = computeDrift({
+      items: SIMPLE,
+      window: WINDOW,
+      currentIndex: 1,
+      currentStartedAtMin: toMinutes('10:30'),
+      currentRemainingMin: 15,
+      nowMin: toMinutes('10:35'),
+    });
+    expect(d).toMatchObject({
+      plannedStartMin: 630,
+      startedLateMin: 0,
+      driftMin: 0,
+      plannedEndMin: 690,
+      projectedEndMin: 690,
+      projectedEnd: '11:30',
+      overrunMin: 0,
+      completedOverMin: 0,
+    });
+  });
+
+  it('projects the end from now, what is left and the later timeboxes', () => {
+    // A ran 5 min over; B started 10:35, now 10:45 with 10 min left: 10:45 + 10 + 40 = 11:35.
+    const d = computeDrift({
+      items: SIMPLE,
+      window: WINDOW,
+      currentIndex: 1,
+      currentStartedAtMin: toMinutes('10:35'),
+      currentRemainingMin: 10,
+      nowMin: toMinutes('10:45'),
+      completed: [{ id: 'A', actualMin: 35 }],
+    });
+    expect(d.plannedStartMin).toBe(630);
+    expect(d.startedLateMin).toBe(5);
+    expect(d.projectedEndMin).toBe(695);
+    expect(d.projectedEnd).toBe('11:35');
+    expect(d.driftMin).toBe(5);
+    expect(d.overrunMin).toBe(5);
+    expect(d.completedOverMin).toBe(5);
+  });
+
+  it('counts a paused or extended countdown, and an early day as negative overrun', () => {
+    // B started on time but was paused: at 10:45 it still has 18 min left → 10:45 + 18 + 40 = 11:43.
+    const paused = computeDrift({
+      items: SIMPLE,
+      window: WINDOW,
+      currentIndex: 1,
+      currentStartedAtMin: 630,
+      currentRemainingMin: 18,
+      nowMin: 645,
+    });
+    expect(paused.projectedEnd).toBe('11:43');
+    expect(paused.driftMin).toBe(13);
+    // C started at 10:45, 5 min early, and runs to plan: it ends at 11:25.
+    const early = computeDrift({
+      items: SIMPLE,
+      window: WINDOW,
+      currentIndex: 2,
+      currentStartedAtMin: 645,
+      currentRemainingMin: 30,
+      nowMin: 655,
+    });
+    expect(early.startedLateMin).toBe(-5);
+    expect(early.projectedEndMin).toBe(685);
+    expect(early.driftMin).toBe(-5);
+    expect(early.overrunMin).toBe(-5);
+  });
+
+  it('accepts seconds as fractions of a minute', () => {
+    const d = computeDrift({
+      items: SIMPLE,
+      window: WINDOW,
+      currentIndex: 0,
+      currentStartedAtMin: 600,
+      currentRemainingMin: 29.5,
+      nowMin: 601,
+    });
+    expect(d.driftMin).toBeCloseTo(0.5, 10);
+    expect(d.projectedEnd).toBe('11:31');
+  });
+
+  it('refuses an index outside the agenda', () => {
+    const base = { items: SIMPLE, window: WINDOW, currentStartedAtMin: 600, currentRemainingMin: 1, nowMin: 600 };
+    expect(() => computeDrift({ ...base, currentIndex: 3 })).toThrow(RangeError);
+    expect(() => computeDrift({ ...base, currentIndex: -1 })).toThrow(RangeError);
+  });
+});
+
+describe('suggestShortening', () => {
+  // Current item 0; after it: X slack 10, a break, Y slack 30, a lunch, Z no slack.
+  const AGENDA = [
+    item('now', 'interview', 25, 17),
+    item('X', 'empathy_map', 30, 20),
+    { ...item('brk', 'break', 15, 15), minTimeboxMin: 5 },
+    item('Y', 'sketch', 50, 20),
+    item('lunch', 'lunch', 45, 45),
+    item('Z', 'storyboard', 30, 30),
+  ];
+
+  it('recovers exactly, in proportion to slack (largest remainder, ties to the larger slack)', () => {
+    // 10 min over slack 10 and 30: shares 2.5 and 7.5 → 2 and 7, the spare minute to Y (larger slack).
+    const s = suggestShortening(AGENDA, 0, 10);
+    expect(s).toEqual({
+      cuts: [
+        { itemId: 'X', fromMin: 30, toMin: 28 },
+        { itemId: 'Y', fromMin: 50, toMin: 42 },
+      ],
+      recoveredMin: 10,
+      shortfallMin: 0,
+    });
+  });
+
+  it('splits evenly divisible amounts exactly', () => {
+    // 20 min over slack 10 and 30: 5 and 15.
+    const s = suggestShortening(AGENDA, 0, 20);
+    expect(s.cuts.map((c) => c.fromMin - c.toMin)).toEqual([5, 15]);
+    expect(s.recoveredMin).toBe(20);
+  });
+
+  it('reports a shortfall when the slack is not enough, cutting everything to its minimum', () => {
+    const s = suggestShortening(AGENDA, 0, 55);
+    expect(s.cuts).toEqual([
+      { itemId: 'X', fromMin: 30, toMin: 20 },
+      { itemId: 'Y', fromMin: 50, toMin: 20 },
+    ]);
+    expect(s.recoveredMin).toBe(40);
+    expect(s.shortfallMin).toBe(15);
+  });
+
+  it('never touches breaks, lunch, the current item or earlier ones', () => {
+    const s = suggestShortening(AGENDA, 0, 200);
+    const cut = s.cuts.map((c) => c.itemId);
+    expect(cut).not.toContain('brk');
+    expect(cut).not.toContain('lunch');
+    expect(cut).not.toContain('now');
+    // From Y on, only Y can give.
+    expect(suggestShortening(AGENDA, 2, 12).cuts).toEqual([{ itemId: 'Y', fromMin: 50, toMin: 38 }]);
+    // Nothing after the last item.
+    expect(suggestShortening(AGENDA, 5, 12)).toEqual({ cuts: [], recoveredMin: 0, shortfallMin: 12 });
+  });
+
+  it('never cuts below the minimum and always recovers min(wanted, slack)', () => {
+    const agenda = [
+      item('c', 'welcome', 10, 7),
+      item('a', 'insights', 17, 11),
+      item('b', 'point_of_view', 13, 9),
+      item('brk', 'break', 15, 15),
+      item('d', 'how_might_we', 23, 16),
+      item('e', 'dot_vote', 11, 11),
+      item('f', 'storyboard', 41, 20),
+    ];
+    const slack = 6 + 4 + 7 + 21;
+    for (let wanted = 0; wanted <= 45; wanted++) {
+      const s = suggestShortening(agenda, 0, wanted);
+      for (const c of s.cuts) {
+        const original = agenda.find((i) => i.id === c.itemId)!;
+        expect(c.toMin).toBeGreaterThanOrEqual(original.minTimeboxMin);
+        expect(c.toMin).toBeLessThan(c.fromMin);
+        expect(Number.isInteger(c.toMin)).toBe(true);
+      }
+      const recovered = s.cuts.reduce((sum, c) => sum + c.fromMin - c.toMin, 0);
+      expect(recovered).toBe(Math.min(wanted, slack));
+      expect(s.recoveredMin).toBe(recovered);
+      expect(s.shortfallMin).toBe(wanted - recovered);
+      // Deterministic: the same question gets the same answer.
+      expect(suggestShortening(agenda, 0, wanted)).toEqual(s);
+    }
+  });
+
+  it('rounds part minutes up and ignores nothing to recover', () => {
+    expect(suggestShortening(AGENDA, 0, 3.2).recoveredMin).toBe(4);
+    expect(suggestShortening(AGENDA, 0, 0)).toEqual({ cuts: [], recoveredMin: 0, shortfallMin: 0 });
+    expect(suggestShortening(AGENDA, 0, -5)).toEqual({ cuts: [], recoveredMin: 0, shortfallMin: 0 });
+  });
+
+  it('brings a late full day back to plan', () => {
+    // The full-day template, 12 min behind during the interview.
+    const { items, window } = instantiateTemplate('full-day', (() => { let n = 0; return () => `t${++n}`; })());
+    const rules = RuleSettings.parse({});
+    const plannedEnd = computeSchedule(items, window, rules).items.at(-1)!.endMin;
+    const interview = items.findIndex((i) => i.type === 'interview');
+    const start = computeSchedule(items, window, rules).items[interview]!.startMin;
+    const drift = computeDrift({
+      items,
+      window,
+      currentIndex: interview,
+      currentStartedAtMin: start + 12,
+      currentRemainingMin: items[interview]!.timeboxMin,
+      nowMin: start + 12,
+    });
+    expect(drift.driftMin).toBe(12);
+    const s = suggestShortening(items, interview, drift.driftMin);
+    expect(s.shortfallMin).toBe(0);
+    const shortened = items.map((i) => {
+      const cut = s.cuts.find((c) => c.itemId === i.id);
+      return cut ? { ...i, timeboxMin: cut.toMin } : i;
+    });
+    const after = computeDrift({
+      items: shortened,
+      window,
+      currentIndex: interview,
+      currentStartedAtMin: start + 12,
+      currentRemainingMin: items[interview]!.timeboxMin,
+      nowMin: start + 12,
+    });
+    expect(after.projectedEndMin).toBe(plannedEnd);
+  });
+});

@@ -1,0 +1,188 @@
+import { describe, expect, it } from 'vitest';
+import { ACTIVITY_LIBRARY, defaultMinTimebox, isBreakItem, newAgendaItem } from '../../shared/activities';
+import { computeSchedule, toMinutes } from '../../shared/schedule';
+import { instantiateTemplate, TEMPLATES } from '../../shared/templates';
+import { ActivityType, AgendaItem } from '../../shared/schemas/agenda-item';
+import { DayWindow, RuleSettings } from '../../shared/schemas/day-window';
+
+const rules = RuleSettings.parse({});
+const template = (id: 'full-day' | 'half-day') => TEMPLATES.find((t) => t.id === id)!;
+const CORE = ['opening', 'empathize', 'define', 'ideate', 'prototype', 'test', 'closing'];
+
+describe('activity library', () => {
+  it('has an entry for every activity type, under its own type', () => {
+    for (const type of ActivityType.options) expect(ACTIVITY_LIBRARY[type].type).toBe(type);
+  });
+
+  it('keeps the trade’s names and Cairn’s own', () => {
+    expect(ACTIVITY_LIBRARY.empathy_map.label).toBe('Empathy map');
+    expect(ACTIVITY_LIBRARY.how_might_we.label).toBe('How might we');
+    expect(ACTIVITY_LIBRARY.dot_vote.label).toBe('Dot vote');
+    expect(ACTIVITY_LIBRARY.preference_vote.label).toBe('Preference vote');
+    expect(ACTIVITY_LIBRARY.team_sort.label).toBe('Team sort');
+    expect(ACTIVITY_LIBRARY.test_rounds.label).toBe('Test rounds');
+  });
+
+  it('sets the shortest timebox at about two thirds of the default, breaks never cut', () => {
+    for (const def of Object.values(ACTIVITY_LIBRARY)) {
+      if (def.isBreak) expect(def.minTimeboxMin).toBe(def.defaultTimeboxMin);
+      else expect(def.minTimeboxMin).toBe(Math.round((def.defaultTimeboxMin * 2) / 3));
+      expect(def.minTimeboxMin).toBeLessThanOrEqual(def.defaultTimeboxMin);
+    }
+    expect(defaultMinTimebox(30)).toBe(20);
+    expect(defaultMinTimebox(1)).toBe(1);
+  });
+
+  it('uses the trade’s rules of thumb as default settings', () => {
+    // d.school gift-giving exercise: 2 × 4 min interview (each partner), then 2 × 4 min dig deeper.
+    expect(ACTIVITY_LIBRARY.interview.defaultSettings).toMatchObject({ rounds: 2, roundMinutes: 4 });
+    const interviewRoundsMin = 2 * (4 + 4);
+    expect(ACTIVITY_LIBRARY.interview.defaultTimeboxMin).toBeGreaterThanOrEqual(interviewRoundsMin);
+    // Common practice: 8 sketches in 8 minutes.
+    expect(ACTIVITY_LIBRARY.sketch.defaultSettings.sketchesPerPerson).toBe(8);
+    // Common practice; published method cards: a storyboard runs 10–20 steps, 20–60 min.
+    const frames = ACTIVITY_LIBRARY.storyboard.defaultSettings.storyboardFrames!;
+    expect(frames).toBeGreaterThanOrEqual(10);
+    expect(frames).toBeLessThanOrEqual(20);
+    expect(ACTIVITY_LIBRARY.storyboard.defaultTimeboxMin).toBeGreaterThanOrEqual(20);
+    expect(ACTIVITY_LIBRARY.storyboard.defaultTimeboxMin).toBeLessThanOrEqual(60);
+    // Published guides (Global Learning Partners; Dotmocracy handbook): 3–5 dots per voter common.
+    const dots = ACTIVITY_LIBRARY.dot_vote.defaultSettings.dotsPerVoter!;
+    expect(dots).toBeGreaterThanOrEqual(3);
+    expect(dots).toBeLessThanOrEqual(5);
+    // University design thinking guides: at most 4 groups per room.
+    expect(ACTIVITY_LIBRARY.team_sort.defaultSettings.teamCount).toBeLessThanOrEqual(4);
+    expect(ACTIVITY_LIBRARY.test_rounds.defaultSettings.rounds).toBe(2);
+  });
+
+  it('marks talk, breaks and movement', () => {
+    const talk = Object.values(ACTIVITY_LIBRARY).filter((d) => d.talkOnly).map((d) => d.type);
+    expect(talk.sort()).toEqual(['talk', 'welcome']);
+    const breaks = Object.values(ACTIVITY_LIBRARY).filter((d) => d.isBreak).map((d) => d.type);
+    expect(breaks.sort()).toEqual(['break', 'lunch']);
+    expect(ACTIVITY_LIBRARY.icebreaker.movement).toBe(true);
+  });
+
+  it('names the origin of every material quantity', () => {
+    for (const def of Object.values(ACTIVITY_LIBRARY)) {
+      for (const rule of def.materials) {
+        expect(rule.source).toMatch(/common practice|published|d\.school/);
+        expect(rule.quantity).toBeGreaterThan(0);
+      }
+    }
+  });
+
+  it('makes a valid agenda item of every type', () => {
+    for (const type of ActivityType.options) {
+      const item = newAgendaItem(type, `id-${type}`);
+      expect(AgendaItem.parse(item)).toEqual(item);
+      expect(item.phase).toBe(ACTIVITY_LIBRARY[type].phase);
+    }
+    // The settings are a copy: changing one item leaves the library alone.
+    newAgendaItem('dot_vote', 'x').settings.dotsPerVoter = 9;
+    expect(ACTIVITY_LIBRARY.dot_vote.defaultSettings.dotsPerVoter).toBe(3);
+  });
+});
+
+describe('templates', () => {
+  for (const t of TEMPLATES) {
+    it(`${t.name} gives no warnings with the default rules`, () => {
+      const { items, window } = instantiateTemplate(t.id, counter());
+      const s = computeSchedule(items, window, rules);
+      expect(s.warnings).toEqual([]);
+      expect(s.loadPct).toBeLessThanOrEqual(85);
+    });
+
+    it(`${t.name} is valid against the schemas and runs the phases in order`, () => {
+      expect(DayWindow.parse(t.window)).toEqual(t.window);
+      const { items } = instantiateTemplate(t.id, counter());
+      for (const item of items) {
+        AgendaItem.parse(item);
+        expect(item.minTimeboxMin).toBeLessThanOrEqual(item.timeboxMin);
+      }
+      const phases = items.filter((i) => !isBreakItem(i)).map((i) => i.phase);
+      const ranks = phases.map((p) => CORE.indexOf(p));
+      expect(ranks).toEqual([...ranks].sort((a, b) => a - b));
+      // Every phase of the day, from opening to closing.
+      expect(new Set(phases)).toEqual(new Set(CORE));
+    });
+  }
+
+  it('full day: all-day window and breaks of a full day', () => {
+    const t = template('full-day');
+    // Common practice: block 09:00–17:00, run 10:00–16:00.
+    expect(t.window).toEqual({ doorsOpen: '09:00', doorsClose: '17:00', start: '10:00', end: '16:00' });
+    const { items, window } = instantiateTemplate('full-day', counter());
+    const s = computeSchedule(items, window, rules);
+    expect(s.fullDay).toBe(true);
+    const at = (i: number) => s.items[i]!.startMin;
+    const lunchIndex = items.findIndex((i) => i.type === 'lunch');
+    // Published workshop-planning guides: lunch ≥ 45 min, a 15 min morning break,
+    // a couple of 15 min afternoon breaks.
+    expect(items[lunchIndex]!.timeboxMin).toBeGreaterThanOrEqual(45);
+    const breaks = items.map((item, i) => ({ item, i })).filter(({ item }) => item.type === 'break');
+    const morning = breaks.filter(({ i }) => i < lunchIndex);
+    const afternoon = breaks.filter(({ i }) => i > lunchIndex);
+    expect(morning.map(({ item }) => item.timeboxMin)).toEqual([15]);
+    expect(afternoon.map(({ item }) => item.timeboxMin)).toEqual([15, 15]);
+    // Lunch around midday.
+    expect(at(lunchIndex)).toBeGreaterThanOrEqual(toMinutes('11:30'));
+    expect(at(lunchIndex)).toBeLessThanOrEqual(toMinutes('13:00'));
+    // The activities the brief asks for, in this order.
+    expect(items.filter((i) => !isBreakItem(i)).map((i) => i.type)).toEqual([
+      'welcome',
+      'icebreaker',
+      'interview',
+      'empathy_map',
+      'insights',
+      'point_of_view',
+      'how_might_we',
+      'dot_vote',
+      'team_sort',
+      'sketch',
+      'storyboard',
+      'test_rounds',
+      'closing',
+    ]);
+  });
+
+  it('half day: about four hours, inside its doors', () => {
+    const t = template('half-day');
+    // Common practice: a 4-hour workshop.
+    expect(toMinutes(t.window.end) - toMinutes(t.window.start)).toBe(240);
+    const s = computeSchedule(instantiateTemplate('half-day', counter()).items, t.window, rules);
+    expect(s.fullDay).toBe(false);
+  });
+
+  it('prompts are set in the demo scenario', () => {
+    for (const t of TEMPLATES) {
+      const text = t.items.map((i) => i.prompt).join(' ');
+      expect(text).toMatch(/Harbour Lane Bike Co-op/);
+      expect(text).toMatch(/first ride/);
+      for (const i of t.items) expect(i.prompt.length).toBeGreaterThan(0);
+    }
+  });
+
+  it('instantiates with fresh ids and a copy the caller may change', () => {
+    const ids = ['a', 'b', 'c', 'd', 'e', 'f', 'g', 'h', 'i', 'j', 'k', 'l', 'm', 'n', 'o', 'p', 'q'];
+    let n = 0;
+    const { items, window } = instantiateTemplate('full-day', () => ids[n++]!);
+    expect(items.map((i) => i.id)).toEqual(ids.slice(0, items.length));
+    items[0]!.settings.dotsPerVoter = 7;
+    items[0]!.title = 'Changed';
+    window.start = '11:00';
+    const again = instantiateTemplate('full-day', counter());
+    expect(again.items[0]!.title).not.toBe('Changed');
+    expect(again.items[0]!.settings.dotsPerVoter).toBeUndefined();
+    expect(again.window.start).toBe('10:00');
+  });
+
+  it('refuses an unknown template', () => {
+    expect(() => instantiateTemplate('weekend' as 'full-day', counter())).toThrow(RangeError);
+  });
+});
+
+function counter(): () => string {
+  let n = 0;
+  return () => `item-${++n}`;
+}
