@@ -1,0 +1,156 @@
+import express from 'express';
+import http from 'node:http';
+import path from 'node:path';
+import fs from 'node:fs';
+import helmet from 'helmet';
+import cookieParser from 'cookie-parser';
+import { pino } from 'pino';
+import { pinoHttp } from 'pino-http';
+import { Server } from 'socket.io';
+import type { Config } from './config/env';
+import { openDatabase } from './db';
+import { seedDemo } from './db/seed';
+import { TokenService } from './common/tokens';
+import { ApiRoutes } from './common/route';
+import { errorHandler, notFoundHandler } from './common/errors';
+import type { AppContext } from './context';
+import { Mailer } from './features/mail/mail.service';
+import { AuthService } from './features/auth/auth.service';
+import { authRoutes } from './features/auth/auth.router';
+import { UsersService } from './features/users/users.service';
+import { usersRoutes } from './features/users/users.router';
+import { WorkshopsService } from './features/workshops/workshops.service';
+import { workshopsRoutes } from './features/workshops/workshops.router';
+import { systemRoutes } from './features/system/system.router';
+import { registerClockSocket } from './features/clock/clock.socket';
+import type { ClientToServerEvents, ServerToClientEvents, SocketData } from '../shared/events';
+
+/** A built Cairn app: Express and socket.io on one HTTP server that is not listening yet. */
+export interface CairnApp {
+  express: express.Express;
+  server: http.Server;
+  io: Server<ClientToServerEvents, ServerToClientEvents, Record<string, never>, SocketData>;
+  ctx: AppContext;
+  /** Closes sockets, the HTTP server, mail and the database. */
+  close(): Promise<void>;
+}
+
+/** Whether a socket handshake's Origin is the page's own host or one listed in CORS_ORIGINS; unparsable origins (`null`) are refused. */
+export function originAllowed(origin: string, host: string | undefined, allowed: string[]): boolean {
+  if (allowed.includes(origin)) return true;
+  try {
+    return host !== undefined && new URL(origin).host === host;
+  } catch {
+    return false;
+  }
+}
+
+/** Where the built client lives. */
+const DIST_DIR = path.resolve(import.meta.dirname, '..', 'dist');
+
+/**
+ * Builds Cairn: opens and migrates the database, seeds the demo on first start, wires every route
+ * and socket handler. Never listens; `index.ts` does, and tests use the returned server.
+ */
+export async function createApp(config: Config): Promise<CairnApp> {
+  const logger = pino({ level: config.logLevel });
+  const db = await openDatabase(config.databasePath);
+  if (config.seedDemo) {
+    if (await seedDemo(db)) logger.info('seeded the demo workshop');
+  }
+  const tokens = new TokenService(config.jwtSecret, config.accessTokenTtlSec);
+  const mail = await Mailer.create({ smtpUrl: config.smtpUrl, from: config.mailFrom, devPort: config.devSmtpPort });
+  const auth = new AuthService(db, tokens);
+  const users = new UsersService(db, config.allowSignup);
+  const workshops = new WorkshopsService(db);
+  const ctx: AppContext = {
+    config,
+    db,
+    tokens,
+    mail,
+    logger,
+    auth,
+    workshopRoleOf: (user, workshopId) => workshops.roleOf(user, workshopId),
+  };
+
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', 'loopback');
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        directives: {
+          defaultSrc: ["'self'"],
+          scriptSrc: ["'self'"],
+          // Quasar sets inline styles on components.
+          styleSrc: ["'self'", "'unsafe-inline'"],
+          imgSrc: ["'self'", 'data:', 'blob:'],
+          fontSrc: ["'self'", 'data:'],
+          connectSrc: ["'self'", 'ws:', 'wss:'],
+          objectSrc: ["'none'"],
+          frameAncestors: ["'none'"],
+          upgradeInsecureRequests: null,
+        },
+      },
+      // Phones reach a laptop at the venue over plain HTTP; HSTS would lock them out.
+      strictTransportSecurity: config.publicUrl?.startsWith('https:') ?? false,
+    }),
+  );
+  app.use(pinoHttp({ logger, autoLogging: config.nodeEnv !== 'test' }));
+  app.use(cookieParser());
+  app.use('/api', express.json({ limit: '100kb' }));
+
+  const routes = new ApiRoutes(ctx);
+  systemRoutes(routes, ctx, routes.meta);
+  authRoutes(routes, ctx, auth, users);
+  usersRoutes(routes, auth, users);
+  workshopsRoutes(routes, workshops);
+  app.use('/api', routes.router);
+  app.use('/api', notFoundHandler);
+
+  if (fs.existsSync(path.join(DIST_DIR, 'index.html'))) {
+    app.use(express.static(DIST_DIR, { index: false, maxAge: '1h' }));
+    app.get(/^\/(?!api\/|socket\.io\/).*/, (_req, res) => res.sendFile(path.join(DIST_DIR, 'index.html')));
+  }
+  app.use(errorHandler);
+
+  const server = http.createServer(app);
+  const io = new Server<ClientToServerEvents, ServerToClientEvents, Record<string, never>, SocketData>(server, {
+    maxHttpBufferSize: 256 * 1024,
+    pingInterval: 10_000,
+    pingTimeout: 8_000,
+    // Refuse handshakes from other sites: same origin as the page, or an origin listed in CORS_ORIGINS.
+    allowRequest: (req, callback) => {
+      const origin = req.headers.origin;
+      if (!origin) return callback(null, true);
+      const ok = originAllowed(origin, req.headers.host, config.corsOrigins);
+      callback(ok ? null : 'origin not allowed', ok);
+    },
+  });
+  io.use(async (socket, next) => {
+    const token = (socket.handshake.auth as { token?: unknown })?.token;
+    const caller = await auth.callerOfToken(typeof token === 'string' ? token : undefined);
+    if (caller.kind === 'user') socket.data = { kind: 'user', userId: caller.user.id };
+    else if (caller.kind === 'participant') {
+      socket.data = { kind: 'participant', participantId: caller.participantId, sessionId: caller.sessionId };
+    } else return next(new Error(caller.kind === 'problem' ? `token_${caller.problem}` : 'unauthenticated'));
+    next();
+  });
+  io.on('connection', (socket) => {
+    registerClockSocket(socket);
+  });
+
+  return {
+    express: app,
+    server,
+    io,
+    ctx,
+    async close() {
+      io.disconnectSockets(true);
+      await new Promise<void>((resolve) => io.close(() => resolve()));
+      if (server.listening) await new Promise<void>((resolve) => server.close(() => resolve()));
+      await mail.close();
+      await db.close();
+    },
+  };
+}

@@ -1,0 +1,54 @@
+import type { ErrorRequestHandler, RequestHandler } from 'express';
+import { z } from 'zod';
+import { fieldErrors, type ErrorCode } from '../../shared/errors';
+
+/** An error that carries its HTTP status and Cairn error code to the one error format. */
+export class AppError extends Error {
+  constructor(
+    public status: number,
+    public code: ErrorCode,
+    message: string,
+    public fields?: Record<string, string>,
+  ) {
+    super(message);
+  }
+}
+
+/** Shorthands for the errors every feature raises. */
+export const errors = {
+  badRequest: (message: string) => new AppError(400, 'bad_request', message),
+  validation: (error: z.ZodError, what = 'The request') =>
+    new AppError(400, 'validation_failed', `${what} has fields that need fixing`, fieldErrors(error)),
+  unauthenticated: (message = 'Sign in first') => new AppError(401, 'unauthenticated', message),
+  forbidden: (message = 'Your role does not allow this') => new AppError(403, 'forbidden', message),
+  notFound: (what = 'That') => new AppError(404, 'not_found', `${what} was not found`),
+  conflict: (message: string) => new AppError(409, 'conflict', message),
+};
+
+/** Answers unknown API paths with the one error format. */
+export const notFoundHandler: RequestHandler = (_req, res) => {
+  res.status(404).json({ error: { code: 'not_found', message: 'No such API route' } });
+};
+
+/** Turns anything thrown into `{ error: { code, message } }` with the right status. */
+export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
+  if (err instanceof AppError) {
+    res.status(err.status).json({ error: { code: err.code, message: err.message, ...(err.fields ? { fields: err.fields } : {}) } });
+    return;
+  }
+  if (err instanceof z.ZodError) {
+    res.status(400).json({ error: { code: 'validation_failed', message: 'The request has fields that need fixing', fields: fieldErrors(err) } });
+    return;
+  }
+  const e = err as { type?: string; status?: number; code?: string };
+  if (e.type === 'entity.too.large' || e.code === 'LIMIT_FILE_SIZE') {
+    res.status(413).json({ error: { code: 'payload_too_large', message: 'That is too large to send' } });
+    return;
+  }
+  if (e.type === 'entity.parse.failed') {
+    res.status(400).json({ error: { code: 'bad_request', message: 'The body is not valid JSON' } });
+    return;
+  }
+  (req as { log?: { error: (o: unknown, m: string) => void } }).log?.error({ err }, 'unhandled error');
+  res.status(500).json({ error: { code: 'internal', message: 'Something went wrong on the server' } });
+};

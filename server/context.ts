@@ -1,0 +1,27 @@
+import type { Request } from 'express';
+import type { Logger } from 'pino';
+import type { Config } from './config/env';
+import type { Database } from './db';
+import type { UserRow } from './db/models';
+import type { TokenService, TokenProblem } from './common/tokens';
+import type { WorkshopAccessRole } from './common/access';
+import type { Mailer } from './features/mail/mail.service';
+
+/** Who is calling: nobody, an account, a participant, or someone whose token was refused. */
+export type Caller =
+  | { kind: 'anonymous' }
+  | { kind: 'problem'; problem: TokenProblem }
+  | { kind: 'user'; user: UserRow }
+  | { kind: 'participant'; participantId: string; sessionId: string };
+
+/** The services every router and socket handler reaches through one object. */
+export interface AppContext {
+  config: Config;
+  db: Database;
+  tokens: TokenService;
+  mail: Mailer;
+  logger: Logger;
+  auth: { callerOf(req: Request): Promise<Caller>; callerOfToken(token: string | undefined): Promise<Caller> };
+  /** The account's role on a workshop, `null` for none, `'missing'` when there is no such workshop. */
+  workshopRoleOf(user: UserRow, workshopId: string): Promise<WorkshopAccessRole | null | 'missing'>;
+}

@@ -1,0 +1,215 @@
+import {
+  DataTypes,
+  Model,
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type Sequelize,
+  type ModelStatic,
+} from 'sequelize';
+import type { GlobalRole } from '../../shared/schemas/user';
+import type { ActivitySettings } from '../../shared/schemas/agenda-item';
+import type { DayWindow, RuleSettings } from '../../shared/schemas/day-window';
+
+const timestamps = {
+  createdAt: DataTypes.DATE,
+  updatedAt: DataTypes.DATE,
+};
+
+/** An account row. */
+export interface UserRow extends Model<InferAttributes<UserRow>, InferCreationAttributes<UserRow>> {
+  id: string;
+  email: string;
+  name: string;
+  passwordHash: string;
+  role: GlobalRole;
+  disabled: CreationOptional<boolean>;
+  tokenVersion: CreationOptional<number>;
+  createdAt: CreationOptional<Date>;
+  updatedAt: CreationOptional<Date>;
+}
+
+/** A server-wide setting row (JSON value). */
+export interface SettingRow extends Model<InferAttributes<SettingRow>, InferCreationAttributes<SettingRow>> {
+  key: string;
+  value: string;
+  createdAt: CreationOptional<Date>;
+  updatedAt: CreationOptional<Date>;
+}
+
+/** A workshop row (its brief; agenda items are rows of their own). */
+export interface WorkshopRow extends Model<InferAttributes<WorkshopRow>, InferCreationAttributes<WorkshopRow>> {
+  id: string;
+  ownerId: string;
+  title: string;
+  objective: string;
+  persona: string;
+  date: string;
+  window: DayWindow;
+  venueNotes: string;
+  headcount: number;
+  teamCount: number;
+  roomCapacity: number | null;
+  consentText: string;
+  rules: RuleSettings;
+  packed: string[];
+  createdAt: CreationOptional<Date>;
+  updatedAt: CreationOptional<Date>;
+}
+
+/** An agenda item row, ordered by position within its workshop. */
+export interface AgendaItemRow extends Model<InferAttributes<AgendaItemRow>, InferCreationAttributes<AgendaItemRow>> {
+  id: string;
+  workshopId: string;
+  position: number;
+  type: string;
+  phase: string;
+  title: string;
+  timeboxMin: number;
+  minTimeboxMin: number;
+  prompt: string;
+  settings: ActivitySettings;
+  createdAt: CreationOptional<Date>;
+  updatedAt: CreationOptional<Date>;
+}
+
+/** A per-workshop role of an account (co-facilitator or observer). */
+export interface MembershipRow extends Model<InferAttributes<MembershipRow>, InferCreationAttributes<MembershipRow>> {
+  id: string;
+  workshopId: string;
+  userId: string;
+  role: 'cofacilitator' | 'observer';
+  createdAt: CreationOptional<Date>;
+  updatedAt: CreationOptional<Date>;
+}
+
+/** An invitation by e-mail to a per-workshop role. */
+export interface InvitationRow extends Model<InferAttributes<InvitationRow>, InferCreationAttributes<InvitationRow>> {
+  id: string;
+  workshopId: string;
+  email: string;
+  role: 'cofacilitator' | 'observer';
+  tokenHash: string;
+  invitedById: string;
+  acceptedAt: Date | null;
+  expiresAt: Date;
+  createdAt: CreationOptional<Date>;
+  updatedAt: CreationOptional<Date>;
+}
+
+/** A one-time password-reset token (stored hashed). */
+export interface PasswordResetRow extends Model<InferAttributes<PasswordResetRow>, InferCreationAttributes<PasswordResetRow>> {
+  id: string;
+  userId: string;
+  tokenHash: string;
+  usedAt: Date | null;
+  expiresAt: Date;
+  createdAt: CreationOptional<Date>;
+  updatedAt: CreationOptional<Date>;
+}
+
+/** The models of one database, defined on its own Sequelize instance so tests can open several. */
+export interface Models {
+  User: ModelStatic<UserRow>;
+  Setting: ModelStatic<SettingRow>;
+  Workshop: ModelStatic<WorkshopRow>;
+  AgendaItem: ModelStatic<AgendaItemRow>;
+  Membership: ModelStatic<MembershipRow>;
+  Invitation: ModelStatic<InvitationRow>;
+  PasswordReset: ModelStatic<PasswordResetRow>;
+}
+
+/** Defines Cairn's models on a Sequelize instance (the tables come from the migrations). */
+export function defineModels(sequelize: Sequelize): Models {
+  const str = (n: number) => ({ type: DataTypes.STRING(n), allowNull: false });
+  const User = sequelize.define<UserRow>(
+    'User',
+    {
+      id: { type: DataTypes.STRING(36), primaryKey: true },
+      email: str(254),
+      name: str(80),
+      passwordHash: str(100),
+      role: str(20),
+      disabled: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+      tokenVersion: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
+      ...timestamps,
+    },
+    { tableName: 'users' },
+  );
+  const Setting = sequelize.define<SettingRow>(
+    'Setting',
+    { key: { type: DataTypes.STRING(60), primaryKey: true }, value: { type: DataTypes.TEXT, allowNull: false }, ...timestamps },
+    { tableName: 'settings' },
+  );
+  const Workshop = sequelize.define<WorkshopRow>(
+    'Workshop',
+    {
+      id: { type: DataTypes.STRING(36), primaryKey: true },
+      ownerId: str(36),
+      title: str(120),
+      objective: { type: DataTypes.TEXT, allowNull: false },
+      persona: { type: DataTypes.TEXT, allowNull: false },
+      date: str(10),
+      window: { type: DataTypes.JSON, allowNull: false },
+      venueNotes: { type: DataTypes.TEXT, allowNull: false },
+      headcount: { type: DataTypes.INTEGER, allowNull: false },
+      teamCount: { type: DataTypes.INTEGER, allowNull: false },
+      roomCapacity: { type: DataTypes.INTEGER, allowNull: true },
+      consentText: { type: DataTypes.TEXT, allowNull: false },
+      rules: { type: DataTypes.JSON, allowNull: false },
+      packed: { type: DataTypes.JSON, allowNull: false },
+      ...timestamps,
+    },
+    { tableName: 'workshops' },
+  );
+  const AgendaItem = sequelize.define<AgendaItemRow>(
+    'AgendaItem',
+    {
+      id: { type: DataTypes.STRING(64), primaryKey: true },
+      workshopId: str(36),
+      position: { type: DataTypes.INTEGER, allowNull: false },
+      type: str(30),
+      phase: str(20),
+      title: str(120),
+      timeboxMin: { type: DataTypes.INTEGER, allowNull: false },
+      minTimeboxMin: { type: DataTypes.INTEGER, allowNull: false },
+      prompt: { type: DataTypes.TEXT, allowNull: false },
+      settings: { type: DataTypes.JSON, allowNull: false },
+      ...timestamps,
+    },
+    { tableName: 'agenda_items' },
+  );
+  const Membership = sequelize.define<MembershipRow>(
+    'Membership',
+    { id: { type: DataTypes.STRING(36), primaryKey: true }, workshopId: str(36), userId: str(36), role: str(20), ...timestamps },
+    { tableName: 'memberships' },
+  );
+  const Invitation = sequelize.define<InvitationRow>(
+    'Invitation',
+    {
+      id: { type: DataTypes.STRING(36), primaryKey: true },
+      workshopId: str(36),
+      email: str(254),
+      role: str(20),
+      tokenHash: str(64),
+      invitedById: str(36),
+      acceptedAt: { type: DataTypes.DATE, allowNull: true },
+      expiresAt: { type: DataTypes.DATE, allowNull: false },
+      ...timestamps,
+    },
+    { tableName: 'invitations' },
+  );
+  const PasswordReset = sequelize.define<PasswordResetRow>(
+    'PasswordReset',
+    {
+      id: { type: DataTypes.STRING(36), primaryKey: true },
+      userId: str(36),
+      tokenHash: str(64),
+      usedAt: { type: DataTypes.DATE, allowNull: true },
+      expiresAt: { type: DataTypes.DATE, allowNull: false },
+      ...timestamps,
+    },
+    { tableName: 'password_resets' },
+  );
+  return { User, Setting, Workshop, AgendaItem, Membership, Invitation, PasswordReset };
+}

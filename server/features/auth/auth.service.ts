@@ -1,0 +1,156 @@
+import bcrypt from 'bcryptjs';
+import crypto from 'node:crypto';
+import type { Request } from 'express';
+import type { Database } from '../../db';
+import type { UserRow } from '../../db/models';
+import type { TokenService } from '../../common/tokens';
+import type { Caller } from '../../context';
+import { AppError, errors } from '../../common/errors';
+import type { GlobalRole, User } from '../../../shared/schemas/user';
+
+/** bcrypt cost: about 100 ms a hash on a laptop, slow enough for guessing, quick enough for sign-in. */
+const BCRYPT_COST = 10;
+/** A hash to compare against when the e-mail is unknown, so timing does not reveal accounts. */
+const DUMMY_HASH = bcrypt.hashSync('cairn-no-such-account', BCRYPT_COST);
+
+/** Hashes a password with bcrypt. */
+export function hashPassword(password: string): Promise<string> {
+  return bcrypt.hash(password, BCRYPT_COST);
+}
+
+/** Hashes a one-time token (invitation, password reset) for storage. */
+export function hashToken(token: string): string {
+  return crypto.createHash('sha256').update(token).digest('hex');
+}
+
+/** Makes a random one-time token for a link. */
+export function newToken(): string {
+  return crypto.randomBytes(32).toString('base64url');
+}
+
+/** An account row as the API shows it. */
+export function toUser(row: UserRow): User {
+  return {
+    id: row.id,
+    email: row.email,
+    name: row.name,
+    role: row.role,
+    disabled: row.disabled,
+    createdAt: row.createdAt.toISOString(),
+  };
+}
+
+/** Accounts, passwords and tokens: the rules of signing in live here. */
+export class AuthService {
+  constructor(
+    private db: Database,
+    private tokens: TokenService,
+  ) {}
+
+  /** Works out who sent a request from its bearer token. */
+  callerOf(req: Request): Promise<Caller> {
+    const header = req.headers.authorization;
+    const token = header?.startsWith('Bearer ') ? header.slice(7).trim() : undefined;
+    return this.callerOfToken(token);
+  }
+
+  /** Works out who holds a token (access token of an account, or a participant token). */
+  async callerOfToken(token: string | undefined): Promise<Caller> {
+    if (!token) return { kind: 'anonymous' };
+    const v = this.tokens.verify(token);
+    if (!v.ok) return { kind: 'problem', problem: v.problem };
+    const c = v.claims;
+    if (c.kind === 'participant') return { kind: 'participant', participantId: c.sub, sessionId: c.sid };
+    if (c.kind !== 'user') return { kind: 'problem', problem: 'invalid' };
+    const user = await this.db.models.User.findByPk(c.sub);
+    if (!user || user.disabled || user.tokenVersion !== c.tv) return { kind: 'problem', problem: 'invalid' };
+    return { kind: 'user', user };
+  }
+
+  /** Checks an e-mail and password; the same message for an unknown e-mail and a wrong password. */
+  async signIn(email: string, password: string): Promise<UserRow> {
+    const user = await this.db.models.User.findOne({ where: { email } });
+    const ok = await bcrypt.compare(password, user?.passwordHash ?? DUMMY_HASH);
+    if (!user || !ok) throw new AppError(401, 'wrong_credentials', 'That e-mail and password do not match an account');
+    if (user.disabled) throw new AppError(403, 'forbidden', 'This account is disabled; ask your Cairn admin');
+    return user;
+  }
+
+  /** Creates an account; fails with a conflict if the e-mail is taken. */
+  async createUser(input: { email: string; name: string; password: string; role: GlobalRole }): Promise<UserRow> {
+    const existing = await this.db.models.User.findOne({ where: { email: input.email } });
+    if (existing) throw errors.conflict('An account with that e-mail already exists');
+    return this.db.models.User.create({
+      id: crypto.randomUUID(),
+      email: input.email,
+      name: input.name,
+      role: input.role,
+      passwordHash: await hashPassword(input.password),
+    });
+  }
+
+  /** Issues the access and refresh tokens of a session. */
+  issue(user: UserRow): { access: string; refresh: string; expiresInSec: number } {
+    return {
+      access: this.tokens.signAccess(user.id, user.tokenVersion),
+      refresh: this.tokens.signRefresh(user.id, user.tokenVersion),
+      expiresInSec: this.tokens.accessTtl,
+    };
+  }
+
+  /** Exchanges a refresh token for the account it belongs to, if still valid. */
+  async fromRefresh(token: string | undefined): Promise<UserRow> {
+    if (!token) throw errors.unauthenticated('Not signed in');
+    const v = this.tokens.verify(token);
+    if (!v.ok || v.claims.kind !== 'refresh') throw errors.unauthenticated('Not signed in');
+    const user = await this.db.models.User.findByPk(v.claims.sub);
+    if (!user || user.disabled || user.tokenVersion !== v.claims.tv) throw errors.unauthenticated('Not signed in');
+    return user;
+  }
+
+  /** Ends every session of the account (all its tokens stop working). */
+  async signOutEverywhere(user: UserRow): Promise<void> {
+    await user.increment('tokenVersion');
+  }
+
+  /** Changes a password after checking the current one; other sessions are signed out. */
+  async changePassword(user: UserRow, current: string, next: string): Promise<UserRow> {
+    if (!(await bcrypt.compare(current, user.passwordHash))) {
+      throw new AppError(400, 'wrong_credentials', 'Your current password is not right', { currentPassword: 'Not right' });
+    }
+    user.passwordHash = await hashPassword(next);
+    user.tokenVersion += 1;
+    await user.save();
+    return user;
+  }
+
+  /** Starts a password reset: returns the one-time token, or null when the e-mail has no account. */
+  async startReset(email: string): Promise<{ user: UserRow; token: string } | null> {
+    const user = await this.db.models.User.findOne({ where: { email } });
+    if (!user || user.disabled) return null;
+    const token = newToken();
+    await this.db.models.PasswordReset.create({
+      id: crypto.randomUUID(),
+      userId: user.id,
+      tokenHash: hashToken(token),
+      usedAt: null,
+      expiresAt: new Date(Date.now() + 60 * 60 * 1000),
+    });
+    return { user, token };
+  }
+
+  /** Completes a password reset with a one-time token. */
+  async confirmReset(token: string, newPassword: string): Promise<void> {
+    const row = await this.db.models.PasswordReset.findOne({ where: { tokenHash: hashToken(token) } });
+    if (!row || row.usedAt || row.expiresAt.getTime() < Date.now()) {
+      throw new AppError(400, 'bad_request', 'This reset link is no longer valid; ask for a new one');
+    }
+    const user = await this.db.models.User.findByPk(row.userId);
+    if (!user) throw errors.notFound('The account');
+    user.passwordHash = await hashPassword(newPassword);
+    user.tokenVersion += 1;
+    await user.save();
+    row.usedAt = new Date();
+    await row.save();
+  }
+}

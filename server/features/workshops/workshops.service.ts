@@ -1,0 +1,246 @@
+import crypto from 'node:crypto';
+import { Op } from 'sequelize';
+import type { Database } from '../../db';
+import type { AgendaItemRow, UserRow, WorkshopRow } from '../../db/models';
+import { errors } from '../../common/errors';
+import type { WorkshopAccessRole } from '../../common/access';
+import { instantiateTemplate } from '../../../shared/templates';
+import { newAgendaItem } from '../../../shared/activities';
+import { RuleSettings } from '../../../shared/schemas/day-window';
+import {
+  DEFAULT_CONSENT_TEXT,
+  type CreateWorkshopBody,
+  type UpdateWorkshopBody,
+  type Workshop,
+  type WorkshopSummary,
+} from '../../../shared/schemas/workshop';
+import { AgendaItem, type ActivityType, type AgendaItemInput } from '../../../shared/schemas/agenda-item';
+
+/** The default window of a workshop that starts from a blank page (common practice: 09:00–17:00, run 10:00–16:00). */
+const DEFAULT_WINDOW = { doorsOpen: '09:00', doorsClose: '17:00', start: '10:00', end: '16:00' };
+
+/** An agenda item row as the shared schema describes it. */
+export function toAgendaItem(row: AgendaItemRow): AgendaItem {
+  return AgendaItem.parse({
+    id: row.id,
+    type: row.type,
+    phase: row.phase,
+    title: row.title,
+    timeboxMin: row.timeboxMin,
+    minTimeboxMin: row.minTimeboxMin,
+    prompt: row.prompt,
+    settings: row.settings ?? {},
+  });
+}
+
+/** Workshops and their agendas: the planning rules of Cairn's server live here. */
+export class WorkshopsService {
+  constructor(private db: Database) {}
+
+  /** The account's role on a workshop, `null` for none, `'missing'` for no such workshop. */
+  async roleOf(user: UserRow, workshopId: string): Promise<WorkshopAccessRole | null | 'missing'> {
+    const w = await this.db.models.Workshop.findByPk(workshopId, { attributes: ['id', 'ownerId'] });
+    if (!w) return 'missing';
+    if (w.ownerId === user.id) return 'owner';
+    const m = await this.db.models.Membership.findOne({ where: { workshopId, userId: user.id } });
+    if (m) return m.role;
+    return user.role === 'admin' ? 'admin' : null;
+  }
+
+  /** The workshops an account may see: its own, those it was invited to, and every one for an admin. */
+  async list(user: UserRow): Promise<WorkshopSummary[]> {
+    const { Workshop, Membership, User, AgendaItem: Item } = this.db.models;
+    const memberships = await Membership.findAll({ where: { userId: user.id } });
+    const roleById = new Map<string, WorkshopAccessRole>(memberships.map((m) => [m.workshopId, m.role]));
+    const where =
+      user.role === 'admin' ? {} : { [Op.or]: [{ ownerId: user.id }, { id: { [Op.in]: [...roleById.keys()] } }] };
+    const rows = await Workshop.findAll({ where, order: [['date', 'DESC'], ['createdAt', 'DESC']] });
+    const owners = await User.findAll({ where: { id: { [Op.in]: [...new Set(rows.map((r) => r.ownerId))] } } });
+    const ownerName = new Map(owners.map((o) => [o.id, o.name]));
+    const counts = (await Item.count({ where: { workshopId: { [Op.in]: rows.map((r) => r.id) } }, group: ['workshopId'] })) as unknown as {
+      workshopId: string;
+      count: number;
+    }[];
+    const countById = new Map(counts.map((c) => [c.workshopId, Number(c.count)]));
+    return rows.map((r) => ({
+      id: r.id,
+      title: r.title,
+      date: r.date,
+      headcount: r.headcount,
+      ownerName: ownerName.get(r.ownerId) ?? '',
+      myRole: r.ownerId === user.id ? 'owner' : (roleById.get(r.id) ?? 'admin'),
+      itemCount: countById.get(r.id) ?? 0,
+      updatedAt: r.updatedAt.toISOString(),
+    }));
+  }
+
+  /** One workshop with its agenda, as the caller sees it. */
+  async get(workshopId: string, myRole: WorkshopAccessRole): Promise<Workshop> {
+    const w = await this.row(workshopId);
+    const owner = await this.db.models.User.findByPk(w.ownerId);
+    return this.toWorkshop(w, owner?.name ?? '', myRole, await this.agenda(workshopId));
+  }
+
+  /** The agenda of a workshop, in order. */
+  async agenda(workshopId: string): Promise<AgendaItem[]> {
+    const rows = await this.db.models.AgendaItem.findAll({ where: { workshopId }, order: [['position', 'ASC']] });
+    return rows.map(toAgendaItem);
+  }
+
+  /** Creates a workshop for its owner, from a template or with an empty agenda. */
+  async create(owner: UserRow, body: CreateWorkshopBody): Promise<string> {
+    const id = crypto.randomUUID();
+    const fromTemplate = body.templateId ? instantiateTemplate(body.templateId, () => crypto.randomUUID()) : null;
+    await this.db.writeTx(async (transaction) => {
+      await this.db.models.Workshop.create(
+        {
+          id,
+          ownerId: owner.id,
+          title: body.title,
+          objective: body.objective,
+          persona: body.persona ?? '',
+          date: body.date,
+          window: body.window ?? fromTemplate?.window ?? DEFAULT_WINDOW,
+          venueNotes: body.venueNotes ?? '',
+          headcount: body.headcount,
+          teamCount: body.teamCount ?? 3,
+          roomCapacity: body.roomCapacity ?? null,
+          consentText: body.consentText ?? DEFAULT_CONSENT_TEXT,
+          rules: body.rules ?? RuleSettings.parse({}),
+          packed: [],
+        },
+        { transaction },
+      );
+      const items = fromTemplate?.items ?? [];
+      await this.db.models.AgendaItem.bulkCreate(
+        items.map((item, position) => ({ ...item, workshopId: id, position })),
+        { transaction },
+      );
+    });
+    return id;
+  }
+
+  /** Changes any part of the brief. */
+  async update(workshopId: string, body: UpdateWorkshopBody): Promise<void> {
+    const w = await this.row(workshopId);
+    w.set(body);
+    await w.save();
+  }
+
+  /** Deletes a workshop and everything in it. */
+  async remove(workshopId: string): Promise<void> {
+    const w = await this.row(workshopId);
+    await this.db.writeTx(async (transaction) => {
+      await this.db.models.AgendaItem.destroy({ where: { workshopId }, transaction });
+      await this.db.models.Membership.destroy({ where: { workshopId }, transaction });
+      await this.db.models.Invitation.destroy({ where: { workshopId }, transaction });
+      await w.destroy({ transaction });
+    });
+  }
+
+  /** Adds an item, from the library's defaults for its type or as typed, at a position (default: the end). */
+  async addItem(
+    workshopId: string,
+    input: { type: ActivityType; position?: number; item?: AgendaItemInput },
+  ): Promise<AgendaItem> {
+    await this.row(workshopId);
+    const id = crypto.randomUUID();
+    const item: AgendaItem = input.item ? { ...input.item, id } : newAgendaItem(input.type, id);
+    await this.db.writeTx(async (transaction) => {
+      const items = await this.db.models.AgendaItem.findAll({ where: { workshopId }, order: [['position', 'ASC']], transaction });
+      const at = Math.min(input.position ?? items.length, items.length);
+      for (const row of items.slice(at)) await row.update({ position: row.position + 1 }, { transaction });
+      await this.db.models.AgendaItem.create({ ...item, workshopId, position: at }, { transaction });
+    });
+    return item;
+  }
+
+  /** Replaces an item's fields. */
+  async updateItem(workshopId: string, itemId: string, input: AgendaItemInput): Promise<AgendaItem> {
+    const row = await this.itemRow(workshopId, itemId);
+    await row.update({ ...input });
+    return toAgendaItem(row);
+  }
+
+  /** Copies an item right after itself. */
+  async duplicateItem(workshopId: string, itemId: string): Promise<AgendaItem> {
+    const row = await this.itemRow(workshopId, itemId);
+    const { id: _id, ...copy } = toAgendaItem(row);
+    return this.addItem(workshopId, { type: copy.type, position: row.position + 1, item: { ...copy, title: copy.title } });
+  }
+
+  /** Removes an item and closes the gap. */
+  async removeItem(workshopId: string, itemId: string): Promise<void> {
+    const row = await this.itemRow(workshopId, itemId);
+    await this.db.writeTx(async (transaction) => {
+      await row.destroy({ transaction });
+      const later = await this.db.models.AgendaItem.findAll({
+        where: { workshopId, position: { [Op.gt]: row.position } },
+        transaction,
+      });
+      for (const r of later) await r.update({ position: r.position - 1 }, { transaction });
+    });
+  }
+
+  /** Puts the agenda in a new order; the ids must be exactly the agenda's items. */
+  async reorder(workshopId: string, ids: string[]): Promise<AgendaItem[]> {
+    await this.db.writeTx(async (transaction) => {
+      const rows = await this.db.models.AgendaItem.findAll({ where: { workshopId }, transaction });
+      const known = new Set(rows.map((r) => r.id));
+      if (ids.length !== rows.length || new Set(ids).size !== ids.length || !ids.every((id) => known.has(id))) {
+        throw errors.badRequest('The new order must list every item of the agenda exactly once');
+      }
+      const pos = new Map(ids.map((id, i) => [id, i]));
+      for (const r of rows) {
+        const p = pos.get(r.id)!;
+        if (r.position !== p) await r.update({ position: p }, { transaction });
+      }
+    });
+    return this.agenda(workshopId);
+  }
+
+  /** Stores which packing-list lines are ticked off. */
+  async setPacked(workshopId: string, keys: string[]): Promise<string[]> {
+    const w = await this.row(workshopId);
+    w.packed = [...new Set(keys)];
+    await w.save();
+    return w.packed;
+  }
+
+  /** The workshop row, or a not-found error. */
+  async row(workshopId: string): Promise<WorkshopRow> {
+    const w = await this.db.models.Workshop.findByPk(workshopId);
+    if (!w) throw errors.notFound('That workshop');
+    return w;
+  }
+
+  private async itemRow(workshopId: string, itemId: string): Promise<AgendaItemRow> {
+    const row = await this.db.models.AgendaItem.findOne({ where: { id: itemId, workshopId } });
+    if (!row) throw errors.notFound('That agenda item');
+    return row;
+  }
+
+  private toWorkshop(w: WorkshopRow, ownerName: string, myRole: WorkshopAccessRole, agenda: AgendaItem[]): Workshop {
+    return {
+      id: w.id,
+      ownerId: w.ownerId,
+      ownerName,
+      myRole,
+      title: w.title,
+      objective: w.objective,
+      persona: w.persona,
+      date: w.date,
+      window: w.window,
+      venueNotes: w.venueNotes,
+      headcount: w.headcount,
+      teamCount: w.teamCount,
+      roomCapacity: w.roomCapacity,
+      consentText: w.consentText,
+      rules: RuleSettings.parse(w.rules ?? {}),
+      agenda,
+      packed: w.packed ?? [],
+      createdAt: w.createdAt.toISOString(),
+      updatedAt: w.updatedAt.toISOString(),
+    };
+  }
+}
