@@ -1,0 +1,66 @@
+import type { ErrorCode } from '../../shared/errors';
+
+/** An error the API answered with: its code, message and field-by-field problems. */
+export class ApiError extends Error {
+  constructor(
+    public status: number,
+    public code: ErrorCode | 'network',
+    message: string,
+    public fields: Record<string, string> = {},
+  ) {
+    super(message);
+  }
+}
+
+/** How the HTTP client gets and renews the access token (set by the session store). */
+export interface TokenSource {
+  token(): string | null;
+  /** Tries to renew the access token; resolves to whether it worked. */
+  renew(): Promise<boolean>;
+}
+
+let tokens: TokenSource = { token: () => null, renew: async () => false };
+
+/** Plugs the session store into the HTTP client. */
+export function useTokenSource(source: TokenSource): void {
+  tokens = source;
+}
+
+async function send<T>(method: string, path: string, body?: unknown, retry = true): Promise<T> {
+  const headers: Record<string, string> = { Accept: 'application/json' };
+  const token = tokens.token();
+  if (token) headers.Authorization = `Bearer ${token}`;
+  if (body !== undefined) headers['Content-Type'] = 'application/json';
+  let res: Response;
+  try {
+    res = await fetch(`/api${path}`, {
+      method,
+      headers,
+      body: body === undefined ? undefined : JSON.stringify(body),
+      credentials: 'same-origin',
+    });
+  } catch {
+    throw new ApiError(0, 'network', 'Cairn cannot reach the server; check the connection and try again');
+  }
+  if (res.status === 401 && retry && token && (await tokens.renew())) {
+    return send<T>(method, path, body, false);
+  }
+  if (res.status === 204) return undefined as T;
+  const data = (await res.json().catch(() => null)) as
+    | { error?: { code: ErrorCode; message: string; fields?: Record<string, string> } }
+    | null;
+  if (!res.ok) {
+    const e = data?.error;
+    throw new ApiError(res.status, e?.code ?? 'internal', e?.message ?? `The server answered ${res.status}`, e?.fields ?? {});
+  }
+  return data as T;
+}
+
+/** Cairn's typed HTTP client for `/api`. */
+export const http = {
+  get: <T>(path: string) => send<T>('GET', path),
+  post: <T>(path: string, body?: unknown) => send<T>('POST', path, body ?? {}),
+  put: <T>(path: string, body: unknown) => send<T>('PUT', path, body),
+  patch: <T>(path: string, body: unknown) => send<T>('PATCH', path, body),
+  delete: <T = void>(path: string) => send<T>('DELETE', path),
+};

@@ -1,0 +1,34 @@
+import { createApp } from 'vue';
+import { createPinia } from 'pinia';
+import { Quasar, Notify, Dialog } from 'quasar';
+import iconSet from 'quasar/icon-set/svg-mdi-v7';
+import '@fontsource/source-sans-3/400.css';
+import '@fontsource/source-sans-3/600.css';
+import '@fontsource/source-sans-3/700.css';
+import 'quasar/dist/quasar.css';
+import './css/app.css';
+import App from './App.vue';
+import { createCairnRouter } from './router';
+import { LIGHT } from './theme/palette';
+
+const app = createApp(App);
+app.use(createPinia());
+app.use(Quasar, {
+  plugins: { Notify, Dialog },
+  iconSet,
+  config: {
+    brand: {
+      primary: LIGHT.primary,
+      secondary: LIGHT.sand,
+      accent: LIGHT.accent,
+      dark: '#0e2a28',
+      positive: LIGHT.positive,
+      negative: LIGHT.negative,
+      info: LIGHT.info,
+      warning: '#e0a526',
+    },
+    notify: { position: 'top' },
+  },
+});
+app.use(createCairnRouter());
+app.mount('#app');

@@ -1,0 +1,49 @@
+import { createRouter, createWebHistory, type RouteRecordRaw } from 'vue-router';
+import { useSessionStore } from '../stores/session';
+
+/** Route meta: `public` routes need no sign-in; `admin` routes need the admin role. */
+declare module 'vue-router' {
+  interface RouteMeta {
+    public?: boolean;
+    admin?: boolean;
+  }
+}
+
+const routes: RouteRecordRaw[] = [
+  {
+    path: '/',
+    component: () => import('../layouts/PlainLayout.vue'),
+    children: [
+      { path: '', redirect: { name: 'workshops' } },
+      { path: 'sign-in', name: 'sign-in', component: () => import('../pages/sign-in.vue'), meta: { public: true } },
+      { path: 'sign-up', name: 'sign-up', component: () => import('../pages/sign-up.vue'), meta: { public: true } },
+      { path: 'forgot-password', name: 'forgot-password', component: () => import('../pages/forgot-password.vue'), meta: { public: true } },
+      { path: 'reset-password', name: 'reset-password', component: () => import('../pages/reset-password.vue'), meta: { public: true } },
+      { path: 'workshops', name: 'workshops', component: () => import('../pages/workshops.vue') },
+      { path: 'workshops/:workshopId', name: 'workshop-plan', component: () => import('../pages/workshop-plan.vue'), props: true },
+      { path: 'workshops/:workshopId/packing-list', name: 'packing-list', component: () => import('../pages/packing-list.vue'), props: true },
+      { path: 'account', name: 'account', component: () => import('../pages/account.vue') },
+      { path: 'admin/accounts', name: 'admin-accounts', component: () => import('../pages/admin-accounts.vue'), meta: { admin: true } },
+      { path: 'dev/inbox', name: 'dev-inbox', component: () => import('../pages/dev-inbox.vue'), meta: { admin: true } },
+    ],
+  },
+  {
+    path: '/:pathMatch(.*)*',
+    component: () => import('../layouts/PlainLayout.vue'),
+    children: [{ path: '', name: 'not-found', component: () => import('../pages/not-found.vue'), meta: { public: true } }],
+  },
+];
+
+/** Cairn's router; its guard sends signed-out people to sign-in and keeps non-admins off admin pages. */
+export function createCairnRouter() {
+  const router = createRouter({ history: createWebHistory(), routes });
+  router.beforeEach(async (to) => {
+    const session = useSessionStore();
+    await session.restore();
+    if (to.meta.public) return true;
+    if (!session.signedIn) return { name: 'sign-in', query: { next: to.fullPath } };
+    if (to.meta.admin && !session.isAdmin) return { name: 'workshops' };
+    return true;
+  });
+  return router;
+}

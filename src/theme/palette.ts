@@ -1,0 +1,61 @@
+/** Cairn's light palette: deep teal, warm sand and a coral accent on a calm light background. */
+export const LIGHT = {
+  primary: '#0b5d5b',
+  primaryDark: '#073f3e',
+  sand: '#e8d9bf',
+  sandLight: '#f3ebdd',
+  accent: '#b9452f',
+  background: '#f7f4ee',
+  surface: '#ffffff',
+  text: '#1e2a29',
+  muted: '#4f5d5b',
+  positive: '#2e6b34',
+  negative: '#a3261b',
+  warning: '#8a5a00',
+  info: '#1f5673',
+} as const;
+
+/** Cairn's high-contrast dark palette for the projector (read at 8 m). */
+export const PROJECTOR = {
+  background: '#071a19',
+  surface: '#0e2a28',
+  text: '#f6f1e7',
+  muted: '#c3d1ce',
+  teal: '#7fdccf',
+  sand: '#ecdcc0',
+  coral: '#ff9f8a',
+} as const;
+
+/** Cairn's own dot palette for criteria: each colour comes with a shape and a letter, so no meaning rests on colour alone. */
+export const CRITERION_MARKS = [
+  { colour: '#0b5d5b', shape: 'circle', letter: 'A' },
+  { colour: '#b9452f', shape: 'triangle', letter: 'B' },
+  { colour: '#6b4f1d', shape: 'square', letter: 'C' },
+  { colour: '#3d4f8a', shape: 'diamond', letter: 'D' },
+] as const;
+
+/**
+ * Text and background pairs the screens use, checked against WCAG 2.x AA in the tests.
+ * Each entry is [foreground, background, where it is used].
+ */
+export const TEXT_PAIRS: [string, string, string][] = [
+  [LIGHT.text, LIGHT.background, 'body text on the page'],
+  [LIGHT.text, LIGHT.surface, 'body text on cards'],
+  [LIGHT.muted, LIGHT.background, 'secondary text on the page'],
+  [LIGHT.muted, LIGHT.surface, 'secondary text on cards'],
+  ['#ffffff', LIGHT.primary, 'button text on teal'],
+  ['#ffffff', LIGHT.accent, 'button text on coral'],
+  [LIGHT.primary, LIGHT.surface, 'teal links and headings on cards'],
+  [LIGHT.primary, LIGHT.background, 'teal headings on the page'],
+  [LIGHT.primaryDark, LIGHT.sand, 'text on sand chips'],
+  [LIGHT.text, LIGHT.sandLight, 'text on the sand header'],
+  [LIGHT.negative, LIGHT.surface, 'error messages'],
+  [LIGHT.warning, '#fff4dc', 'warning text on its banner'],
+  [LIGHT.accent, LIGHT.surface, 'coral countdown on cards'],
+  [PROJECTOR.text, PROJECTOR.background, 'projector text'],
+  [PROJECTOR.muted, PROJECTOR.background, 'projector secondary text'],
+  [PROJECTOR.teal, PROJECTOR.background, 'projector headings'],
+  [PROJECTOR.coral, PROJECTOR.background, 'projector countdown'],
+  [PROJECTOR.sand, PROJECTOR.surface, 'projector cards'],
+  [PROJECTOR.text, PROJECTOR.surface, 'projector text on cards'],
+];
