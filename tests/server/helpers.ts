@@ -1,0 +1,160 @@
+import fs from 'node:fs/promises';
+import os from 'node:os';
+import path from 'node:path';
+import type { AddressInfo } from 'node:net';
+import crypto from 'node:crypto';
+import supertest from 'supertest';
+import { io as ioClient, type ManagerOptions, type Socket, type SocketOptions } from 'socket.io-client';
+import { createApp, type CairnApp } from '../../server/app';
+import { loadConfig } from '../../server/config/env';
+import { DEMO_ACCOUNTS, DEMO_WORKSHOP_TITLE } from '../../server/db/seed';
+import type { ClientToServerEvents, ServerToClientEvents } from '../../shared/events';
+
+/** The signing secret every test app uses, so tests can forge and expire tokens with it. */
+export const TEST_SECRET = 'a test secret that is at least thirty-two characters';
+
+/** A typed socket.io client as Cairn's client uses it. */
+export type ClientSocket = Socket<ServerToClientEvents, ClientToServerEvents>;
+
+/** A demo account's key in `DEMO_ACCOUNTS`. */
+export type DemoRole = keyof typeof DEMO_ACCOUNTS;
+
+/** A Cairn app built for one test file, with a supertest agent and sign-in shortcuts. */
+export interface TestApp {
+  cairn: CairnApp;
+  agent: supertest.Agent;
+  /** The data folder (database, dev secret). */
+  dataDir: string;
+  /** Closes the app and every socket opened through it, then removes the data folder it made. */
+  close(): Promise<void>;
+  /** Signs in and returns the access token; throws with the server's answer when refused. */
+  signIn(email: string, password: string): Promise<string>;
+  /** Signs in as one of the demo accounts. */
+  tokenFor(role: DemoRole): Promise<string>;
+  /** Opens a socket.io client on a random port; resolves once connected, rejects on `connect_error`. */
+  connect(token: string | undefined, options?: Partial<ManagerOptions & SocketOptions>): Promise<ClientSocket>;
+}
+
+/** An account made for a test, with what is needed to act as it. */
+export interface TestAccount {
+  id: string;
+  email: string;
+  password: string;
+  token: string;
+}
+
+/**
+ * Builds Cairn with the demo seeded and logging silenced, on a fresh temporary data folder
+ * (or on a `DATA_DIR` override, which is left in place on close for its creator to remove).
+ * @example const t = await startTestApp({ ALLOW_SIGNUP: 'true' }); afterAll(() => t.close());
+ */
+export async function startTestApp(overrides: Record<string, string> = {}): Promise<TestApp> {
+  const ownsDir = overrides.DATA_DIR === undefined;
+  const dataDir = overrides.DATA_DIR ?? (await fs.mkdtemp(path.join(os.tmpdir(), 'cairn-test-')));
+  const config = loadConfig({
+    NODE_ENV: 'test',
+    DATA_DIR: dataDir,
+    LOG_LEVEL: 'silent',
+    JWT_SECRET: TEST_SECRET,
+    ...overrides,
+  });
+  const cairn = await createApp(config);
+  const agent = supertest(cairn.express);
+  const sockets: ClientSocket[] = [];
+
+  const signIn = async (email: string, password: string) => {
+    const res = await agent.post('/api/auth/sign-in').send({ email, password });
+    if (res.status !== 200) throw new Error(`sign-in as ${email} answered ${res.status}: ${JSON.stringify(res.body)}`);
+    return res.body.accessToken as string;
+  };
+
+  return {
+    cairn,
+    agent,
+    dataDir,
+    async close() {
+      for (const s of sockets) s.disconnect();
+      await cairn.close();
+      if (ownsDir) await fs.rm(dataDir, { recursive: true, force: true });
+    },
+    signIn,
+    tokenFor: (role) => signIn(DEMO_ACCOUNTS[role].email, DEMO_ACCOUNTS[role].password),
+    async connect(token, options = {}) {
+      const socket = openSocket(await listen(cairn), token, options);
+      sockets.push(socket);
+      return new Promise<ClientSocket>((resolve, reject) => {
+        socket.once('connect', () => resolve(socket));
+        socket.once('connect_error', (err) => {
+          socket.disconnect();
+          reject(err);
+        });
+      });
+    },
+  };
+}
+
+/** Makes the app's HTTP server listen on a random loopback port (once) and returns its base URL. */
+export async function listen(cairn: CairnApp): Promise<string> {
+  if (!cairn.server.listening) {
+    await new Promise<void>((resolve) => cairn.server.listen(0, '127.0.0.1', resolve));
+  }
+  return `http://127.0.0.1:${(cairn.server.address() as AddressInfo).port}`;
+}
+
+/** Opens a socket.io client to a base URL with an access token (no reconnection, so refusals show at once). */
+export function openSocket(
+  baseUrl: string,
+  token: string | undefined,
+  options: Partial<ManagerOptions & SocketOptions> = {},
+): ClientSocket {
+  return ioClient(baseUrl, {
+    auth: token === undefined ? {} : { token },
+    transports: ['websocket'],
+    reconnection: false,
+    forceNew: true,
+    timeout: 5000,
+    ...options,
+  });
+}
+
+/**
+ * Creates a facilitator account through the admin API and signs it in: a "stranger" with no role
+ * on the demo workshop.
+ */
+export async function createStranger(t: TestApp, label = 'stranger'): Promise<TestAccount> {
+  const adminToken = await t.tokenFor('admin');
+  const email = `${label}-${crypto.randomUUID().slice(0, 8)}@harbourlane.example`;
+  const password = 'a stranger password';
+  const res = await t.agent
+    .post('/api/users')
+    .set('Authorization', `Bearer ${adminToken}`)
+    .send({ email, name: 'Robin Stranger', role: 'facilitator', password });
+  if (res.status !== 201) throw new Error(`creating ${email} answered ${res.status}: ${JSON.stringify(res.body)}`);
+  return { id: res.body.id as string, email, password, token: await t.signIn(email, password) };
+}
+
+/** Gives an account a per-workshop role directly in the database (there is no invitation route yet). */
+export async function addMember(t: TestApp, workshopId: string, userId: string, role: 'cofacilitator' | 'observer'): Promise<void> {
+  await t.cairn.ctx.db.models.Membership.create({ id: crypto.randomUUID(), workshopId, userId, role });
+}
+
+/** The seeded demo workshop's id and its agenda item ids, in order. */
+export async function demoWorkshop(t: TestApp): Promise<{ id: string; itemIds: string[] }> {
+  const { Workshop, AgendaItem } = t.cairn.ctx.db.models;
+  const w = await Workshop.findOne({ where: { title: DEMO_WORKSHOP_TITLE } });
+  if (!w) throw new Error('the demo workshop is not seeded');
+  const items = await AgendaItem.findAll({ where: { workshopId: w.id }, order: [['position', 'ASC']] });
+  return { id: w.id, itemIds: items.map((i) => i.id) };
+}
+
+/** The demo account's id. */
+export async function demoUserId(t: TestApp, role: DemoRole): Promise<string> {
+  const u = await t.cairn.ctx.db.models.User.findOne({ where: { email: DEMO_ACCOUNTS[role].email } });
+  if (!u) throw new Error(`the demo ${role} is not seeded`);
+  return u.id;
+}
+
+/** An `Authorization` header value for a token. */
+export function bearer(token: string): string {
+  return `Bearer ${token}`;
+}
