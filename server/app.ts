@@ -22,6 +22,8 @@ import { usersRoutes } from './features/users/users.router';
 import { WorkshopsService } from './features/workshops/workshops.service';
 import { workshopsRoutes } from './features/workshops/workshops.router';
 import { systemRoutes } from './features/system/system.router';
+import { MembersService } from './features/members/members.service';
+import { membersRoutes } from './features/members/members.router';
 import { registerClockSocket } from './features/clock/clock.socket';
 import type { ClientToServerEvents, ServerToClientEvents, SocketData } from '../shared/events';
 
@@ -105,6 +107,7 @@ export async function createApp(config: Config): Promise<CairnApp> {
   authRoutes(routes, ctx, auth, users);
   usersRoutes(routes, auth, users);
   workshopsRoutes(routes, workshops);
+  membersRoutes(routes, ctx, new MembersService(db, mail), auth);
   app.use('/api', routes.router);
   app.use('/api', notFoundHandler);
 

@@ -22,6 +22,7 @@ const routes: RouteRecordRaw[] = [
       { path: 'workshops', name: 'workshops', component: () => import('../pages/workshops.vue') },
       { path: 'workshops/:workshopId', name: 'workshop-plan', component: () => import('../pages/workshop-plan.vue'), props: true },
       { path: 'workshops/:workshopId/packing-list', name: 'packing-list', component: () => import('../pages/packing-list.vue'), props: true },
+      { path: 'invitations/accept', name: 'invitation-accept', component: () => import('../pages/invitation-accept.vue'), meta: { public: true } },
       { path: 'account', name: 'account', component: () => import('../pages/account.vue') },
       { path: 'admin/accounts', name: 'admin-accounts', component: () => import('../pages/admin-accounts.vue'), meta: { admin: true } },
       { path: 'dev/inbox', name: 'dev-inbox', component: () => import('../pages/dev-inbox.vue'), meta: { admin: true } },

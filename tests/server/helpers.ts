@@ -133,7 +133,7 @@ export async function createStranger(t: TestApp, label = 'stranger'): Promise<Te
   return { id: res.body.id as string, email, password, token: await t.signIn(email, password) };
 }
 
-/** Gives an account a per-workshop role directly in the database (there is no invitation route yet). */
+/** Gives an account a per-workshop role directly in the database (quicker than the invitation round trip). */
 export async function addMember(t: TestApp, workshopId: string, userId: string, role: 'cofacilitator' | 'observer'): Promise<void> {
   await t.cairn.ctx.db.models.Membership.create({ id: crypto.randomUUID(), workshopId, userId, role });
 }

@@ -36,7 +36,8 @@ function attemptLimiter(limit: number) {
   });
 }
 
-function setSession(req: Request, res: Response, auth: AuthService, user: UserRow): SessionAnswer {
+/** Issues the tokens of a session: the refresh token as an HttpOnly cookie, the access token in the answer. */
+export function setSession(req: Request, res: Response, auth: AuthService, user: UserRow): SessionAnswer {
   const t = auth.issue(user);
   res.cookie(REFRESH_COOKIE, t.refresh, {
     httpOnly: true,
