@@ -25,6 +25,9 @@ import { systemRoutes } from './features/system/system.router';
 import { MembersService } from './features/members/members.service';
 import { membersRoutes } from './features/members/members.router';
 import { registerClockSocket } from './features/clock/clock.socket';
+import { LiveService } from './features/live/live.service';
+import { liveRoutes } from './features/live/live.router';
+import { registerLiveSocket } from './features/live/live.socket';
 import type { ClientToServerEvents, ServerToClientEvents, SocketData } from '../shared/events';
 
 /** A built Cairn app: Express and socket.io on one HTTP server that is not listening yet. */
@@ -108,6 +111,8 @@ export async function createApp(config: Config): Promise<CairnApp> {
   usersRoutes(routes, auth, users);
   workshopsRoutes(routes, workshops);
   membersRoutes(routes, ctx, new MembersService(db, mail), auth);
+  const live = new LiveService(ctx);
+  liveRoutes(routes, ctx, live);
   app.use('/api', routes.router);
   app.use('/api', notFoundHandler);
 
@@ -136,11 +141,14 @@ export async function createApp(config: Config): Promise<CairnApp> {
     if (caller.kind === 'user') socket.data = { kind: 'user', userId: caller.user.id };
     else if (caller.kind === 'participant') {
       socket.data = { kind: 'participant', participantId: caller.participantId, sessionId: caller.sessionId };
-    } else return next(new Error(caller.kind === 'problem' ? `token_${caller.problem}` : 'unauthenticated'));
+    } else if (caller.kind === 'display') socket.data = { kind: 'display', sessionId: caller.sessionId };
+    else return next(new Error(caller.kind === 'problem' ? `token_${caller.problem}` : 'unauthenticated'));
     next();
   });
+  live.attach(io);
   io.on('connection', (socket) => {
     registerClockSocket(socket);
+    registerLiveSocket(socket, ctx, live);
   });
 
   return {
@@ -149,6 +157,8 @@ export async function createApp(config: Config): Promise<CairnApp> {
     io,
     ctx,
     async close() {
+      // First, so the disconnects below schedule no announcements against a closing database.
+      live.close();
       io.disconnectSockets(true);
       await new Promise<void>((resolve) => io.close(() => resolve()));
       if (server.listening) await new Promise<void>((resolve) => server.close(() => resolve()));

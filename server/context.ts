@@ -7,12 +7,13 @@ import type { TokenService, TokenProblem } from './common/tokens';
 import type { WorkshopAccessRole } from './common/access';
 import type { Mailer } from './features/mail/mail.service';
 
-/** Who is calling: nobody, an account, a participant, or someone whose token was refused. */
+/** Who is calling: nobody, an account, a participant, a projector screen, or someone whose token was refused. */
 export type Caller =
   | { kind: 'anonymous' }
   | { kind: 'problem'; problem: TokenProblem }
   | { kind: 'user'; user: UserRow }
-  | { kind: 'participant'; participantId: string; sessionId: string };
+  | { kind: 'participant'; participantId: string; sessionId: string }
+  | { kind: 'display'; sessionId: string };
 
 /** The services every router and socket handler reaches through one object. */
 export interface AppContext {

@@ -7,14 +7,17 @@ const UserClaims = z.object({ kind: z.literal('user'), sub: z.string(), tv: z.nu
 const RefreshClaims = z.object({ kind: z.literal('refresh'), sub: z.string(), tv: z.number() });
 /** Claims of a participant's session-scoped token. */
 const ParticipantClaims = z.object({ kind: z.literal('participant'), sub: z.string(), sid: z.string() });
+/** Claims of a projector's read-only token for one live session. */
+const DisplayClaims = z.object({ kind: z.literal('display'), sid: z.string() });
 
 /** The kinds of token Cairn signs, with their claims. */
 export type TokenClaims =
   | z.infer<typeof UserClaims>
   | z.infer<typeof RefreshClaims>
-  | z.infer<typeof ParticipantClaims>;
+  | z.infer<typeof ParticipantClaims>
+  | z.infer<typeof DisplayClaims>;
 
-const Claims = z.discriminatedUnion('kind', [UserClaims, RefreshClaims, ParticipantClaims]);
+const Claims = z.discriminatedUnion('kind', [UserClaims, RefreshClaims, ParticipantClaims, DisplayClaims]);
 
 /** Why a token was refused. */
 export type TokenProblem = 'expired' | 'invalid';
@@ -56,6 +59,12 @@ export class TokenService {
       subject: participantId,
       expiresIn: '2d',
     });
+  }
+
+  /** Signs a long-lived, read-only token that opens one live session's projector screen without signing in. */
+  signDisplay(sessionId: string): string {
+    // A projector link is printed or bookmarked before the day, and a workshop may pause for days.
+    return jwt.sign({ kind: 'display', sid: sessionId }, this.secret, { algorithm: 'HS256', expiresIn: '30d' });
   }
 
   /** Verifies a token's signature, algorithm and expiry, and returns its claims or the problem. */

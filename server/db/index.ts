@@ -3,9 +3,13 @@ import { Umzug, SequelizeStorage } from 'umzug';
 import sqlite3 from 'sqlite3';
 import { defineModels, type Models } from './models';
 import * as m0001 from './migrations/0001-initial';
+import * as m0002 from './migrations/0002-live';
 
 /** Versioned migrations, in order; add a file and a line here for each schema change. */
-export const MIGRATIONS = [{ name: '0001-initial', ...m0001 }];
+export const MIGRATIONS = [
+  { name: '0001-initial', ...m0001 },
+  { name: '0002-live', ...m0002 },
+];
 
 /** An open Cairn database: Sequelize, its models and a serialised writer. */
 export interface Database {

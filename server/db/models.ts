@@ -10,6 +10,7 @@ import {
 import type { GlobalRole } from '../../shared/schemas/user';
 import type { ActivitySettings } from '../../shared/schemas/agenda-item';
 import type { DayWindow, RuleSettings } from '../../shared/schemas/day-window';
+import type { ItemRun, SubmissionInput, TimerState } from '../../shared/schemas/live';
 
 const timestamps = {
   createdAt: DataTypes.DATE,
@@ -108,6 +109,55 @@ export interface PasswordResetRow extends Model<InferAttributes<PasswordResetRow
   updatedAt: CreationOptional<Date>;
 }
 
+/** A live session of a workshop: the state the server owns and every screen follows. */
+export interface LiveSessionRow extends Model<InferAttributes<LiveSessionRow>, InferCreationAttributes<LiveSessionRow>> {
+  id: string;
+  workshopId: string;
+  joinCode: string;
+  status: 'live' | 'ended';
+  currentIndex: number;
+  timer: TimerState;
+  locked: boolean;
+  revealed: boolean;
+  message: { id: string; text: string; sentAt: number } | null;
+  runs: ItemRun[];
+  version: number;
+  startedAt: Date;
+  endedAt: Date | null;
+  createdAt: CreationOptional<Date>;
+  updatedAt: CreationOptional<Date>;
+}
+
+/** A person in the room who joined a live session from a phone (one row per session and device). */
+export interface ParticipantRow extends Model<InferAttributes<ParticipantRow>, InferCreationAttributes<ParticipantRow>> {
+  id: string;
+  sessionId: string;
+  deviceId: string;
+  displayName: string;
+  photoConsent: boolean;
+  teamId: string | null;
+  email: string | null;
+  joinedAt: Date;
+  lastSeenAt: Date;
+}
+
+/** A note, guided sentence or feedback a participant submitted to an agenda item of a live session. */
+export interface SubmissionRow extends Model<InferAttributes<SubmissionRow>, InferCreationAttributes<SubmissionRow>> {
+  id: string;
+  sessionId: string;
+  itemId: string;
+  participantId: string;
+  clientId: string;
+  kind: SubmissionInput['kind'];
+  part: string | null;
+  text: string;
+  fields: Record<string, string> | null;
+  teamId: string | null;
+  hidden: CreationOptional<boolean>;
+  themeId: string | null;
+  createdAt: Date;
+}
+
 /** The models of one database, defined on its own Sequelize instance so tests can open several. */
 export interface Models {
   User: ModelStatic<UserRow>;
@@ -117,6 +167,9 @@ export interface Models {
   Membership: ModelStatic<MembershipRow>;
   Invitation: ModelStatic<InvitationRow>;
   PasswordReset: ModelStatic<PasswordResetRow>;
+  LiveSession: ModelStatic<LiveSessionRow>;
+  Participant: ModelStatic<ParticipantRow>;
+  Submission: ModelStatic<SubmissionRow>;
 }
 
 /** Defines Cairn's models on a Sequelize instance (the tables come from the migrations). */
@@ -211,5 +264,60 @@ export function defineModels(sequelize: Sequelize): Models {
     },
     { tableName: 'password_resets' },
   );
-  return { User, Setting, Workshop, AgendaItem, Membership, Invitation, PasswordReset };
+  const LiveSession = sequelize.define<LiveSessionRow>(
+    'LiveSession',
+    {
+      id: { type: DataTypes.STRING(36), primaryKey: true },
+      workshopId: str(36),
+      joinCode: str(16),
+      status: str(10),
+      currentIndex: { type: DataTypes.INTEGER, allowNull: false },
+      timer: { type: DataTypes.JSON, allowNull: false },
+      locked: { type: DataTypes.BOOLEAN, allowNull: false },
+      revealed: { type: DataTypes.BOOLEAN, allowNull: false },
+      message: { type: DataTypes.JSON, allowNull: true },
+      runs: { type: DataTypes.JSON, allowNull: false },
+      version: { type: DataTypes.INTEGER, allowNull: false },
+      startedAt: { type: DataTypes.DATE, allowNull: false },
+      endedAt: { type: DataTypes.DATE, allowNull: true },
+      ...timestamps,
+    },
+    { tableName: 'live_sessions' },
+  );
+  const Participant = sequelize.define<ParticipantRow>(
+    'Participant',
+    {
+      id: { type: DataTypes.STRING(36), primaryKey: true },
+      sessionId: str(36),
+      deviceId: str(64),
+      displayName: str(40),
+      photoConsent: { type: DataTypes.BOOLEAN, allowNull: false },
+      teamId: { type: DataTypes.STRING(64), allowNull: true },
+      email: { type: DataTypes.STRING(254), allowNull: true },
+      joinedAt: { type: DataTypes.DATE, allowNull: false },
+      lastSeenAt: { type: DataTypes.DATE, allowNull: false },
+    },
+    { tableName: 'participants', timestamps: false },
+  );
+  const Submission = sequelize.define<SubmissionRow>(
+    'Submission',
+    {
+      id: { type: DataTypes.STRING(36), primaryKey: true },
+      sessionId: str(36),
+      itemId: str(64),
+      participantId: str(36),
+      clientId: str(64),
+      kind: str(20),
+      part: { type: DataTypes.STRING(30), allowNull: true },
+      text: { type: DataTypes.TEXT, allowNull: false },
+      fields: { type: DataTypes.JSON, allowNull: true },
+      teamId: { type: DataTypes.STRING(64), allowNull: true },
+      hidden: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+      themeId: { type: DataTypes.STRING(36), allowNull: true },
+      createdAt: { type: DataTypes.DATE, allowNull: false },
+    },
+    // createdAt is set by the service, not by Sequelize, and submissions have no updatedAt.
+    { tableName: 'submissions', timestamps: false },
+  );
+  return { User, Setting, Workshop, AgendaItem, Membership, Invitation, PasswordReset, LiveSession, Participant, Submission };
 }

@@ -8,7 +8,8 @@ import { io as ioClient, type ManagerOptions, type Socket, type SocketOptions } 
 import { createApp, type CairnApp } from '../../server/app';
 import { loadConfig } from '../../server/config/env';
 import { DEMO_ACCOUNTS, DEMO_WORKSHOP_TITLE } from '../../server/db/seed';
-import type { ClientToServerEvents, ServerToClientEvents } from '../../shared/events';
+import type { Ack, AckFn, ClientToServerEvents, ServerToClientEvents } from '../../shared/events';
+import type { JoinAnswer, LiveSessionInfo } from '../../shared/schemas/live';
 
 /** The signing secret every test app uses, so tests can forge and expire tokens with it. */
 export const TEST_SECRET = 'a test secret that is at least thirty-two characters';
@@ -157,4 +158,81 @@ export async function demoUserId(t: TestApp, role: DemoRole): Promise<string> {
 /** An `Authorization` header value for a token. */
 export function bearer(token: string): string {
   return `Bearer ${token}`;
+}
+
+/** What a socket command's acknowledgement carries on success. */
+export type CommandData<E extends keyof ClientToServerEvents> =
+  Parameters<ClientToServerEvents[E]>[1] extends AckFn<infer T> ? T : never;
+
+/**
+ * Sends a socket command and waits (up to 3 s) for its acknowledgement; the payload is untyped on
+ * purpose, so tests can send what a misbehaving client would.
+ */
+export function command<E extends keyof ClientToServerEvents>(
+  socket: ClientSocket,
+  event: E,
+  payload: unknown = {},
+): Promise<Ack<CommandData<E>>> {
+  const untyped = socket.timeout(3000) as unknown as { emitWithAck(ev: string, p: unknown): Promise<Ack<CommandData<E>>> };
+  return untyped.emitWithAck(event, payload);
+}
+
+/** The data of a command's acknowledgement; fails the test with the error when it was refused. */
+export async function commandData<E extends keyof ClientToServerEvents>(
+  socket: ClientSocket,
+  event: E,
+  payload: unknown = {},
+): Promise<CommandData<E>> {
+  const answer = await command(socket, event, payload);
+  if ('error' in answer) throw new Error(`${event} was refused: ${answer.error.code} ${answer.error.message}`);
+  return answer.data;
+}
+
+/** The next broadcast of an event that passes `accept`, or a rejection after `timeoutMs`. */
+export function nextEvent<E extends keyof ServerToClientEvents>(
+  socket: ClientSocket,
+  event: E,
+  accept: (payload: Parameters<ServerToClientEvents[E]>[0]) => boolean = () => true,
+  timeoutMs = 1000,
+): Promise<Parameters<ServerToClientEvents[E]>[0]> {
+  type Payload = Parameters<ServerToClientEvents[E]>[0];
+  const untyped = socket as unknown as { on(ev: string, fn: (p: Payload) => void): void; off(ev: string, fn: (p: Payload) => void): void };
+  return new Promise((resolve, reject) => {
+    const timer = setTimeout(() => {
+      untyped.off(event, listener);
+      reject(new Error(`no ${event} within ${timeoutMs} ms`));
+    }, timeoutMs);
+    const listener = (payload: Payload) => {
+      if (!accept(payload)) return;
+      clearTimeout(timer);
+      untyped.off(event, listener);
+      resolve(payload);
+    };
+    untyped.on(event, listener);
+  });
+}
+
+/** A random device id as a phone keeps one. */
+export function newDeviceId(): string {
+  return `device-${crypto.randomUUID()}`;
+}
+
+/** Starts (or reopens) the live session of a workshop as the holder of a token. */
+export async function startLive(t: TestApp, token: string, workshopId: string): Promise<LiveSessionInfo> {
+  const res = await t.agent.post(`/api/workshops/${workshopId}/live`).set('Authorization', bearer(token));
+  if (res.status !== 201 && res.status !== 200) throw new Error(`starting live answered ${res.status}: ${JSON.stringify(res.body)}`);
+  return res.body as LiveSessionInfo;
+}
+
+/** Joins a live session from a phone (a new device unless one is given). */
+export async function joinLive(
+  t: TestApp,
+  code: string,
+  who: { displayName: string; photoConsent?: boolean; deviceId?: string },
+): Promise<JoinAnswer> {
+  const res = await t.agent
+    .post(`/api/join/${code}`)
+    .send({ displayName: who.displayName, photoConsent: who.photoConsent ?? true, deviceId: who.deviceId ?? newDeviceId() });
+  if (res.status !== 200) throw new Error(`joining ${code} answered ${res.status}: ${JSON.stringify(res.body)}`);
+  return res.body as JoinAnswer;
 }

@@ -54,13 +54,14 @@ export class AuthService {
     return this.callerOfToken(token);
   }
 
-  /** Works out who holds a token (access token of an account, or a participant token). */
+  /** Works out who holds a token (access token of an account, a participant token, or a projector's display token). */
   async callerOfToken(token: string | undefined): Promise<Caller> {
     if (!token) return { kind: 'anonymous' };
     const v = this.tokens.verify(token);
     if (!v.ok) return { kind: 'problem', problem: v.problem };
     const c = v.claims;
     if (c.kind === 'participant') return { kind: 'participant', participantId: c.sub, sessionId: c.sid };
+    if (c.kind === 'display') return { kind: 'display', sessionId: c.sid };
     if (c.kind !== 'user') return { kind: 'problem', problem: 'invalid' };
     const user = await this.db.models.User.findByPk(c.sub);
     if (!user || user.disabled || user.tokenVersion !== c.tv) return { kind: 'problem', problem: 'invalid' };

@@ -1,0 +1,171 @@
+import type { Request, RequestHandler, Response } from 'express';
+import { rateLimit, ipKeyGenerator } from 'express-rate-limit';
+import { z } from 'zod';
+import type { ApiRoutes } from '../../common/route';
+import { access, EDIT_ROLES, READ_ROLES } from '../../common/access';
+import { errors } from '../../common/errors';
+import type { AppContext } from '../../context';
+import type { LiveService } from './live.service';
+import { JoinAnswer, JoinBody, JoinCode, JoinInfo, LiveSessionInfo } from '../../../shared/schemas/live';
+
+const WorkshopParams = z.object({ workshopId: z.string().min(1).max(64) });
+const CodeParams = z.object({ code: JoinCode });
+
+/** Window of the join rate limits. */
+const JOIN_WINDOW_MS = 10 * 60_000;
+/** Failed join-code lookups one phone may make per window: plenty for typos, far too few to guess one of ~2.75e10 codes. */
+const FAILED_LOOKUPS_PER_DEVICE = 20;
+/** Failed lookups per window from a caller that names no device (scripts; Cairn's phones always send one), keyed by address. */
+const FAILED_LOOKUPS_WITHOUT_DEVICE = 100;
+/** Joins per code per window: a room of up to 1,000 phones, each rejoining now and then. */
+const JOINS_PER_CODE = 2_000;
+
+/** The phone's own id: `deviceId` of the body, or the `X-Cairn-Device` header. */
+function deviceOf(req: Request): string | null {
+  const fromBody = (req.body as { deviceId?: unknown } | undefined)?.deviceId;
+  const id = typeof fromBody === 'string' ? fromBody : req.get('X-Cairn-Device');
+  return id && id.length >= 8 && id.length <= 64 ? id : null;
+}
+
+/** Answers a refused request in Cairn's one error format. */
+function limited(message: string) {
+  return (_req: Request, res: Response) => {
+    res.status(429).json({ error: { code: 'rate_limited', message } });
+  };
+}
+
+/** Sends a QR code PNG. */
+function sendPng(res: Response, png: Buffer): void {
+  // The code changes when a new session starts, so the image is never reused from a cache.
+  res.set('Cache-Control', 'no-store').type('image/png').send(png);
+}
+
+/**
+ * The live session over HTTP: start, read and stop it, its join QR code, and joining from a phone.
+ * The socket commands are in live.socket.ts.
+ */
+export function liveRoutes(routes: ApiRoutes, ctx: AppContext, live: LiveService): void {
+  const tag = 'live';
+
+  // Per device, not per address: a whole room shares one address behind the venue's Wi-Fi.
+  // Only failures count (unknown or ended codes, bad bodies), so a phone that joins is never held back.
+  const perDevice = rateLimit({
+    windowMs: JOIN_WINDOW_MS,
+    limit: (req) => (deviceOf(req) ? FAILED_LOOKUPS_PER_DEVICE : FAILED_LOOKUPS_WITHOUT_DEVICE),
+    skipSuccessfulRequests: true,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    keyGenerator: (req) => {
+      const device = deviceOf(req);
+      return device ? `device:${device}` : `address:${ipKeyGenerator(req.ip ?? '')}`;
+    },
+    handler: limited('Too many tries from this phone; wait a few minutes, then check the code on the big screen'),
+  });
+  const perCode = rateLimit({
+    windowMs: JOIN_WINDOW_MS,
+    limit: JOINS_PER_CODE,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    keyGenerator: (req) => {
+      const code = JoinCode.safeParse(req.params.code ?? '');
+      return `code:${code.success ? code.data : String(req.params.code)}`;
+    },
+    handler: limited('Too many people are joining this session right now; try again in a minute'),
+  });
+
+  // A projector holding the session's display token gets the QR code without an account; others go on to the role check.
+  const displayQr: RequestHandler = async (req, res, next) => {
+    const header = req.headers.authorization;
+    const candidates = [
+      typeof req.query.display === 'string' ? req.query.display : undefined,
+      header?.startsWith('Bearer ') ? header.slice(7).trim() : undefined,
+    ];
+    for (const token of candidates) {
+      if (!token) continue;
+      const caller = await ctx.auth.callerOfToken(token);
+      if (caller.kind !== 'display') continue;
+      if (!(await live.sessionBelongsTo(caller.sessionId, String(req.params.workshopId)))) throw errors.forbidden();
+      sendPng(res, await live.joinQrPng(String(req.params.workshopId)));
+      return;
+    }
+    next();
+  };
+
+  routes.add({
+    method: 'post',
+    path: '/workshops/:workshopId/live',
+    summary: 'Start a live session (201), or get the one already live (200)',
+    tag,
+    access: access.workshop(EDIT_ROLES),
+    params: WorkshopParams,
+    response: LiveSessionInfo,
+    status: 201,
+    handler: async ({ params, res }) => {
+      const { info, created } = await live.start(params.workshopId);
+      res.status(created ? 201 : 200).json(info);
+      return undefined;
+    },
+  });
+
+  routes.add({
+    method: 'get',
+    path: '/workshops/:workshopId/live',
+    summary: "The workshop's live session, or null when none is live",
+    tag,
+    access: access.workshop(READ_ROLES),
+    params: WorkshopParams,
+    response: LiveSessionInfo.nullable(),
+    handler: ({ params }) => live.current(params.workshopId),
+  });
+
+  routes.add({
+    method: 'post',
+    path: '/workshops/:workshopId/live/stop',
+    summary: 'End the live session: phones can no longer submit; everything submitted stays with the workshop',
+    tag,
+    access: access.workshop(EDIT_ROLES),
+    params: WorkshopParams,
+    response: LiveSessionInfo,
+    handler: ({ params }) => live.stop(params.workshopId),
+  });
+
+  routes.add({
+    method: 'get',
+    path: '/workshops/:workshopId/live/qr.png',
+    summary: "The live session's join link as a QR code (PNG); a projector may also use its display token (`?display=` or bearer)",
+    tag,
+    access: access.workshop(READ_ROLES),
+    params: WorkshopParams,
+    produces: 'image/png',
+    before: [displayQr],
+    handler: async ({ params, res }) => {
+      sendPng(res, await live.joinQrPng(params.workshopId));
+      return undefined;
+    },
+  });
+
+  routes.add({
+    method: 'get',
+    path: '/join/:code',
+    summary: 'What a phone may see of a live session before joining it (title and data policy)',
+    tag,
+    access: access.public,
+    params: CodeParams,
+    response: JoinInfo,
+    before: [perDevice],
+    handler: ({ params }) => live.joinInfo(params.code),
+  });
+
+  routes.add({
+    method: 'post',
+    path: '/join/:code',
+    summary: 'Join a live session from a phone with a display name and photo consent; the same device gets the same participant back',
+    tag,
+    access: access.public,
+    params: CodeParams,
+    body: JoinBody,
+    response: JoinAnswer,
+    before: [perDevice, perCode],
+    handler: ({ params, body }) => live.join(params.code, body),
+  });
+}

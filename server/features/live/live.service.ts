@@ -1,0 +1,747 @@
+import crypto from 'node:crypto';
+import QRCode from 'qrcode';
+import { UniqueConstraintError, type Transaction } from 'sequelize';
+import type { Server } from 'socket.io';
+import type { AppContext } from '../../context';
+import type { LiveSessionRow, ParticipantRow, SubmissionRow } from '../../db/models';
+import { AppError, errors } from '../../common/errors';
+import { joinBaseUrl } from '../../common/network';
+import { toAgendaItem } from '../workshops/workshops.service';
+import { remainingMs } from '../../../shared/clock';
+import {
+  JOIN_CODE_ALPHABET,
+  JOIN_CODE_LENGTH,
+  type ItemRun,
+  type JoinAnswer,
+  type JoinBody,
+  type JoinInfo,
+  type LiveItem,
+  type LiveSessionInfo,
+  type LiveState,
+  type Me,
+  type ParticipantView,
+  type SubmissionInput,
+  type SubmissionView,
+  type TimerState,
+} from '../../../shared/schemas/live';
+import type { AgendaItem } from '../../../shared/schemas/agenda-item';
+import type { ClientToServerEvents, ServerToClientEvents, SocketData } from '../../../shared/events';
+
+/** The socket.io server the live service broadcasts through. */
+export type LiveIo = Server<ClientToServerEvents, ServerToClientEvents, Record<string, never>, SocketData>;
+
+/** The socket.io rooms of a live session; the socket handler joins them, the service broadcasts to them. */
+export const liveRooms = {
+  /** Every screen of the session: phones, the projector, the console and observers. */
+  session: (sessionId: string) => `session:${sessionId}`,
+  /** Owners and co-facilitators running the session. */
+  facilitators: (sessionId: string) => `facilitators:${sessionId}`,
+  /** Screens that show the room's head count: projectors and every watching account (not the phones). */
+  screens: (sessionId: string) => `screens:${sessionId}`,
+  /** The phones of one team. */
+  team: (teamId: string) => `team:${teamId}`,
+};
+
+/** How long a pushed state may be served again to a phone that asks for it, before it is read afresh. */
+const STATE_FRESH_MS = 5_000;
+/** Joins, connections and consent changes within this window are announced together, so a room of phones arriving at once costs a few broadcasts, not one each. */
+const ROOM_TICK_MS = 250;
+/** Tries at drawing an unused join code before giving up (a clash is already about 1 in 10^10). */
+const JOIN_CODE_TRIES = 10;
+
+/** The part of a live state that does not change with the room's head count or the clock. */
+type BaseState = Omit<LiveState, 'serverTime' | 'participantCount' | 'onlineCount'>;
+
+/** What the service keeps in memory about a session: the room, never the session's state itself. */
+interface Runtime {
+  /** Participants who ever joined; `null` until first counted. */
+  participantCount: number | null;
+  /** Connected sockets of each online participant. */
+  online: Map<string, number>;
+  /** Participants whose last-seen time is to be written at the next tick. */
+  seen: Set<string>;
+  tick: NodeJS.Timeout | null;
+  /** The last state read or written, for phones that resync. */
+  base: { state: BaseState; at: number } | null;
+  loading: Promise<BaseState> | null;
+}
+
+/** A timer stopped before its first start, showing the whole timebox of an item. */
+function idleTimer(item: AgendaItem | undefined): TimerState {
+  return { status: 'idle', endsAt: null, remainingMs: null, durationMs: (item?.timeboxMin ?? 0) * 60_000 };
+}
+
+/** A timer running from `now` with `leftMs` to go. */
+function runningTimer(timer: TimerState, now: number, leftMs: number): TimerState {
+  return { status: 'running', endsAt: now + leftMs, remainingMs: null, durationMs: timer.durationMs };
+}
+
+/** The item whose run is open, i.e. the one running now. */
+function openRunItemId(runs: ItemRun[]): string | null {
+  const last = runs.at(-1);
+  return last && last.endedAt === null ? last.itemId : null;
+}
+
+/**
+ * The current item's index: where its open run's item sits in the agenda now (so reordering the plan
+ * during the day does not change what is running), else the stored index, kept inside the agenda.
+ */
+function currentIndexOf(session: LiveSessionRow, agenda: AgendaItem[]): number {
+  const running = openRunItemId(session.runs);
+  const at = running === null ? -1 : agenda.findIndex((i) => i.id === running);
+  if (at >= 0) return at;
+  return Math.max(0, Math.min(session.currentIndex, agenda.length - 1));
+}
+
+/** An agenda item as the live screens see it. */
+function toLiveItem(item: AgendaItem, index: number): LiveItem {
+  return {
+    id: item.id,
+    index,
+    type: item.type,
+    phase: item.phase,
+    title: item.title,
+    prompt: item.prompt,
+    timeboxMin: item.timeboxMin,
+    settings: item.settings,
+  };
+}
+
+/** A participant as their own phone sees them. */
+function toMe(p: ParticipantRow): Me {
+  return { id: p.id, displayName: p.displayName, photoConsent: p.photoConsent, teamId: p.teamId };
+}
+
+/** A stored submission as facilitators see it. */
+function toSubmissionView(row: SubmissionRow, displayName: string): SubmissionView {
+  return {
+    id: row.id,
+    itemId: row.itemId,
+    participantId: row.participantId,
+    displayName,
+    teamId: row.teamId,
+    kind: row.kind,
+    part: row.part,
+    text: row.text,
+    fields: row.fields,
+    hidden: row.hidden,
+    createdAt: row.createdAt.getTime(),
+  };
+}
+
+/** Draws a join code from Cairn's alphabet with a cryptographic random source. */
+function drawJoinCode(): string {
+  let code = '';
+  for (let i = 0; i < JOIN_CODE_LENGTH; i++) code += JOIN_CODE_ALPHABET[crypto.randomInt(JOIN_CODE_ALPHABET.length)];
+  return code;
+}
+
+/** Sets a JSON attribute and marks it changed (Sequelize does not see changes inside JSON values). */
+function setJson<K extends 'timer' | 'runs' | 'message'>(row: LiveSessionRow, key: K, value: LiveSessionRow[K]): void {
+  row.set(key, value);
+  row.changed(key, true);
+}
+
+const sessionEnded = () => new AppError(409, 'session_ended', 'This live session has ended');
+
+/**
+ * The live session: starting and stopping it, joining from phones, the agenda position, the shared
+ * countdown, locking, revealing, messages and submissions. Every change is written to SQLite first
+ * (so a restart resumes where the room was) and broadcast after the commit.
+ */
+export class LiveService {
+  private io: LiveIo | null = null;
+  private runtimes = new Map<string, Runtime>();
+  private closed = false;
+
+  constructor(private ctx: AppContext) {}
+
+  /** Broadcasts through this socket.io server from now on. */
+  attach(io: LiveIo): void {
+    this.io = io;
+  }
+
+  /** Stops the pending room announcements (the app is shutting down). */
+  close(): void {
+    this.closed = true;
+    for (const rt of this.runtimes.values()) if (rt.tick) clearTimeout(rt.tick);
+    this.runtimes.clear();
+  }
+
+  /** Starts a live session of a workshop, or returns the one already live (`created` says which). */
+  async start(workshopId: string): Promise<{ info: LiveSessionInfo; created: boolean }> {
+    const { LiveSession, Workshop } = this.ctx.db.models;
+    const existing = await LiveSession.findOne({ where: { workshopId, status: 'live' } });
+    if (existing) return { info: this.info(existing), created: false };
+    if (!(await Workshop.findByPk(workshopId, { attributes: ['id'] }))) throw errors.notFound('That workshop');
+    const result = await this.ctx.db.writeTx(async (transaction) => {
+      // Checked again inside the writer: two facilitators pressing start at once get one session.
+      const again = await LiveSession.findOne({ where: { workshopId, status: 'live' }, transaction });
+      if (again) return { row: again, created: false };
+      const agenda = await this.agendaOf(workshopId, transaction);
+      let joinCode = '';
+      for (let i = 0; i < JOIN_CODE_TRIES && !joinCode; i++) {
+        const code = drawJoinCode();
+        if (!(await LiveSession.findOne({ where: { joinCode: code }, attributes: ['id'], transaction }))) joinCode = code;
+      }
+      if (!joinCode) throw new AppError(500, 'internal', 'Could not draw an unused join code; try again');
+      const now = Date.now();
+      const first = agenda[0];
+      const row = await LiveSession.create(
+        {
+          id: crypto.randomUUID(),
+          workshopId,
+          joinCode,
+          status: 'live',
+          currentIndex: 0,
+          timer: idleTimer(first),
+          locked: false,
+          revealed: false,
+          message: null,
+          runs: first ? [{ itemId: first.id, startedAt: now, endedAt: null }] : [],
+          version: 1,
+          startedAt: new Date(now),
+          endedAt: null,
+        },
+        { transaction },
+      );
+      return { row, created: true };
+    });
+    return { info: this.info(result.row), created: result.created };
+  }
+
+  /** The workshop's live session, or `null` when none is live. */
+  async current(workshopId: string): Promise<LiveSessionInfo | null> {
+    const row = await this.ctx.db.models.LiveSession.findOne({ where: { workshopId, status: 'live' } });
+    return row ? this.info(row) : null;
+  }
+
+  /** Ends the workshop's live session: input is refused from now on, and everything submitted stays. */
+  async stop(workshopId: string): Promise<LiveSessionInfo> {
+    const row = await this.liveRowOf(workshopId);
+    const { state, session } = await this.mutate(row.id, (s, _agenda, now) => {
+      s.status = 'ended';
+      s.endedAt = new Date(now);
+      setJson(s, 'timer', { status: 'ended', endsAt: null, remainingMs: null, durationMs: s.timer.durationMs });
+      setJson(s, 'runs', s.runs.map((r) => (r.endedAt === null ? { ...r, endedAt: now } : r)));
+    });
+    this.io?.to(liveRooms.session(row.id)).emit('session:ended', { reason: 'The facilitator ended the live session' });
+    this.broadcast(state);
+    return this.info(session);
+  }
+
+  /** The join link of the workshop's live session as a PNG QR code. */
+  async joinQrPng(workshopId: string): Promise<Buffer> {
+    const row = await this.liveRowOf(workshopId);
+    return QRCode.toBuffer(this.joinUrl(row.joinCode), { type: 'png', margin: 2, width: 600, errorCorrectionLevel: 'M' });
+  }
+
+  /** Whether a session belongs to a workshop (a projector's display token opens only its own session's QR code). */
+  async sessionBelongsTo(sessionId: string, workshopId: string): Promise<boolean> {
+    const row = await this.ctx.db.models.LiveSession.findByPk(sessionId, { attributes: ['id', 'workshopId'] });
+    return row?.workshopId === workshopId;
+  }
+
+  /** What a phone may learn about a live session from its join code before joining. */
+  async joinInfo(code: string): Promise<JoinInfo> {
+    const session = await this.joinable(code);
+    const w = await this.ctx.db.models.Workshop.findByPk(session.workshopId, { attributes: ['id', 'title', 'consentText'] });
+    if (!w) throw errors.notFound('That workshop');
+    return { sessionId: session.id, workshopTitle: w.title, consentText: w.consentText };
+  }
+
+  /** Joins a live session from a phone: the same device gets the same participant back, with the name and consent it gave last. */
+  async join(code: string, body: JoinBody): Promise<JoinAnswer> {
+    const { Participant } = this.ctx.db.models;
+    const session = await this.joinable(code);
+    const participant = await this.ctx.db.writeTx(async (transaction) => {
+      const now = new Date();
+      const found = await Participant.findOne({ where: { sessionId: session.id, deviceId: body.deviceId }, transaction });
+      if (found) {
+        found.set({ displayName: body.displayName, photoConsent: body.photoConsent, lastSeenAt: now });
+        await found.save({ transaction });
+        return found;
+      }
+      const p = await Participant.create(
+        {
+          id: crypto.randomUUID(),
+          sessionId: session.id,
+          deviceId: body.deviceId,
+          displayName: body.displayName,
+          photoConsent: body.photoConsent,
+          teamId: null,
+          email: null,
+          joinedAt: now,
+          lastSeenAt: now,
+        },
+        { transaction },
+      );
+      // Counted inside the writer, so a count read at the same time elsewhere cannot miss this join.
+      const rt = this.runtime(session.id);
+      if (rt.participantCount === null) rt.participantCount = await Participant.count({ where: { sessionId: session.id }, transaction });
+      else rt.participantCount += 1;
+      return p;
+    });
+    this.scheduleTick(session.id);
+    return { token: this.ctx.tokens.signParticipant(participant.id, session.id), sessionId: session.id, me: toMe(participant) };
+  }
+
+  /** A participant of a session, or `null` when there is no such participant in it. */
+  async participantOf(participantId: string, sessionId: string): Promise<ParticipantRow | null> {
+    const p = await this.ctx.db.models.Participant.findByPk(participantId);
+    return p && p.sessionId === sessionId ? p : null;
+  }
+
+  /** The workshop a session belongs to (for checking a watcher's role on it). */
+  async workshopOf(sessionId: string): Promise<string> {
+    const row = await this.ctx.db.models.LiveSession.findByPk(sessionId, { attributes: ['id', 'workshopId'] });
+    if (!row) throw errors.notFound('That live session');
+    return row.workshopId;
+  }
+
+  /** Counts a participant's socket as connected; they are online while any of their sockets is. */
+  participantConnected(sessionId: string, participantId: string): void {
+    if (this.closed) return;
+    const rt = this.runtime(sessionId);
+    const sockets = (rt.online.get(participantId) ?? 0) + 1;
+    rt.online.set(participantId, sockets);
+    if (sockets === 1) {
+      rt.seen.add(participantId);
+      this.scheduleTick(sessionId);
+    }
+  }
+
+  /** Counts a participant's socket as gone. */
+  participantDisconnected(sessionId: string, participantId: string): void {
+    if (this.closed) return;
+    const rt = this.runtime(sessionId);
+    const sockets = (rt.online.get(participantId) ?? 1) - 1;
+    if (sockets > 0) {
+      rt.online.set(participantId, sockets);
+      return;
+    }
+    rt.online.delete(participantId);
+    rt.seen.add(participantId);
+    this.scheduleTick(sessionId);
+  }
+
+  /** Everyone who joined the session, with whether they are online now, in order of joining. */
+  async participants(sessionId: string): Promise<ParticipantView[]> {
+    const rows = await this.ctx.db.models.Participant.findAll({ where: { sessionId }, order: [['joinedAt', 'ASC']] });
+    const online = this.runtime(sessionId).online;
+    return rows.map((p) => ({
+      id: p.id,
+      displayName: p.displayName,
+      photoConsent: p.photoConsent,
+      teamId: p.teamId,
+      online: online.has(p.id),
+      joinedAt: p.joinedAt.getTime(),
+    }));
+  }
+
+  /** What a participant's phone knows about them. */
+  async me(participantId: string, sessionId: string): Promise<Me> {
+    const p = await this.participantOf(participantId, sessionId);
+    if (!p) throw errors.forbidden('You are not in this session any more; join again');
+    return toMe(p);
+  }
+
+  /** A participant gives or withdraws photo consent (allowed even after the session ended). */
+  async setConsent(participantId: string, sessionId: string, photoConsent: boolean): Promise<Me> {
+    const p = await this.ctx.db.writeTx(async (transaction) => {
+      const row = await this.ctx.db.models.Participant.findByPk(participantId, { transaction });
+      if (!row || row.sessionId !== sessionId) throw errors.forbidden('You are not in this session any more; join again');
+      row.photoConsent = photoConsent;
+      await row.save({ transaction });
+      return row;
+    });
+    this.scheduleTick(sessionId);
+    return toMe(p);
+  }
+
+  /** The session's state now, as every screen sees it. */
+  async state(sessionId: string): Promise<LiveState> {
+    const rt = this.runtime(sessionId);
+    const fresh = rt.base && Date.now() - rt.base.at <= STATE_FRESH_MS ? rt.base.state : null;
+    const base = fresh ?? (await this.loadBase(sessionId));
+    return this.stamp(base);
+  }
+
+  /** Moves to the next agenda item. */
+  next(sessionId: string): Promise<LiveState> {
+    return this.move(sessionId, (from, count) => {
+      if (from + 1 >= count) throw errors.conflict('This is the last item of the agenda');
+      return from + 1;
+    });
+  }
+
+  /** Moves back to the previous agenda item. */
+  back(sessionId: string): Promise<LiveState> {
+    return this.move(sessionId, (from) => {
+      if (from <= 0) throw errors.conflict('This is the first item of the agenda');
+      return from - 1;
+    });
+  }
+
+  /** Moves to any agenda item (the same one restarts it). */
+  goto(sessionId: string, index: number): Promise<LiveState> {
+    return this.move(sessionId, (_from, count) => {
+      if (index >= count) throw errors.badRequest(`The agenda has ${count} items; there is no item ${index + 1}`);
+      return index;
+    });
+  }
+
+  /** Starts the countdown: the whole timebox from idle, what was left when paused; a running timer carries on. */
+  timerStart(sessionId: string): Promise<LiveState> {
+    return this.command(sessionId, (s, _agenda, now) => {
+      const t = s.timer;
+      if (t.status === 'running' && remainingMs(t, now) > 0) return false;
+      const left = t.status === 'paused' ? remainingMs(t, now) : t.durationMs;
+      setJson(s, 'timer', runningTimer(t, now, left));
+    });
+  }
+
+  /** Pauses a running countdown, keeping what is left. */
+  timerPause(sessionId: string): Promise<LiveState> {
+    return this.command(sessionId, (s, _agenda, now) => {
+      const t = s.timer;
+      if (t.status === 'paused') return false;
+      if (t.status !== 'running') throw errors.conflict('The timer is not running');
+      setJson(s, 'timer', { status: 'paused', endsAt: null, remainingMs: remainingMs(t, now), durationMs: t.durationMs });
+    });
+  }
+
+  /** Resumes a paused countdown (an idle one starts). */
+  timerResume(sessionId: string): Promise<LiveState> {
+    return this.command(sessionId, (s, _agenda, now) => {
+      const t = s.timer;
+      if (t.status === 'running') return false;
+      if (t.status === 'ended') throw errors.conflict('The timer has ended');
+      setJson(s, 'timer', runningTimer(t, now, remainingMs(t, now)));
+    });
+  }
+
+  /**
+   * Adds (or with a negative delta removes) time on the countdown, idle, running or paused; what is
+   * left never goes below 0, and an overrun timer given a minute has one minute again.
+   */
+  timerAdjust(sessionId: string, deltaMs: number): Promise<LiveState> {
+    return this.command(sessionId, (s, _agenda, now) => {
+      const t = s.timer;
+      if (t.status === 'ended') throw errors.conflict('The timer has ended');
+      const left = Math.max(0, remainingMs(t, now) + deltaMs);
+      // The timebox grows and shrinks with the adjustment but never below what is left, so a progress ring stays within 100 %.
+      const durationMs = Math.max(left, t.durationMs + deltaMs);
+      if (t.status === 'running') setJson(s, 'timer', { status: 'running', endsAt: now + left, remainingMs: null, durationMs });
+      else if (t.status === 'paused') setJson(s, 'timer', { status: 'paused', endsAt: null, remainingMs: left, durationMs });
+      else setJson(s, 'timer', { status: 'idle', endsAt: null, remainingMs: null, durationMs: left });
+    });
+  }
+
+  /** Locks or unlocks input from the phones. */
+  setLocked(sessionId: string, locked: boolean): Promise<LiveState> {
+    return this.command(sessionId, (s) => {
+      if (s.locked === locked) return false;
+      s.locked = locked;
+    });
+  }
+
+  /** Shows or hides the current activity's results on the projector. */
+  setRevealed(sessionId: string, revealed: boolean): Promise<LiveState> {
+    return this.command(sessionId, (s) => {
+      if (s.revealed === revealed) return false;
+      s.revealed = revealed;
+    });
+  }
+
+  /** Sends a short message to every phone (kept as the session's last message). */
+  async sendMessage(sessionId: string, text: string): Promise<LiveState> {
+    const message = { id: crypto.randomUUID(), text, sentAt: Date.now() };
+    const { state } = await this.mutate(sessionId, (s) => setJson(s, 'message', message));
+    this.io?.to(liveRooms.session(sessionId)).emit('session:messaged', message);
+    this.broadcast(state);
+    return state;
+  }
+
+  /**
+   * Applies new timeboxes to later agenda items (a shortening suggestion of shared/drift.ts), never below
+   * each item's shortest timebox; the current item and its countdown stay as they are.
+   */
+  shorten(sessionId: string, cuts: { itemId: string; toMin: number }[]): Promise<LiveState> {
+    return this.command(sessionId, async (s, agenda, _now, transaction) => {
+      const current = currentIndexOf(s, agenda);
+      for (const cut of cuts) {
+        const at = agenda.findIndex((i) => i.id === cut.itemId);
+        if (at < 0) throw errors.badRequest('One of the items is not on the agenda any more');
+        if (at <= current) throw errors.badRequest(`“${agenda[at]!.title}” is not after the current item; only later items can be shortened`);
+      }
+      for (const cut of cuts) {
+        const item = agenda.find((i) => i.id === cut.itemId)!;
+        const toMin = Math.max(item.minTimeboxMin, cut.toMin);
+        if (toMin === item.timeboxMin) continue;
+        await this.ctx.db.models.AgendaItem.update(
+          { timeboxMin: toMin },
+          { where: { id: item.id, workshopId: s.workshopId }, transaction },
+        );
+        item.timeboxMin = toMin;
+      }
+    });
+  }
+
+  /**
+   * Stores a participant's submission to the current item, exactly once per `clientId`: a retry
+   * answers with the first submission's id and `duplicate: true`.
+   */
+  async createSubmission(participantId: string, sessionId: string, input: SubmissionInput): Promise<{ id: string; duplicate: boolean }> {
+    const { Participant, Submission, LiveSession } = this.ctx.db.models;
+    let created: { row: SubmissionRow; displayName: string } | null = null;
+    const answer = await this.ctx.db
+      .writeTx(async (transaction) => {
+        const p = await Participant.findByPk(participantId, { transaction });
+        if (!p || p.sessionId !== sessionId) throw errors.forbidden('You are not in this session any more; join again');
+        // A retry of something already stored is answered before the checks, which may have changed since.
+        const first = await Submission.findOne({ where: { participantId, clientId: input.clientId }, attributes: ['id'], transaction });
+        if (first) return { id: first.id, duplicate: true };
+        const s = await LiveSession.findByPk(sessionId, { transaction });
+        if (!s) throw errors.notFound('That live session');
+        if (s.status === 'ended') throw sessionEnded();
+        if (s.locked) throw new AppError(409, 'input_locked', 'The facilitator has locked input for now');
+        if (openRunItemId(s.runs) !== input.itemId) {
+          throw errors.conflict('That activity is not the current one any more; nothing was sent');
+        }
+        const row = await Submission.create(
+          {
+            id: crypto.randomUUID(),
+            sessionId,
+            itemId: input.itemId,
+            participantId,
+            clientId: input.clientId,
+            kind: input.kind,
+            part: input.part ?? null,
+            text: input.text,
+            fields: input.fields ?? null,
+            teamId: p.teamId,
+            themeId: null,
+            createdAt: new Date(),
+          },
+          { transaction },
+        );
+        created = { row, displayName: p.displayName };
+        return { id: row.id, duplicate: false };
+      })
+      .catch(async (err: unknown) => {
+        // The unique (participantId, clientId) index is the last word if two copies ever race past the lookup.
+        if (!(err instanceof UniqueConstraintError)) throw err;
+        const first = await Submission.findOne({ where: { participantId, clientId: input.clientId }, attributes: ['id'] });
+        if (!first) throw err;
+        return { id: first.id, duplicate: true };
+      });
+    const made = created as { row: SubmissionRow; displayName: string } | null;
+    if (made) this.io?.to(liveRooms.facilitators(sessionId)).emit('submission:created', toSubmissionView(made.row, made.displayName));
+    return answer;
+  }
+
+  /** The submissions to one agenda item of a session so far, oldest first (hidden ones included and marked). */
+  async listSubmissions(sessionId: string, itemId: string): Promise<SubmissionView[]> {
+    const { Submission, Participant } = this.ctx.db.models;
+    const rows = await Submission.findAll({ where: { sessionId, itemId }, order: [['createdAt', 'ASC']] });
+    const people = await Participant.findAll({
+      where: { id: [...new Set(rows.map((r) => r.participantId))] },
+      attributes: ['id', 'displayName'],
+    });
+    const names = new Map(people.map((p) => [p.id, p.displayName]));
+    return rows.map((r) => toSubmissionView(r, names.get(r.participantId) ?? ''));
+  }
+
+  private joinUrl(code: string): string {
+    return `${joinBaseUrl(this.ctx.config)}/join/${code}`;
+  }
+
+  private info(row: LiveSessionRow): LiveSessionInfo {
+    const base = joinBaseUrl(this.ctx.config);
+    return {
+      sessionId: row.id,
+      joinCode: row.joinCode,
+      joinUrl: `${base}/join/${row.joinCode}`,
+      displayUrl: `${base}/projector/${row.id}?display=${this.ctx.tokens.signDisplay(row.id)}`,
+      status: row.status,
+    };
+  }
+
+  private async liveRowOf(workshopId: string): Promise<LiveSessionRow> {
+    const row = await this.ctx.db.models.LiveSession.findOne({ where: { workshopId, status: 'live' } });
+    if (!row) throw new AppError(404, 'not_found', 'This workshop has no live session; start one first');
+    return row;
+  }
+
+  private async joinable(code: string): Promise<LiveSessionRow> {
+    const row = await this.ctx.db.models.LiveSession.findOne({ where: { joinCode: code } });
+    if (!row) throw new AppError(404, 'not_found', `No live session has the code ${code}; check the code on the big screen`);
+    if (row.status !== 'live') throw new AppError(404, 'not_found', 'That live session has ended');
+    return row;
+  }
+
+  private async agendaOf(workshopId: string, transaction?: Transaction): Promise<AgendaItem[]> {
+    const rows = await this.ctx.db.models.AgendaItem.findAll({ where: { workshopId }, order: [['position', 'ASC']], transaction });
+    return rows.map(toAgendaItem);
+  }
+
+  private runtime(sessionId: string): Runtime {
+    let rt = this.runtimes.get(sessionId);
+    if (!rt) {
+      rt = { participantCount: null, online: new Map(), seen: new Set(), tick: null, base: null, loading: null };
+      this.runtimes.set(sessionId, rt);
+    }
+    return rt;
+  }
+
+  private toBase(s: LiveSessionRow, agenda: AgendaItem[], workshopTitle: string): BaseState {
+    const index = currentIndexOf(s, agenda);
+    const item = agenda[index];
+    return {
+      sessionId: s.id,
+      workshopId: s.workshopId,
+      workshopTitle,
+      joinCode: s.joinCode,
+      joinUrl: this.joinUrl(s.joinCode),
+      status: s.status,
+      currentIndex: index,
+      itemCount: agenda.length,
+      item: item ? toLiveItem(item, index) : null,
+      timer: s.timer,
+      locked: s.locked,
+      revealed: s.revealed,
+      message: s.message,
+      runs: s.runs,
+      version: s.version,
+    };
+  }
+
+  /** Keeps a base state unless a newer version is already kept (a slow read must not undo a command). */
+  private remember(base: BaseState): void {
+    const rt = this.runtime(base.sessionId);
+    if (!rt.base || rt.base.state.version <= base.version) rt.base = { state: base, at: Date.now() };
+  }
+
+  private async loadBase(sessionId: string): Promise<BaseState> {
+    const rt = this.runtime(sessionId);
+    // A room of phones resyncing at once shares one read.
+    rt.loading ??= (async () => {
+      try {
+        const s = await this.ctx.db.models.LiveSession.findByPk(sessionId);
+        if (!s) throw errors.notFound('That live session');
+        const w = await this.ctx.db.models.Workshop.findByPk(s.workshopId, { attributes: ['id', 'title'] });
+        const base = this.toBase(s, await this.agendaOf(s.workshopId), w?.title ?? '');
+        this.remember(base);
+        return base;
+      } finally {
+        rt.loading = null;
+      }
+    })();
+    return rt.loading;
+  }
+
+  private async stamp(base: BaseState): Promise<LiveState> {
+    const rt = this.runtime(base.sessionId);
+    if (rt.participantCount === null) {
+      const count = await this.ctx.db.models.Participant.count({ where: { sessionId: base.sessionId } });
+      rt.participantCount ??= count;
+    }
+    return { ...base, participantCount: rt.participantCount ?? 0, onlineCount: rt.online.size, serverTime: Date.now() };
+  }
+
+  /**
+   * Changes a live session in one write transaction: `change` edits the row and returns `false` when
+   * nothing changed; otherwise the version goes up. Refused once the session has ended.
+   */
+  private async mutate(
+    sessionId: string,
+    change: (s: LiveSessionRow, agenda: AgendaItem[], now: number, transaction: Transaction) => unknown,
+  ): Promise<{ state: LiveState; changed: boolean; session: LiveSessionRow }> {
+    const { base, changed, session } = await this.ctx.db.writeTx(async (transaction) => {
+      const s = await this.ctx.db.models.LiveSession.findByPk(sessionId, { transaction });
+      if (!s) throw errors.notFound('That live session');
+      if (s.status === 'ended') throw sessionEnded();
+      const agenda = await this.agendaOf(s.workshopId, transaction);
+      const w = await this.ctx.db.models.Workshop.findByPk(s.workshopId, { attributes: ['id', 'title'], transaction });
+      const changed = (await change(s, agenda, Date.now(), transaction)) !== false;
+      if (changed) {
+        s.version += 1;
+        await s.save({ transaction });
+      }
+      return { base: this.toBase(s, agenda, w?.title ?? ''), changed, session: s };
+    });
+    this.remember(base);
+    return { state: await this.stamp(base), changed, session };
+  }
+
+  /** A change that every screen hears about when it happened. */
+  private async command(
+    sessionId: string,
+    change: (s: LiveSessionRow, agenda: AgendaItem[], now: number, transaction: Transaction) => unknown,
+  ): Promise<LiveState> {
+    const { state, changed } = await this.mutate(sessionId, change);
+    if (changed) this.broadcast(state);
+    return state;
+  }
+
+  private move(sessionId: string, target: (from: number, count: number) => number): Promise<LiveState> {
+    return this.command(sessionId, (s, agenda, now) => {
+      const from = currentIndexOf(s, agenda);
+      const to = target(from, agenda.length);
+      const item = agenda[to]!;
+      s.currentIndex = to;
+      s.revealed = false;
+      setJson(s, 'timer', idleTimer(item));
+      setJson(s, 'runs', [
+        ...s.runs.map((r) => (r.endedAt === null ? { ...r, endedAt: now } : r)),
+        { itemId: item.id, startedAt: now, endedAt: null },
+      ]);
+    });
+  }
+
+  private broadcast(state: LiveState): void {
+    this.io?.to(liveRooms.session(state.sessionId)).emit('session:updated', state);
+  }
+
+  private hasListeners(room: string): boolean {
+    return (this.io?.sockets.adapter.rooms.get(room)?.size ?? 0) > 0;
+  }
+
+  private scheduleTick(sessionId: string): void {
+    if (this.closed) return;
+    const rt = this.runtime(sessionId);
+    if (rt.tick) return;
+    rt.tick = setTimeout(() => {
+      rt.tick = null;
+      this.flushTick(sessionId).catch((err: unknown) => {
+        if (!this.closed) this.ctx.logger.error({ err }, 'could not announce who is in the room');
+      });
+    }, ROOM_TICK_MS);
+  }
+
+  /** Writes last-seen times and tells the console and the projector who is in the room now. */
+  private async flushTick(sessionId: string): Promise<void> {
+    if (this.closed) return;
+    const rt = this.runtime(sessionId);
+    if (rt.seen.size > 0) {
+      const ids = [...rt.seen];
+      rt.seen.clear();
+      const now = new Date();
+      await this.ctx.db.writeTx(async (transaction) => {
+        // In slices, to stay well inside SQLite's limit on bound variables in one statement.
+        for (let i = 0; i < ids.length; i += 500) {
+          await this.ctx.db.models.Participant.update({ lastSeenAt: now }, { where: { id: ids.slice(i, i + 500) }, transaction });
+        }
+      });
+    }
+    if (this.closed || !this.io) return;
+    if (this.hasListeners(liveRooms.facilitators(sessionId))) {
+      this.io.to(liveRooms.facilitators(sessionId)).emit('participants:updated', await this.participants(sessionId));
+    }
+    // Only screens that show the head count get the new counts; the phones' state has not changed.
+    if (this.hasListeners(liveRooms.screens(sessionId))) {
+      this.io.to(liveRooms.screens(sessionId)).emit('session:updated', await this.state(sessionId));
+    }
+  }
+}
