@@ -26,8 +26,8 @@ export function useTokenSource(source: TokenSource): void {
   tokens = source;
 }
 
-async function send<T>(method: string, path: string, body?: unknown, retry = true): Promise<T> {
-  const headers: Record<string, string> = { Accept: 'application/json' };
+async function send<T>(method: string, path: string, body?: unknown, retry = true, extra: Record<string, string> = {}): Promise<T> {
+  const headers: Record<string, string> = { Accept: 'application/json', ...extra };
   const token = tokens.token();
   if (token) headers.Authorization = `Bearer ${token}`;
   if (body !== undefined) headers['Content-Type'] = 'application/json';
@@ -43,7 +43,7 @@ async function send<T>(method: string, path: string, body?: unknown, retry = tru
     throw new ApiError(0, 'network', 'Cairn cannot reach the server; check the connection and try again');
   }
   if (res.status === 401 && retry && token && (await tokens.renew())) {
-    return send<T>(method, path, body, false);
+    return send<T>(method, path, body, false, extra);
   }
   if (res.status === 204) return undefined as T;
   const data = (await res.json().catch(() => null)) as
@@ -58,7 +58,7 @@ async function send<T>(method: string, path: string, body?: unknown, retry = tru
 
 /** Cairn's typed HTTP client for `/api`. */
 export const http = {
-  get: <T>(path: string) => send<T>('GET', path),
+  get: <T>(path: string, headers?: Record<string, string>) => send<T>('GET', path, undefined, true, headers),
   post: <T>(path: string, body?: unknown) => send<T>('POST', path, body ?? {}),
   put: <T>(path: string, body: unknown) => send<T>('PUT', path, body),
   patch: <T>(path: string, body: unknown) => send<T>('PATCH', path, body),

@@ -29,6 +29,29 @@ const routes: RouteRecordRaw[] = [
     ],
   },
   {
+    path: '/live/:workshopId',
+    component: () => import('../layouts/ConsoleLayout.vue'),
+    children: [{ path: 'console', name: 'live-console', component: () => import('../pages/live-console.vue'), props: true }],
+  },
+  {
+    path: '/projector/:sessionId',
+    component: () => import('../layouts/ProjectorLayout.vue'),
+    // Public: a display link carries its own token; otherwise the signed-in facilitator's is used.
+    children: [{ path: '', name: 'live-projector', component: () => import('../pages/live-projector.vue'), props: true, meta: { public: true } }],
+  },
+  {
+    path: '/join',
+    component: () => import('../layouts/PhoneLayout.vue'),
+    children: [
+      { path: ':code?', name: 'join', component: () => import('../pages/join.vue'), meta: { public: true } },
+    ],
+  },
+  {
+    path: '/phone/:sessionId',
+    component: () => import('../layouts/PhoneLayout.vue'),
+    children: [{ path: '', name: 'phone', component: () => import('../pages/phone.vue'), props: true, meta: { public: true } }],
+  },
+  {
     path: '/:pathMatch(.*)*',
     component: () => import('../layouts/PlainLayout.vue'),
     children: [{ path: '', name: 'not-found', component: () => import('../pages/not-found.vue'), meta: { public: true } }],

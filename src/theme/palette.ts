@@ -4,7 +4,7 @@ export const LIGHT = {
   primaryDark: '#073f3e',
   sand: '#e8d9bf',
   sandLight: '#f3ebdd',
-  accent: '#b9452f',
+  accent: '#a33a26',
   background: '#f7f4ee',
   surface: '#ffffff',
   text: '#1e2a29',

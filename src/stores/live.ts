@@ -1,0 +1,239 @@
+import { defineStore } from 'pinia';
+import { computed, ref, shallowRef } from 'vue';
+import { ClockSync } from '../../shared/clock';
+import type { Ack, ClientToServerEvents } from '../../shared/events';
+import type { LiveState, Me, ParticipantView, SubmissionInput, SubmissionView } from '../../shared/schemas/live';
+import { connectSocket, type CairnSocket } from '../socket/client';
+import { newId } from '../socket/ids';
+
+/** An error a socket command answered with. */
+export class CommandError extends Error {
+  constructor(
+    public code: string,
+    message: string,
+  ) {
+    super(message);
+  }
+}
+
+type Outgoing = Omit<SubmissionInput, 'clientId'> & { clientId?: string };
+
+const ACK_TIMEOUT_MS = 6000;
+
+/**
+ * The live session as one screen sees it: the socket, the server-owned state, the clock offset,
+ * and (on phones) the queue of submissions not yet acknowledged.
+ */
+export const useLiveStore = defineStore('live', () => {
+  const state = ref<LiveState | null>(null);
+  const connected = ref(false);
+  const ended = ref(false);
+  const me = ref<Me | null>(null);
+  const participants = ref<ParticipantView[]>([]);
+  const submissions = ref<SubmissionView[]>([]);
+  const lastMessage = ref<{ id: string; text: string; sentAt: number } | null>(null);
+  const offsetMs = ref(0);
+  const errorBoundMs = ref(Infinity);
+  const outbox = ref<SubmissionInput[]>([]);
+  const socket = shallowRef<CairnSocket | null>(null);
+  let outboxKey = '';
+  // The server's clock, estimated once per sync and then advanced by the monotonic clock.
+  let anchorServer = Date.now();
+  let anchorPerf = performance.now();
+
+  /** The server's clock now (estimated). */
+  function serverNow(): number {
+    return anchorServer + (performance.now() - anchorPerf);
+  }
+
+  const currentItem = computed(() => state.value?.item ?? null);
+
+  function accept(next: LiveState): void {
+    const cur = state.value;
+    if (cur && cur.sessionId === next.sessionId && next.version < cur.version) return;
+    state.value = next;
+    if (next.message) lastMessage.value = next.message;
+    if (next.status === 'ended') ended.value = true;
+  }
+
+  async function ask<T>(event: keyof ClientToServerEvents, payload: unknown): Promise<T> {
+    const s = socket.value;
+    if (!s) throw new CommandError('network', 'Not connected');
+    let answer: Ack<T>;
+    try {
+      // The typed emit needs the event's own payload type; every caller passes the right one.
+      answer = (await (s.timeout(ACK_TIMEOUT_MS) as unknown as { emitWithAck: (e: string, p: unknown) => Promise<Ack<T>> }).emitWithAck(
+        event,
+        payload,
+      )) as Ack<T>;
+    } catch {
+      throw new CommandError('timeout', 'The server did not answer in time');
+    }
+    if ('error' in answer) throw new CommandError(answer.error.code, answer.error.message);
+    return answer.data;
+  }
+
+  /** Estimates the clock offset over a few round trips (RFC 5905 §8), keeping the least-delay sample. */
+  async function syncClock(rounds = 5): Promise<void> {
+    const sync = new ClockSync();
+    for (let i = 0; i < rounds; i++) {
+      const t1 = Date.now();
+      try {
+        const pong = await ask<{ t1: number; t2: number; t3: number }>('clock:ping', { t1 });
+        sync.addRoundTrip(t1, pong.t2, pong.t3, Date.now());
+      } catch {
+        break;
+      }
+    }
+    if (sync.best) {
+      offsetMs.value = sync.offsetMs;
+      errorBoundMs.value = sync.errorBoundMs;
+      anchorServer = Date.now() + sync.offsetMs;
+      anchorPerf = performance.now();
+    }
+  }
+
+  function loadOutbox(sessionId: string): void {
+    outboxKey = `cairn.outbox.${sessionId}`;
+    try {
+      outbox.value = JSON.parse(localStorage.getItem(outboxKey) ?? '[]') as SubmissionInput[];
+    } catch {
+      outbox.value = [];
+    }
+  }
+
+  function saveOutbox(): void {
+    if (outboxKey) localStorage.setItem(outboxKey, JSON.stringify(outbox.value));
+  }
+
+  let flushing = false;
+  /** Sends what was typed while offline, in order, each exactly once (the server dedupes by clientId). */
+  async function flush(): Promise<void> {
+    if (flushing || !connected.value) return;
+    flushing = true;
+    try {
+      while (outbox.value.length > 0 && connected.value) {
+        const next = outbox.value[0];
+        try {
+          await ask('submission:create', next);
+        } catch (err) {
+          // A timeout or a lost connection keeps the note for the next try; a refusal drops it.
+          if (err instanceof CommandError && (err.code === 'timeout' || err.code === 'network')) break;
+          rejected.value = err instanceof CommandError ? err.message : 'A note could not be sent';
+        }
+        outbox.value = outbox.value.slice(1);
+        saveOutbox();
+      }
+    } finally {
+      flushing = false;
+    }
+  }
+  const rejected = ref<string | null>(null);
+
+  /** Queues a submission (with a fresh client id) and sends it as soon as the socket is up. */
+  async function submit(input: Outgoing): Promise<void> {
+    outbox.value = [...outbox.value, { ...input, clientId: input.clientId ?? newId() } as SubmissionInput];
+    saveOutbox();
+    await flush();
+  }
+
+  /**
+   * Connects with a token. Facilitator and display screens pass `watch` (the session to watch);
+   * a participant's token already names its session.
+   */
+  function connect(opts: { token: () => string | null; watch?: string; participantSessionId?: string }): void {
+    disconnect();
+    ended.value = false;
+    if (opts.participantSessionId) loadOutbox(opts.participantSessionId);
+    const s = connectSocket(opts.token);
+    socket.value = s;
+    s.on('connect', async () => {
+      connected.value = true;
+      await syncClock();
+      try {
+        if (opts.watch) {
+          accept(await ask<LiveState>('session:watch', { sessionId: opts.watch }));
+        } else {
+          accept(await ask<LiveState>('session:sync', {}));
+          me.value = await ask<Me>('participant:me', {});
+          await flush();
+        }
+      } catch (err) {
+        connectError.value = err instanceof CommandError ? err.message : 'Could not reach the session';
+      }
+    });
+    s.on('disconnect', () => {
+      connected.value = false;
+    });
+    s.on('connect_error', (err) => {
+      connected.value = false;
+      connectError.value = err.message;
+    });
+    s.on('session:updated', accept);
+    s.on('session:messaged', (m) => (lastMessage.value = m));
+    s.on('session:ended', () => (ended.value = true));
+    s.on('participants:updated', (p) => (participants.value = p));
+    s.on('submission:created', (sub) => {
+      if (!submissions.value.some((x) => x.id === sub.id)) submissions.value = [...submissions.value, sub];
+    });
+    // Every few minutes, re-estimate the offset: clocks drift and the first sync may have been unlucky.
+    clockTimer = setInterval(() => void (connected.value && syncClock(3)), 120_000);
+  }
+  const connectError = ref<string | null>(null);
+  let clockTimer: ReturnType<typeof setInterval> | undefined;
+
+  /** Closes the socket. */
+  function disconnect(): void {
+    clearInterval(clockTimer);
+    socket.value?.removeAllListeners();
+    socket.value?.disconnect();
+    socket.value = null;
+    connected.value = false;
+  }
+
+  /** Runs a facilitator command and takes the state it answers with. */
+  async function command(event: keyof ClientToServerEvents, payload: unknown = {}): Promise<LiveState> {
+    const next = await ask<LiveState>(event, payload);
+    accept(next);
+    return next;
+  }
+
+  /** The console's list of who is in the room. */
+  async function loadParticipants(): Promise<void> {
+    participants.value = await ask<ParticipantView[]>('participants:list', {});
+  }
+
+  /** The submissions of an item so far (console). */
+  async function loadSubmissions(itemId: string): Promise<void> {
+    submissions.value = await ask<SubmissionView[]>('submission:list', { itemId });
+  }
+
+  /** The participant changes their photo consent. */
+  async function setConsent(photoConsent: boolean): Promise<void> {
+    me.value = await ask<Me>('participant:consent', { photoConsent });
+  }
+
+  return {
+    state,
+    connected,
+    ended,
+    me,
+    participants,
+    submissions,
+    lastMessage,
+    offsetMs,
+    errorBoundMs,
+    outbox,
+    rejected,
+    connectError,
+    currentItem,
+    serverNow,
+    connect,
+    disconnect,
+    command,
+    submit,
+    loadParticipants,
+    loadSubmissions,
+    setConsent,
+  };
+});
