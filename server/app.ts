@@ -28,6 +28,8 @@ import { registerClockSocket } from './features/clock/clock.socket';
 import { LiveService } from './features/live/live.service';
 import { liveRoutes } from './features/live/live.router';
 import { registerLiveSocket } from './features/live/live.socket';
+import { TeamsService } from './features/teams/teams.service';
+import { registerTeamsSocket } from './features/teams/teams.socket';
 import type { ClientToServerEvents, ServerToClientEvents, SocketData } from '../shared/events';
 
 /** A built Cairn app: Express and socket.io on one HTTP server that is not listening yet. */
@@ -146,9 +148,12 @@ export async function createApp(config: Config): Promise<CairnApp> {
     next();
   });
   live.attach(io);
+  const teams = new TeamsService(ctx);
+  teams.attach(io);
   io.on('connection', (socket) => {
     registerClockSocket(socket);
-    registerLiveSocket(socket, ctx, live);
+    const commands = registerLiveSocket(socket, ctx, live);
+    registerTeamsSocket(commands, teams);
   });
 
   return {

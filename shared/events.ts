@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import type { ErrorCode } from './errors';
 import type { LiveState, Me, ParticipantView, SubmissionView } from './schemas/live';
+import type { FormTeamsPayload, SetTeamsPayload, Team } from './schemas/team';
 
 /** Every socket command answers through an acknowledgement of this shape. */
 export type Ack<T> = { data: T } | { error: { code: ErrorCode; message: string } };
@@ -62,6 +63,12 @@ export interface ClientToServerEvents {
   'submission:create': (payload: unknown, ack: AckFn<{ id: string; duplicate: boolean }>) => void;
   /** Console: the submissions of an item so far. */
   'submission:list': (payload: { itemId: string }, ack: AckFn<SubmissionView[]>) => void;
+  /** Any screen: the session's teams. */
+  'teams:list': (payload: Record<string, never>, ack: AckFn<Team[]>) => void;
+  /** Console: split the room into teams as even as possible. */
+  'teams:form': (payload: z.input<typeof FormTeamsPayload>, ack: AckFn<Team[]>) => void;
+  /** Console: set the teams as decided (moves people, names challenges). */
+  'teams:set': (payload: z.input<typeof SetTeamsPayload>, ack: AckFn<Team[]>) => void;
 }
 
 /** Events the server pushes to clients (`entity:verbed`). */
@@ -76,6 +83,8 @@ export interface ServerToClientEvents {
   'participants:updated': (participants: ParticipantView[]) => void;
   /** A new submission (facilitators only). */
   'submission:created': (submission: SubmissionView) => void;
+  /** The teams changed (to everyone in the session). */
+  'teams:updated': (teams: Team[]) => void;
 }
 
 /** What the server remembers about each socket once it has authenticated. */

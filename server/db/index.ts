@@ -4,11 +4,13 @@ import sqlite3 from 'sqlite3';
 import { defineModels, type Models } from './models';
 import * as m0001 from './migrations/0001-initial';
 import * as m0002 from './migrations/0002-live';
+import * as m0003 from './migrations/0003-teams';
 
 /** Versioned migrations, in order; add a file and a line here for each schema change. */
 export const MIGRATIONS = [
   { name: '0001-initial', ...m0001 },
   { name: '0002-live', ...m0002 },
+  { name: '0003-teams', ...m0003 },
 ];
 
 /** An open Cairn database: Sequelize, its models and a serialised writer. */

@@ -141,6 +141,17 @@ export interface ParticipantRow extends Model<InferAttributes<ParticipantRow>, I
   lastSeenAt: Date;
 }
 
+/** A team of a live session. */
+export interface TeamRow extends Model<InferAttributes<TeamRow>, InferCreationAttributes<TeamRow>> {
+  id: string;
+  sessionId: string;
+  name: string;
+  challenge: string | null;
+  position: number;
+  createdAt: CreationOptional<Date>;
+  updatedAt: CreationOptional<Date>;
+}
+
 /** A note, guided sentence or feedback a participant submitted to an agenda item of a live session. */
 export interface SubmissionRow extends Model<InferAttributes<SubmissionRow>, InferCreationAttributes<SubmissionRow>> {
   id: string;
@@ -169,6 +180,7 @@ export interface Models {
   PasswordReset: ModelStatic<PasswordResetRow>;
   LiveSession: ModelStatic<LiveSessionRow>;
   Participant: ModelStatic<ParticipantRow>;
+  Team: ModelStatic<TeamRow>;
   Submission: ModelStatic<SubmissionRow>;
 }
 
@@ -319,5 +331,17 @@ export function defineModels(sequelize: Sequelize): Models {
     // createdAt is set by the service, not by Sequelize, and submissions have no updatedAt.
     { tableName: 'submissions', timestamps: false },
   );
-  return { User, Setting, Workshop, AgendaItem, Membership, Invitation, PasswordReset, LiveSession, Participant, Submission };
+  const Team = sequelize.define<TeamRow>(
+    'Team',
+    {
+      id: { type: DataTypes.STRING(36), primaryKey: true },
+      sessionId: str(36),
+      name: str(60),
+      challenge: { type: DataTypes.TEXT, allowNull: true },
+      position: { type: DataTypes.INTEGER, allowNull: false },
+      ...timestamps,
+    },
+    { tableName: 'teams' },
+  );
+  return { User, Setting, Workshop, AgendaItem, Membership, Invitation, PasswordReset, LiveSession, Participant, Submission, Team };
 }

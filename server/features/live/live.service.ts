@@ -40,6 +40,8 @@ export const liveRooms = {
   screens: (sessionId: string) => `screens:${sessionId}`,
   /** The phones of one team. */
   team: (teamId: string) => `team:${teamId}`,
+  /** Every socket of one participant (a phone may have several tabs), so they can be moved between team rooms. */
+  participant: (participantId: string) => `participant:${participantId}`,
 };
 
 /** How long a pushed state may be served again to a phone that asks for it, before it is read afresh. */

@@ -23,17 +23,17 @@ export type LiveSocket = Socket<ClientToServerEvents, ServerToClientEvents, Reco
  * session: a phone, a projector, or an account watching it), `runner` (an owner or co-facilitator
  * watching the session).
  */
-type Need = 'participant' | 'screen' | 'runner';
+export type Need = 'participant' | 'screen' | 'runner';
 
 /** The caller of a command, once allowed. */
-interface Allowed {
+export interface Allowed {
   sessionId: string;
   participantId: string | null;
 }
 
-type Command = Exclude<keyof ClientToServerEvents, 'clock:ping'>;
+export type Command = Exclude<keyof ClientToServerEvents, 'clock:ping'>;
 /** What a command's acknowledgement carries on success. */
-type AckData<E extends Command> = Parameters<ClientToServerEvents[E]>[1] extends AckFn<infer T> ? T : never;
+export type AckData<E extends Command> = Parameters<ClientToServerEvents[E]>[1] extends AckFn<infer T> ? T : never;
 
 /** Parses a payload with its schema; a refusal names each field in the acknowledgement's message. */
 function parse<S extends z.ZodType>(schema: S, value: unknown): z.infer<S> {
@@ -53,12 +53,26 @@ async function roleOf(ctx: AppContext, userId: string, workshopId: string): Prom
   return role === 'missing' ? null : role;
 }
 
+/** Registers a live command on one socket: authorise by need, run (which parses), answer through the ack. */
+export type LiveOn = <E extends Command>(
+  event: E,
+  need: Need | null,
+  run: (payload: unknown, who: Allowed) => Promise<AckData<E>>,
+) => void;
+
+/** What other features get to add their own commands to a live socket, with the same authorisation. */
+export interface LiveCommands {
+  on: LiveOn;
+  /** Parses a payload with its schema or throws a `validation_failed` error. */
+  parse: typeof parse;
+}
+
 /**
  * The live session's socket commands for one connection: phones are put in their session's and
  * team's rooms on connect, projectors in their session's; accounts attach with `session:watch`.
  * Every command is authorised by role, its payload parsed with zod, and answered through its ack.
  */
-export function registerLiveSocket(socket: LiveSocket, ctx: AppContext, live: LiveService): void {
+export function registerLiveSocket(socket: LiveSocket, ctx: AppContext, live: LiveService): LiveCommands {
   const data = socket.data;
   let participant: { id: string; sessionId: string } | null = null;
   let countedOnline = false;
@@ -69,7 +83,11 @@ export function registerLiveSocket(socket: LiveSocket, ctx: AppContext, live: Li
       // A token whose participant is gone (data deleted, workshop removed) connects but joins nothing.
       if (!p || socket.disconnected) return;
       participant = { id: p.id, sessionId: p.sessionId };
-      await socket.join([liveRooms.session(p.sessionId), ...(p.teamId ? [liveRooms.team(p.teamId)] : [])]);
+      await socket.join([
+        liveRooms.session(p.sessionId),
+        liveRooms.participant(p.id),
+        ...(p.teamId ? [liveRooms.team(p.teamId)] : []),
+      ]);
       countedOnline = true;
       live.participantConnected(p.sessionId, p.id);
     } else if (data.kind === 'display' && data.sessionId) {
@@ -109,7 +127,7 @@ export function registerLiveSocket(socket: LiveSocket, ctx: AppContext, live: Li
   };
 
   /** Registers a command: authorise, then run (which parses), then answer through the ack. */
-  const on = <E extends Command>(event: E, need: Need | null, run: (payload: unknown, who: Allowed) => Promise<AckData<E>>) => {
+  const on: LiveOn = <E extends Command>(event: E, need: Need | null, run: (payload: unknown, who: Allowed) => Promise<AckData<E>>) => {
     // The typed `on` cannot take a generic event name; the handler's own types come from AckData.
     (socket as unknown as { on(ev: string, fn: (...args: unknown[]) => void): void }).on(event, (...args: unknown[]) => {
       let [payload, ack] = args;
@@ -199,4 +217,5 @@ export function registerLiveSocket(socket: LiveSocket, ctx: AppContext, live: Li
   on('submission:create', 'participant', async (payload, who) =>
     live.createSubmission(who.participantId!, who.sessionId, parse(SubmissionInput, payload)),
   );
+  return { on, parse };
 }
