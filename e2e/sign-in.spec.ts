@@ -19,11 +19,17 @@ test('a wrong password gets a clear message', async ({ page }) => {
 });
 
 test('the demo facilitator signs in and sees the demo workshop', async ({ page }) => {
+  // The built app must run under Cairn's Content-Security-Policy: no refused script, style, font or image.
+  const refused: string[] = [];
+  page.on('console', (m) => {
+    if (/Content Security Policy/i.test(m.text())) refused.push(m.text());
+  });
   await signIn(page, DEMO.facilitator);
   const card = page.getByTestId('workshop-card').filter({ hasText: "A new member's first ride" });
   await expect(card).toBeVisible();
   await expect(card).toContainText('You lead it');
   await shot(page, 'workshops');
+  expect(refused).toEqual([]);
   const results = await new AxeBuilder({ page }).analyze();
   const serious = results.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
   expect(serious.map((v) => `${v.id}: ${v.help}`)).toEqual([]);

@@ -25,6 +25,7 @@ import { systemRoutes } from './features/system/system.router';
 import { MembersService } from './features/members/members.service';
 import { membersRoutes } from './features/members/members.router';
 import { registerClockSocket } from './features/clock/clock.socket';
+import { limitSocketEvents } from './common/socket-rate-limit';
 import { LiveService } from './features/live/live.service';
 import { liveRoutes } from './features/live/live.router';
 import { registerLiveSocket } from './features/live/live.socket';
@@ -151,6 +152,8 @@ export async function createApp(config: Config): Promise<CairnApp> {
   const teams = new TeamsService(ctx);
   teams.attach(io);
   io.on('connection', (socket) => {
+    // Facilitators' screens are trusted more than a room of phones, but every socket is throttled.
+    limitSocketEvents(socket, socket.data.kind === 'participant' ? undefined : { burst: 200, perSecond: 100 });
     registerClockSocket(socket);
     const commands = registerLiveSocket(socket, ctx, live);
     registerTeamsSocket(commands, teams);
