@@ -3,6 +3,10 @@ import { createApp } from './app';
 import { DEMO_ACCOUNTS } from './db/seed';
 import { joinBaseUrl } from './common/network';
 
+// The SQLite driver captures a stack trace for every query; mapping it through tsx's source maps
+// costs more than the query itself under a burst of votes. Stack traces name the transpiled code.
+if (process.env.CAIRN_SOURCE_MAPS !== 'true') process.setSourceMapsEnabled(false);
+
 /** Starts Cairn: builds the app, listens on PORT, and shuts down cleanly on SIGINT/SIGTERM. */
 async function main(): Promise<void> {
   const config = loadConfig();

@@ -1,0 +1,98 @@
+/**
+ * One server of the benchmark, in a process of its own so its heap, CPU and event loop are measured
+ * alone: `cairn` (the real app on a fresh SQLite file) or `bare` (a plain socket.io server that only
+ * joins a room and broadcasts, the baseline). Talks to the benchmark over the IPC channel.
+ */
+import http from 'node:http';
+import fs from 'node:fs/promises';
+import os from 'node:os';
+import path from 'node:path';
+import type { AddressInfo } from 'node:net';
+import { monitorEventLoopDelay } from 'node:perf_hooks';
+import { Server } from 'socket.io';
+import { createApp, type CairnApp } from '../server/app';
+import { loadConfig } from '../server/config/env';
+
+// As in server/index.ts: no source-mapped stack traces on the hot path (see there).
+process.setSourceMapsEnabled(false);
+const mode = process.argv[2] === 'bare' ? 'bare' : 'cairn';
+const loop = monitorEventLoopDelay({ resolution: 10 });
+loop.enable();
+let cpuMark = process.cpuUsage();
+let cairn: CairnApp | null = null;
+let dataDir = '';
+
+type Request = { id: number; type: 'stats' | 'gc' | 'reset' | 'count' | 'broadcast' | 'close'; payload?: unknown };
+
+function reply(id: number, data: unknown): void {
+  process.send?.({ id, data });
+}
+
+async function main(): Promise<void> {
+  let server: http.Server;
+  let bareIo: Server | null = null;
+  if (mode === 'cairn') {
+    dataDir = await fs.mkdtemp(path.join(os.tmpdir(), 'cairn-bench-'));
+    cairn = await createApp(
+      loadConfig({ NODE_ENV: 'test', DATA_DIR: dataDir, LOG_LEVEL: 'silent', JWT_SECRET: 'a benchmark secret of at least thirty-two characters', PUBLIC_URL: 'http://127.0.0.1' }),
+    );
+    server = cairn.server;
+  } else {
+    server = http.createServer();
+    bareIo = new Server(server, { maxHttpBufferSize: 256 * 1024 });
+    bareIo.on('connection', (socket) => {
+      void socket.join('room');
+      socket.on('ping:ack', (_p: unknown, ack: (a: unknown) => void) => ack({ data: true }));
+    });
+  }
+  await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
+  process.send?.({ ready: true, port: (server.address() as AddressInfo).port });
+
+  process.on('message', async (msg: Request) => {
+    switch (msg.type) {
+      case 'gc':
+        (globalThis as { gc?: () => void }).gc?.();
+        reply(msg.id, process.memoryUsage().heapUsed);
+        break;
+      case 'reset':
+        loop.reset();
+        cpuMark = process.cpuUsage();
+        reply(msg.id, true);
+        break;
+      case 'stats': {
+        const cpu = process.cpuUsage(cpuMark);
+        reply(msg.id, {
+          heapUsed: process.memoryUsage().heapUsed,
+          loopDelayP99Ms: loop.percentile(99) / 1e6,
+          cpuUserMs: cpu.user / 1000,
+          cpuSystemMs: cpu.system / 1000,
+        });
+        break;
+      }
+      case 'count': {
+        // Stored dots (or notes) of the session: what the benchmark compares its acknowledgements with.
+        const table = String((msg.payload as { table: string }).table);
+        const rows = (await cairn!.ctx.db.sequelize.query(`SELECT COUNT(*) AS n FROM ${table === 'dots' ? 'dots' : 'submissions'}`, {
+          plain: true,
+        })) as { n: number } | null;
+        reply(msg.id, Number(rows?.n ?? 0));
+        break;
+      }
+      case 'broadcast':
+        bareIo?.to('room').emit('session:updated', msg.payload);
+        reply(msg.id, true);
+        break;
+      case 'close':
+        if (cairn) await cairn.close();
+        else await new Promise<void>((resolve) => bareIo!.close(() => resolve()));
+        if (dataDir) await fs.rm(dataDir, { recursive: true, force: true });
+        reply(msg.id, true);
+        process.exit(0);
+    }
+  });
+}
+
+main().catch((err) => {
+  console.error(err);
+  process.exit(1);
+});
