@@ -26,11 +26,23 @@ import { MembersService } from './features/members/members.service';
 import { membersRoutes } from './features/members/members.router';
 import { registerClockSocket } from './features/clock/clock.socket';
 import { limitSocketEvents } from './common/socket-rate-limit';
+import { shareBroadcasts } from './common/scale-out';
 import { LiveService } from './features/live/live.service';
 import { liveRoutes } from './features/live/live.router';
 import { registerLiveSocket } from './features/live/live.socket';
 import { TeamsService } from './features/teams/teams.service';
 import { registerTeamsSocket } from './features/teams/teams.socket';
+import { ActivitiesService } from './features/activities/activities.service';
+import { registerActivitiesSocket } from './features/activities/activities.socket';
+import { PhotosService } from './features/activities/photos.service';
+import { uploadsRoutes } from './features/activities/uploads.router';
+import { VotingService } from './features/voting/voting.service';
+import { votingRoutes } from './features/voting/voting.router';
+import { registerVotingSocket } from './features/voting/voting.socket';
+import { ResultsService } from './features/results/results.service';
+import { ReportService } from './features/results/report.service';
+import { RetentionService } from './features/results/retention.service';
+import { resultsRoutes } from './features/results/results.router';
 import type { ClientToServerEvents, ServerToClientEvents, SocketData } from '../shared/events';
 
 /** A built Cairn app: Express and socket.io on one HTTP server that is not listening yet. */
@@ -116,6 +128,15 @@ export async function createApp(config: Config): Promise<CairnApp> {
   membersRoutes(routes, ctx, new MembersService(db, mail), auth);
   const live = new LiveService(ctx);
   liveRoutes(routes, ctx, live);
+  const activities = new ActivitiesService(ctx, live);
+  uploadsRoutes(routes, ctx, new PhotosService(ctx, live));
+  const voting = new VotingService(ctx, live);
+  votingRoutes(routes, voting);
+  const results = new ResultsService(ctx, { votes: voting });
+  const retention = new RetentionService(ctx);
+  resultsRoutes(routes, ctx, { results, report: new ReportService(ctx, results), retention });
+  // Deletes personal data whose retention time has passed, checked periodically while Cairn runs.
+  retention.start();
   app.use('/api', routes.router);
   app.use('/api', notFoundHandler);
 
@@ -148,15 +169,21 @@ export async function createApp(config: Config): Promise<CairnApp> {
     else return next(new Error(caller.kind === 'problem' ? `token_${caller.problem}` : 'unauthenticated'));
     next();
   });
+  // Several processes behind sticky sessions share broadcasts through Redis (docs/scaling.md).
+  const stopSharing = config.redisUrl ? await shareBroadcasts(io, config.redisUrl) : null;
   live.attach(io);
   const teams = new TeamsService(ctx);
   teams.attach(io);
+  activities.attach(io);
+  voting.attach(io);
   io.on('connection', (socket) => {
     // Facilitators' screens are trusted more than a room of phones, but every socket is throttled.
     limitSocketEvents(socket, socket.data.kind === 'participant' ? undefined : { burst: 200, perSecond: 100 });
     registerClockSocket(socket);
     const commands = registerLiveSocket(socket, ctx, live);
     registerTeamsSocket(commands, teams);
+    registerActivitiesSocket(commands, activities);
+    registerVotingSocket(commands, voting, socket, ctx);
   });
 
   return {
@@ -167,9 +194,13 @@ export async function createApp(config: Config): Promise<CairnApp> {
     async close() {
       // First, so the disconnects below schedule no announcements against a closing database.
       live.close();
+      activities.close();
+      voting.close();
+      await retention.stop();
       io.disconnectSockets(true);
       await new Promise<void>((resolve) => io.close(() => resolve()));
       if (server.listening) await new Promise<void>((resolve) => server.close(() => resolve()));
+      await stopSharing?.();
       await mail.close();
       await db.close();
     },

@@ -2,6 +2,19 @@ import { z } from 'zod';
 import type { ErrorCode } from './errors';
 import type { LiveState, Me, ParticipantView, SubmissionView } from './schemas/live';
 import type { FormTeamsPayload, SetTeamsPayload, Team } from './schemas/team';
+import type {
+  BallotAnswer,
+  ChoosePayload,
+  DotPayload,
+  MyBallot,
+  RankPayload,
+  TeamProposal,
+  VoteResults,
+  VoteSetupPayload,
+  VoteSources,
+  VoteView,
+} from './schemas/voting';
+import type { ActivityBoard, ActivityPayloads, PromotedOption, NoteView, RoundView, ThemeView } from './schemas/activities';
 
 /** Every socket command answers through an acknowledgement of this shape. */
 export type Ack<T> = { data: T } | { error: { code: ErrorCode; message: string } };
@@ -69,6 +82,63 @@ export interface ClientToServerEvents {
   'teams:form': (payload: z.input<typeof FormTeamsPayload>, ack: AckFn<Team[]>) => void;
   /** Console: set the teams as decided (moves people, names challenges). */
   'teams:set': (payload: z.input<typeof SetTeamsPayload>, ack: AckFn<Team[]>) => void;
+  /** Any screen: the current item's vote (a phone also gets its own ballot). */
+  'vote:state': (payload: Record<string, never>, ack: AckFn<VoteView>) => void;
+  /** Console: set the current item's vote up (options and rules) before it opens. */
+  'vote:setup': (payload: z.input<typeof VoteSetupPayload>, ack: AckFn<VoteView>) => void;
+  /** Console: open the current item's vote (again). */
+  'vote:open': (payload: Record<string, never>, ack: AckFn<VoteView>) => void;
+  /** Console: close the current item's vote; votes are final. */
+  'vote:close': (payload: Record<string, never>, ack: AckFn<VoteView>) => void;
+  /** Phone: add or take back one dot; a repeated clientId is applied once. */
+  'vote:dot': (payload: z.input<typeof DotPayload>, ack: AckFn<BallotAnswer>) => void;
+  /** Phone: put the options in order; a repeated clientId is applied once. */
+  'vote:rank': (payload: z.input<typeof RankPayload>, ack: AckFn<BallotAnswer>) => void;
+  /** Console any time, other screens once revealed: the current vote's results. */
+  'vote:results': (payload: Record<string, never>, ack: AckFn<VoteResults>) => void;
+  /** Console: carry the top N forward, with ties at the cut-off broken by the facilitator. */
+  'vote:choose': (payload: z.input<typeof ChoosePayload>, ack: AckFn<VoteView>) => void;
+  /** Console: what may become options: earlier notes and earlier votes' chosen options. */
+  'vote:sources': (payload: Record<string, never>, ack: AckFn<VoteSources>) => void;
+  /** Console: Cairn's teams from the current team sort, to adjust and confirm with `teams:set`. */
+  'teams:propose': (payload: Record<string, never>, ack: AckFn<TeamProposal>) => void;
+  /** Any screen: what an activity shows of an item (a phone: its own and its team's notes; others: the room's, no names, nothing hidden). */
+  'activity:board': (payload: z.input<typeof ActivityPayloads.item>, ack: AckFn<ActivityBoard>) => void;
+  /** Console: every note of an item with names, hidden and merged ones, themes and promotions, to moderate. */
+  'notes:list': (payload: z.input<typeof ActivityPayloads.item>, ack: AckFn<ActivityBoard>) => void;
+  /** Console: hide notes from the room, or show them again (the undo). */
+  'notes:hide': (payload: z.input<typeof ActivityPayloads.hide>, ack: AckFn<NoteView[]>) => void;
+  /** Console: merge duplicates under the note to keep. */
+  'notes:merge': (payload: z.input<typeof ActivityPayloads.merge>, ack: AckFn<NoteView[]>) => void;
+  /** Console: a merged duplicate stands on its own again. */
+  'notes:unmerge': (payload: z.input<typeof ActivityPayloads.unmerge>, ack: AckFn<NoteView[]>) => void;
+  /** Console: make a note or a theme an option of a later vote (promoting twice answers with the first). */
+  'notes:promote': (payload: z.input<typeof ActivityPayloads.promote>, ack: AckFn<PromotedOption>) => void;
+  /** Console: take a promotion back. */
+  'notes:unpromote': (payload: z.input<typeof ActivityPayloads.unpromote>, ack: AckFn<PromotedOption[]>) => void;
+  /**
+   * Any screen: the notes and themes promoted to options of a later vote, in the order they were
+   * promoted (the whole session's, or one item's): `{ id, text, sourceKind: 'note' | 'theme', sourceId, itemId }[]`.
+   */
+  'notes:promoted': (payload: z.input<typeof ActivityPayloads.promoted>, ack: AckFn<PromotedOption[]>) => void;
+  /** Console: a new affinity theme, with the notes dropped into it. */
+  'themes:create': (payload: z.input<typeof ActivityPayloads.themeCreate>, ack: AckFn<ThemeView>) => void;
+  /** Console: accept suggested themes (as the facilitator changed them). */
+  'themes:apply': (payload: z.input<typeof ActivityPayloads.themeApply>, ack: AckFn<ThemeView[]>) => void;
+  /** Console: rename a theme (its promotion, if any, follows). */
+  'themes:rename': (payload: z.input<typeof ActivityPayloads.themeRename>, ack: AckFn<ThemeView>) => void;
+  /** Console: remove a theme; its notes go back to the ungrouped ones. */
+  'themes:delete': (payload: z.input<typeof ActivityPayloads.themeDelete>, ack: AckFn<{ id: string }>) => void;
+  /** Console: move notes into a theme (`themeId: null` takes them out). */
+  'themes:assign': (payload: z.input<typeof ActivityPayloads.themeAssign>, ack: AckFn<NoteView[]>) => void;
+  /** Any screen: the current round of an item run in rounds (rotating pairs, test rounds' visits). */
+  'rounds:get': (payload: z.input<typeof ActivityPayloads.item>, ack: AckFn<RoundView>) => void;
+  /** Console: go to a round, or draw the pairs again from whoever is online (`regroup`). */
+  'rounds:set': (payload: z.input<typeof ActivityPayloads.roundSet>, ack: AckFn<RoundView>) => void;
+  /** Phone: put the own team's storyboard frames in order. */
+  'storyboard:reorder': (payload: z.input<typeof ActivityPayloads.reorder>, ack: AckFn<string[]>) => void;
+  /** Console: put any storyboard's frames in order. */
+  'storyboard:arrange': (payload: z.input<typeof ActivityPayloads.arrange>, ack: AckFn<string[]>) => void;
 }
 
 /** Events the server pushes to clients (`entity:verbed`). */
@@ -85,6 +155,20 @@ export interface ServerToClientEvents {
   'submission:created': (submission: SubmissionView) => void;
   /** The teams changed (to everyone in the session). */
   'teams:updated': (teams: Team[]) => void;
+  /** The current vote's options or status changed (to everyone in the session; no tallies). */
+  'vote:updated': (vote: VoteView) => void;
+  /** New tallies (to facilitators; to the whole session once revealed), at most a few a second. */
+  'vote:tallied': (results: VoteResults) => void;
+  /** A participant's own ballot changed (to that participant's phones, so a second device follows). */
+  'ballot:updated': (mine: MyBallot) => void;
+  /** Something on an item's board changed (notes, themes, photos, frame order): fetch it again. Coalesced, a few a second at most. */
+  'activity:changed': (payload: { itemId: string }) => void;
+  /** A teammate's note on a team activity (to the team's room), so the team's phones show it as it comes. */
+  'notes:added': (note: NoteView) => void;
+  /** The round of an item changed (to everyone in the session). */
+  'rounds:updated': (round: RoundView) => void;
+  /** The session's promoted notes and themes changed (to the facilitators). */
+  'promotions:updated': (options: PromotedOption[]) => void;
 }
 
 /** What the server remembers about each socket once it has authenticated. */

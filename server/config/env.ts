@@ -28,6 +28,7 @@ export const EnvSchema = z.object({
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
   ACCESS_TOKEN_TTL_SEC: z.coerce.number().int().min(10).max(86400).default(900),
   CORS_ORIGINS: z.string().default(''),
+  REDIS_URL: z.string().optional(),
 });
 
 /** Cairn's validated configuration. */
@@ -49,6 +50,8 @@ export interface Config {
   accessTokenTtlSec: number;
   /** Extra origins allowed to open sockets (besides the page's own). */
   corsOrigins: string[];
+  /** Redis for sharing socket broadcasts between several Cairn processes; `null` for one process. */
+  redisUrl: string | null;
 }
 
 /** Reads the dev signing secret from the data folder, creating it on first use. */
@@ -90,5 +93,6 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     logLevel: e.LOG_LEVEL,
     accessTokenTtlSec: e.ACCESS_TOKEN_TTL_SEC,
     corsOrigins: e.CORS_ORIGINS.split(',').map((s) => s.trim()).filter(Boolean),
+    redisUrl: e.REDIS_URL ?? null,
   };
 }

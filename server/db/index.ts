@@ -5,12 +5,18 @@ import { defineModels, type Models } from './models';
 import * as m0001 from './migrations/0001-initial';
 import * as m0002 from './migrations/0002-live';
 import * as m0003 from './migrations/0003-teams';
+import * as m0004 from './migrations/0004-activities';
+import * as m0005 from './migrations/0005-voting';
+import * as m0006 from './migrations/0006-retention';
 
 /** Versioned migrations, in order; add a file and a line here for each schema change. */
 export const MIGRATIONS = [
   { name: '0001-initial', ...m0001 },
   { name: '0002-live', ...m0002 },
   { name: '0003-teams', ...m0003 },
+  { name: '0004-activities', ...m0004 },
+  { name: '0005-voting', ...m0005 },
+  { name: '0006-retention', ...m0006 },
 ];
 
 /** An open Cairn database: Sequelize, its models and a serialised writer. */
@@ -24,8 +30,18 @@ export interface Database {
    * in-process instead of meeting SQLITE_BUSY.
    */
   writeTx<T>(fn: (t: Transaction) => Promise<T>): Promise<T>;
+  /**
+   * Runs `fn` in the writer queue like writeTx, but lets it share one transaction with the other
+   * batched writes waiting at that moment (group commit), for hot paths such as votes. `fn` must do
+   * its checks before it writes and return a refusal as a value: anything thrown rolls the whole
+   * batch back and every caller in it gets the error; `onRollback` lets a caller forget what it cached.
+   */
+  batchTx<T>(fn: (t: Transaction) => Promise<T>, onRollback?: () => void): Promise<T>;
   close(): Promise<void>;
 }
+
+/** The most writes one group commit carries. */
+const MAX_BATCH = 200;
 
 /**
  * Opens (creating if needed) the SQLite file, applies pending migrations and defines the models.
@@ -39,18 +55,37 @@ export async function openDatabase(storage: string): Promise<Database> {
     logging: false,
     transactionType: Transaction.TYPES.IMMEDIATE,
   });
-  // Every connection (Sequelize opens one per transaction on SQLite) waits for a lock instead of failing.
+  // Sequelize opens a fresh SQLite connection for every transaction and closes it after. Since
+  // writeTx runs one transaction at a time, they all share one long-lived writer connection
+  // instead (opening one costs milliseconds, which a burst of votes cannot spare).
+  type Conn = sqlite3.Database & { __cairn?: boolean; uuid?: string };
   const cm = sequelize.connectionManager as unknown as {
-    getConnection: (o?: unknown) => Promise<sqlite3.Database & { __cairn?: boolean }>;
+    getConnection: (o?: { uuid?: string }) => Promise<Conn>;
+    releaseConnection: (c: Conn, force?: boolean) => void;
   };
   const getConnection = cm.getConnection.bind(cm);
-  cm.getConnection = async (o?: unknown) => {
-    const conn = await getConnection(o);
+  const releaseConnection = cm.releaseConnection.bind(cm);
+  let writer: Conn | null = null;
+  const prepare = (conn: Conn) => {
     if (!conn.__cairn) {
       conn.configure('busyTimeout', 10_000);
+      // Per connection: in WAL mode NORMAL syncs at checkpoints, not at every commit; a killed
+      // process loses nothing committed (only a power cut can lose the last transactions).
+      conn.run('PRAGMA synchronous=NORMAL');
       conn.__cairn = true;
     }
     return conn;
+  };
+  cm.getConnection = async (o?: { uuid?: string }) => {
+    if (o?.uuid && o.uuid !== 'default') {
+      writer ??= prepare(await getConnection({ uuid: 'cairn-writer' }));
+      return writer;
+    }
+    return prepare(await getConnection(o));
+  };
+  cm.releaseConnection = (c: Conn, force?: boolean) => {
+    if (c === writer) return;
+    releaseConnection(c, force);
   };
   await sequelize.query('PRAGMA journal_mode=WAL');
   await sequelize.query('PRAGMA synchronous=NORMAL');
@@ -67,17 +102,62 @@ export async function openDatabase(storage: string): Promise<Database> {
   const schemaVersion = executed.at(-1)?.name ?? 'none';
 
   const models = defineModels(sequelize);
-  let queue: Promise<unknown> = Promise.resolve();
-  const writeTx = <T>(fn: (t: Transaction) => Promise<T>): Promise<T> => {
-    const run = queue.then(() => sequelize.transaction({ type: Transaction.TYPES.IMMEDIATE }, fn));
-    queue = run.catch(() => undefined);
-    return run;
+  // One queue of writers: solo transactions run alone; batched writes that wait next to each other
+  // share one transaction. Only one transaction is open at a time, on the one writer connection.
+  type Entry =
+    | { solo: true; run: () => Promise<void> }
+    | { solo: false; fn: (t: Transaction) => Promise<unknown>; resolve: (v: unknown) => void; reject: (e: unknown) => void; onRollback?: () => void };
+  const pending: Entry[] = [];
+  let draining = false;
+  const drain = async () => {
+    if (draining) return;
+    draining = true;
+    try {
+      while (pending.length > 0) {
+        const head = pending[0]!;
+        if (head.solo) {
+          pending.shift();
+          await head.run();
+          continue;
+        }
+        const batch: Extract<Entry, { solo: false }>[] = [];
+        while (batch.length < MAX_BATCH && pending.length > 0 && !pending[0]!.solo) batch.push(pending.shift() as Extract<Entry, { solo: false }>);
+        const results: unknown[] = [];
+        try {
+          await sequelize.transaction({ type: Transaction.TYPES.IMMEDIATE }, async (t) => {
+            for (const item of batch) results.push(await item.fn(t));
+          });
+          batch.forEach((item, i) => item.resolve(results[i]));
+        } catch (err) {
+          for (const item of batch) {
+            item.onRollback?.();
+            item.reject(err);
+          }
+        }
+      }
+    } finally {
+      draining = false;
+    }
   };
+  const writeTx = <T>(fn: (t: Transaction) => Promise<T>): Promise<T> =>
+    new Promise<T>((resolve, reject) => {
+      pending.push({
+        solo: true,
+        run: () => sequelize.transaction({ type: Transaction.TYPES.IMMEDIATE }, fn).then(resolve, reject),
+      });
+      void drain();
+    });
+  const batchTx = <T>(fn: (t: Transaction) => Promise<T>, onRollback?: () => void): Promise<T> =>
+    new Promise<T>((resolve, reject) => {
+      pending.push({ solo: false, fn, resolve: resolve as (v: unknown) => void, reject, onRollback });
+      void drain();
+    });
   return {
     sequelize,
     models,
     schemaVersion,
     writeTx,
+    batchTx,
     close: () => sequelize.close(),
   };
 }

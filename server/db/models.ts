@@ -11,6 +11,7 @@ import type { GlobalRole } from '../../shared/schemas/user';
 import type { ActivitySettings } from '../../shared/schemas/agenda-item';
 import type { DayWindow, RuleSettings } from '../../shared/schemas/day-window';
 import type { ItemRun, SubmissionInput, TimerState } from '../../shared/schemas/live';
+import type { TeamProposal, VoteKind, VoteOption, VoteRules, VoteStatus } from '../../shared/schemas/voting';
 
 const timestamps = {
   createdAt: DataTypes.DATE,
@@ -54,6 +55,10 @@ export interface WorkshopRow extends Model<InferAttributes<WorkshopRow>, InferCr
   consentText: string;
   rules: RuleSettings;
   packed: string[];
+  /** Days after the last live session ended before personal data is deleted automatically; `null` for never. */
+  retentionDays: CreationOptional<number | null>;
+  /** When the workshop's names, photos and addresses were deleted. */
+  personalDataDeletedAt: CreationOptional<Date | null>;
   createdAt: CreationOptional<Date>;
   updatedAt: CreationOptional<Date>;
 }
@@ -166,6 +171,106 @@ export interface SubmissionRow extends Model<InferAttributes<SubmissionRow>, Inf
   teamId: string | null;
   hidden: CreationOptional<boolean>;
   themeId: string | null;
+  /** The note this duplicate was merged into (set by moderation; `null` for a note on its own). */
+  mergedIntoId: CreationOptional<string | null>;
+  createdAt: Date;
+}
+
+/** An affinity theme of one agenda item's notes, named by the facilitator. */
+export interface ThemeRow extends Model<InferAttributes<ThemeRow>, InferCreationAttributes<ThemeRow>> {
+  id: string;
+  sessionId: string;
+  itemId: string;
+  name: string;
+  position: number;
+  createdAt: CreationOptional<Date>;
+  updatedAt: CreationOptional<Date>;
+}
+
+/** A note or theme promoted to an option of a later vote, with its text as it was promoted. */
+export interface PromotionRow extends Model<InferAttributes<PromotionRow>, InferCreationAttributes<PromotionRow>> {
+  id: string;
+  sessionId: string;
+  itemId: string;
+  sourceKind: 'note' | 'theme';
+  sourceId: string;
+  text: string;
+  position: number;
+  createdAt: Date;
+}
+
+/** A photo a participant took (a sketch, a storyboard frame); its files live under the upload folder by `storageKey`. */
+export interface PhotoRow extends Model<InferAttributes<PhotoRow>, InferCreationAttributes<PhotoRow>> {
+  id: string;
+  sessionId: string;
+  itemId: string;
+  participantId: string;
+  clientId: string;
+  storageKey: string;
+  width: number;
+  height: number;
+  bytes: number;
+  showsPeople: boolean;
+  peopleConsent: boolean;
+  createdAt: Date;
+}
+
+/** What an activity of a live session keeps: the round of rotating pairs, who is paired, and the storyboards' frame order. */
+export interface ActivityStateRow extends Model<InferAttributes<ActivityStateRow>, InferCreationAttributes<ActivityStateRow>> {
+  id: string;
+  sessionId: string;
+  itemId: string;
+  round: number;
+  /** Participant ids in pairing order, fixed when the pairs were first drawn; `null` until then. */
+  roster: string[] | null;
+  /** Frame (submission) ids in story order, per team id. */
+  frameOrders: Record<string, string[]>;
+  createdAt: CreationOptional<Date>;
+  updatedAt: CreationOptional<Date>;
+}
+
+/** A vote of a live session: one per voting agenda item, with its options, rules and where it stands. */
+export interface VoteRow extends Model<InferAttributes<VoteRow>, InferCreationAttributes<VoteRow>> {
+  id: string;
+  sessionId: string;
+  itemId: string;
+  kind: VoteKind;
+  status: VoteStatus;
+  options: VoteOption[];
+  rules: VoteRules;
+  /** The options carried forward (top N with ties broken by the facilitator). */
+  chosen: string[] | null;
+  /** The last team proposal of a team sort. */
+  proposal: TeamProposal | null;
+  createdAt: CreationOptional<Date>;
+  updatedAt: CreationOptional<Date>;
+}
+
+/** The dots one participant put on one option of a dot vote for one criterion. */
+export interface VoteDotRow extends Model<InferAttributes<VoteDotRow>, InferCreationAttributes<VoteDotRow>> {
+  id: string;
+  voteId: string;
+  participantId: string;
+  optionId: string;
+  criterionId: string;
+  count: number;
+}
+
+/** One participant's order of the options of a preference vote or team sort. */
+export interface VoteRankingRow extends Model<InferAttributes<VoteRankingRow>, InferCreationAttributes<VoteRankingRow>> {
+  id: string;
+  voteId: string;
+  participantId: string;
+  ranking: string[];
+  updatedAt: Date;
+}
+
+/** A vote command already applied, by the phone's client id, so a retry is not applied twice. */
+export interface VoteReceiptRow extends Model<InferAttributes<VoteReceiptRow>, InferCreationAttributes<VoteReceiptRow>> {
+  id: string;
+  participantId: string;
+  clientId: string;
+  voteId: string;
   createdAt: Date;
 }
 
@@ -182,6 +287,14 @@ export interface Models {
   Participant: ModelStatic<ParticipantRow>;
   Team: ModelStatic<TeamRow>;
   Submission: ModelStatic<SubmissionRow>;
+  Theme: ModelStatic<ThemeRow>;
+  Promotion: ModelStatic<PromotionRow>;
+  Photo: ModelStatic<PhotoRow>;
+  ActivityState: ModelStatic<ActivityStateRow>;
+  Vote: ModelStatic<VoteRow>;
+  VoteDot: ModelStatic<VoteDotRow>;
+  VoteRanking: ModelStatic<VoteRankingRow>;
+  VoteReceipt: ModelStatic<VoteReceiptRow>;
 }
 
 /** Defines Cairn's models on a Sequelize instance (the tables come from the migrations). */
@@ -223,6 +336,8 @@ export function defineModels(sequelize: Sequelize): Models {
       consentText: { type: DataTypes.TEXT, allowNull: false },
       rules: { type: DataTypes.JSON, allowNull: false },
       packed: { type: DataTypes.JSON, allowNull: false },
+      retentionDays: { type: DataTypes.INTEGER, allowNull: true, defaultValue: null },
+      personalDataDeletedAt: { type: DataTypes.DATE, allowNull: true, defaultValue: null },
       ...timestamps,
     },
     { tableName: 'workshops' },
@@ -326,6 +441,7 @@ export function defineModels(sequelize: Sequelize): Models {
       teamId: { type: DataTypes.STRING(64), allowNull: true },
       hidden: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       themeId: { type: DataTypes.STRING(36), allowNull: true },
+      mergedIntoId: { type: DataTypes.STRING(36), allowNull: true, defaultValue: null },
       createdAt: { type: DataTypes.DATE, allowNull: false },
     },
     // createdAt is set by the service, not by Sequelize, and submissions have no updatedAt.
@@ -343,5 +459,133 @@ export function defineModels(sequelize: Sequelize): Models {
     },
     { tableName: 'teams' },
   );
-  return { User, Setting, Workshop, AgendaItem, Membership, Invitation, PasswordReset, LiveSession, Participant, Submission, Team };
+  const Theme = sequelize.define<ThemeRow>(
+    'Theme',
+    {
+      id: { type: DataTypes.STRING(36), primaryKey: true },
+      sessionId: str(36),
+      itemId: str(64),
+      name: str(80),
+      position: { type: DataTypes.INTEGER, allowNull: false },
+      ...timestamps,
+    },
+    { tableName: 'themes' },
+  );
+  const Promotion = sequelize.define<PromotionRow>(
+    'Promotion',
+    {
+      id: { type: DataTypes.STRING(36), primaryKey: true },
+      sessionId: str(36),
+      itemId: str(64),
+      sourceKind: str(10),
+      sourceId: str(36),
+      text: { type: DataTypes.TEXT, allowNull: false },
+      position: { type: DataTypes.INTEGER, allowNull: false },
+      createdAt: { type: DataTypes.DATE, allowNull: false },
+    },
+    { tableName: 'promotions', timestamps: false },
+  );
+  const Photo = sequelize.define<PhotoRow>(
+    'Photo',
+    {
+      id: { type: DataTypes.STRING(36), primaryKey: true },
+      sessionId: str(36),
+      itemId: str(64),
+      participantId: str(36),
+      clientId: str(64),
+      storageKey: str(64),
+      width: { type: DataTypes.INTEGER, allowNull: false },
+      height: { type: DataTypes.INTEGER, allowNull: false },
+      bytes: { type: DataTypes.INTEGER, allowNull: false },
+      showsPeople: { type: DataTypes.BOOLEAN, allowNull: false },
+      peopleConsent: { type: DataTypes.BOOLEAN, allowNull: false },
+      createdAt: { type: DataTypes.DATE, allowNull: false },
+    },
+    { tableName: 'photos', timestamps: false },
+  );
+  const ActivityState = sequelize.define<ActivityStateRow>(
+    'ActivityState',
+    {
+      id: { type: DataTypes.STRING(36), primaryKey: true },
+      sessionId: str(36),
+      itemId: str(64),
+      round: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
+      roster: { type: DataTypes.JSON, allowNull: true },
+      frameOrders: { type: DataTypes.JSON, allowNull: false },
+      ...timestamps,
+    },
+    { tableName: 'activity_states' },
+  );
+  const Vote = sequelize.define<VoteRow>(
+    'Vote',
+    {
+      id: { type: DataTypes.STRING(36), primaryKey: true },
+      sessionId: str(36),
+      itemId: str(64),
+      kind: str(20),
+      status: str(10),
+      options: { type: DataTypes.JSON, allowNull: false },
+      rules: { type: DataTypes.JSON, allowNull: false },
+      chosen: { type: DataTypes.JSON, allowNull: true },
+      proposal: { type: DataTypes.JSON, allowNull: true },
+      ...timestamps,
+    },
+    { tableName: 'votes' },
+  );
+  const VoteDot = sequelize.define<VoteDotRow>(
+    'VoteDot',
+    {
+      id: { type: DataTypes.STRING(36), primaryKey: true },
+      voteId: str(36),
+      participantId: str(36),
+      optionId: str(64),
+      criterionId: str(40),
+      count: { type: DataTypes.INTEGER, allowNull: false },
+    },
+    { tableName: 'vote_dots', timestamps: false },
+  );
+  const VoteRanking = sequelize.define<VoteRankingRow>(
+    'VoteRanking',
+    {
+      id: { type: DataTypes.STRING(36), primaryKey: true },
+      voteId: str(36),
+      participantId: str(36),
+      ranking: { type: DataTypes.JSON, allowNull: false },
+      updatedAt: { type: DataTypes.DATE, allowNull: false },
+    },
+    // updatedAt is set by the service with each new order; rankings have no createdAt.
+    { tableName: 'vote_rankings', timestamps: false },
+  );
+  const VoteReceipt = sequelize.define<VoteReceiptRow>(
+    'VoteReceipt',
+    {
+      id: { type: DataTypes.STRING(36), primaryKey: true },
+      participantId: str(36),
+      clientId: str(64),
+      voteId: str(36),
+      createdAt: { type: DataTypes.DATE, allowNull: false },
+    },
+    { tableName: 'vote_receipts', timestamps: false },
+  );
+  return {
+    User,
+    Setting,
+    Workshop,
+    AgendaItem,
+    Membership,
+    Invitation,
+    PasswordReset,
+    LiveSession,
+    Participant,
+    Submission,
+    Team,
+    Theme,
+    Promotion,
+    Photo,
+    ActivityState,
+    Vote,
+    VoteDot,
+    VoteRanking,
+    VoteReceipt,
+  };
 }

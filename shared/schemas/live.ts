@@ -142,8 +142,8 @@ export type LiveSessionInfo = z.infer<typeof LiveSessionInfo>;
 export const SubmissionInput = z.object({
   clientId: z.string().min(8).max(64),
   itemId: z.string().min(1).max(64),
-  /** What kind of input: a note, a quadrant note, a guided sentence, feedback, a reflection. */
-  kind: z.enum(['note', 'point_of_view', 'how_might_we', 'feedback', 'reflection', 'frame']),
+  /** What kind of input: a note, a quadrant note, a guided sentence, feedback, a reflection, a storyboard frame, a sketch's photo. */
+  kind: z.enum(['note', 'point_of_view', 'how_might_we', 'feedback', 'reflection', 'frame', 'sketch']),
   /** Quadrant or part (says / thinks / does / feels, worked / didnt / questions / ideas …). */
   part: z.string().max(30).optional(),
   text: z.string().trim().min(1, 'Write something first').max(500, 'Keep a note under 500 characters'),

@@ -22,6 +22,10 @@ const routes: RouteRecordRaw[] = [
       { path: 'workshops', name: 'workshops', component: () => import('../pages/workshops.vue') },
       { path: 'workshops/:workshopId', name: 'workshop-plan', component: () => import('../pages/workshop-plan.vue'), props: true },
       { path: 'workshops/:workshopId/packing-list', name: 'packing-list', component: () => import('../pages/packing-list.vue'), props: true },
+      { path: 'workshops/:workshopId/results', name: 'workshop-results', component: () => import('../pages/workshop-results.vue'), props: true },
+      { path: 'workshops/:workshopId/report', name: 'workshop-report', component: () => import('../pages/workshop-report.vue'), props: true },
+      // A phone's own data (address for the report, removing its notes); public: the phone holds its participant token.
+      { path: 'phone/:sessionId/my-data', name: 'phone-data', component: () => import('../pages/phone-data.vue'), props: true, meta: { public: true } },
       { path: 'invitations/accept', name: 'invitation-accept', component: () => import('../pages/invitation-accept.vue'), meta: { public: true } },
       { path: 'account', name: 'account', component: () => import('../pages/account.vue') },
       { path: 'admin/accounts', name: 'admin-accounts', component: () => import('../pages/admin-accounts.vue'), meta: { admin: true } },

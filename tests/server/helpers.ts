@@ -236,3 +236,95 @@ export async function joinLive(
   if (res.status !== 200) throw new Error(`joining ${code} answered ${res.status}: ${JSON.stringify(res.body)}`);
   return res.body as JoinAnswer;
 }
+
+/** One note a phone sends during {@link liveDay}: to the first agenda item of `type`, from phone number `phone` (0-based). */
+export interface LiveDayNote {
+  type: import('../../shared/schemas/agenda-item').ActivityType;
+  phone: number;
+  text: string;
+  kind?: import('../../shared/schemas/live').SubmissionInput['kind'];
+  part?: string;
+  /** Structured fields; a function gets the ids of the teams by name (e.g. the team whose prototype was tested). */
+  fields?: Record<string, string> | ((teamIds: Map<string, string>) => Record<string, string>);
+}
+
+/** What {@link liveDay} made: the workshop, its session, the owner's token and socket, and the phones. */
+export interface LiveDay {
+  workshopId: string;
+  sessionId: string;
+  agenda: import('../../shared/schemas/agenda-item').AgendaItem[];
+  ownerToken: string;
+  owner: ClientSocket;
+  phones: { answer: JoinAnswer; socket: ClientSocket }[];
+}
+
+/**
+ * Runs a short live day on a fresh workshop of the demo facilitator (from a template, with the demo
+ * observer as its observer): phones join, teams are set, the facilitator goes to each activity in
+ * turn and the phones send their notes; the session is stopped at the end unless `stop` is false.
+ * @example const day = await liveDay(t, { phones: [{ displayName: 'Ana' }], notes: [{ type: 'insights', phone: 0, text: 'Hi' }] });
+ */
+export async function liveDay(
+  t: TestApp,
+  spec: {
+    title?: string;
+    template?: 'full-day' | 'half-day';
+    phones: { displayName: string; photoConsent?: boolean }[];
+    teams?: { name: string; challenge: string | null; phones: number[] }[];
+    notes: LiveDayNote[];
+    stop?: boolean;
+  },
+): Promise<LiveDay> {
+  const ownerToken = await t.tokenFor('facilitator');
+  const made = await t.agent
+    .post('/api/workshops')
+    .set('Authorization', bearer(ownerToken))
+    .send({
+      title: spec.title ?? 'Harbour Lane: a first ride',
+      objective: "Improve a new member's first ride",
+      date: '2027-03-13',
+      headcount: 18,
+      templateId: spec.template ?? 'full-day',
+    });
+  if (made.status !== 201) throw new Error(`creating the workshop answered ${made.status}: ${JSON.stringify(made.body)}`);
+  const workshopId = made.body.id as string;
+  const agenda = made.body.agenda as LiveDay['agenda'];
+  await addMember(t, workshopId, await demoUserId(t, 'observer'), 'observer');
+  const info = await startLive(t, ownerToken, workshopId);
+  const owner = await t.connect(ownerToken);
+  await commandData(owner, 'session:watch', { sessionId: info.sessionId });
+  const phones: LiveDay['phones'] = [];
+  for (const p of spec.phones) {
+    const answer = await joinLive(t, info.joinCode, p);
+    phones.push({ answer, socket: await t.connect(answer.token) });
+  }
+  const teamIds = new Map<string, string>();
+  if (spec.teams) {
+    const teams = await commandData(owner, 'teams:set', {
+      teams: spec.teams.map((team) => ({ name: team.name, challenge: team.challenge, memberIds: team.phones.map((i) => phones[i]!.answer.me.id) })),
+    });
+    for (const team of teams) teamIds.set(team.name, team.id);
+  }
+  let at = -1;
+  for (const [n, note] of spec.notes.entries()) {
+    const index = agenda.findIndex((i) => i.type === note.type);
+    if (index < 0) throw new Error(`the agenda has no ${note.type}`);
+    if (index !== at) {
+      await commandData(owner, 'session:goto', { index });
+      at = index;
+    }
+    await commandData(phones[note.phone]!.socket, 'submission:create', {
+      clientId: `live-day-note-${n}-${crypto.randomUUID()}`,
+      itemId: agenda[index]!.id,
+      kind: note.kind ?? 'note',
+      text: note.text,
+      ...(note.part ? { part: note.part } : {}),
+      ...(note.fields ? { fields: typeof note.fields === 'function' ? note.fields(teamIds) : note.fields } : {}),
+    });
+  }
+  if (spec.stop !== false) {
+    const res = await t.agent.post(`/api/workshops/${workshopId}/live/stop`).set('Authorization', bearer(ownerToken));
+    if (res.status !== 200) throw new Error(`stopping the session answered ${res.status}: ${JSON.stringify(res.body)}`);
+  }
+  return { workshopId, sessionId: info.sessionId, agenda, ownerToken, owner, phones };
+}

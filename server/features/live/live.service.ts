@@ -147,6 +147,12 @@ function setJson<K extends 'timer' | 'runs' | 'message'>(row: LiveSessionRow, ke
 const sessionEnded = () => new AppError(409, 'session_ended', 'This live session has ended');
 
 /**
+ * A rule an activity adds to submissions (e.g. a note's quadrant must be one of the map's): it runs
+ * inside the write transaction once the general checks passed, and throws an AppError to refuse.
+ */
+export type SubmissionCheck = (input: SubmissionInput, participant: ParticipantRow, transaction: Transaction) => Promise<void>;
+
+/**
  * The live session: starting and stopping it, joining from phones, the agenda position, the shared
  * countdown, locking, revealing, messages and submissions. Every change is written to SQLite first
  * (so a restart resumes where the room was) and broadcast after the commit.
@@ -155,8 +161,20 @@ export class LiveService {
   private io: LiveIo | null = null;
   private runtimes = new Map<string, Runtime>();
   private closed = false;
+  private submissionChecks: SubmissionCheck[] = [];
+  private submissionListeners: ((submission: SubmissionView) => void)[] = [];
 
   constructor(private ctx: AppContext) {}
+
+  /** Adds an activity's rule that every new submission must also pass. */
+  addSubmissionCheck(check: SubmissionCheck): void {
+    this.submissionChecks.push(check);
+  }
+
+  /** Calls `listener` with every new submission after its commit (activities that tell more rooms than the facilitators). */
+  onSubmissionCreated(listener: (submission: SubmissionView) => void): void {
+    this.submissionListeners.push(listener);
+  }
 
   /** Broadcasts through this socket.io server from now on. */
   attach(io: LiveIo): void {
@@ -511,6 +529,7 @@ export class LiveService {
         if (openRunItemId(s.runs) !== input.itemId) {
           throw errors.conflict('That activity is not the current one any more; nothing was sent');
         }
+        for (const check of this.submissionChecks) await check(input, p, transaction);
         const row = await Submission.create(
           {
             id: crypto.randomUUID(),
@@ -539,7 +558,11 @@ export class LiveService {
         return { id: first.id, duplicate: true };
       });
     const made = created as { row: SubmissionRow; displayName: string } | null;
-    if (made) this.io?.to(liveRooms.facilitators(sessionId)).emit('submission:created', toSubmissionView(made.row, made.displayName));
+    if (made) {
+      const view = toSubmissionView(made.row, made.displayName);
+      this.io?.to(liveRooms.facilitators(sessionId)).emit('submission:created', view);
+      for (const listener of this.submissionListeners) listener(view);
+    }
     return answer;
   }
 

@@ -1,0 +1,154 @@
+import { test, expect, type Browser, type Page } from '@playwright/test';
+import AxeBuilder from '@axe-core/playwright';
+import { DEMO, shot, signIn } from './fixtures';
+
+/** No serious or critical accessibility violations on the page (axe-core). */
+async function expectAccessible(page: Page): Promise<void> {
+  const results = await new AxeBuilder({ page }).analyze();
+  const bad = results.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
+  expect(bad.map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).join(', ')})`)).toEqual([]);
+}
+
+/** A phone in its own browser context that joins with a name. */
+async function phone(browser: Browser, joinUrl: string, name: string): Promise<Page> {
+  const context = await browser.newContext({ viewport: { width: 390, height: 844 }, isMobile: true, hasTouch: true });
+  const page = await context.newPage();
+  await page.goto(joinUrl);
+  await page.getByLabel('Your name for today').fill(name);
+  await page.getByTestId('consent-yes').click();
+  await page.getByTestId('join').click();
+  await expect(page.getByTestId('connection')).toHaveText('Connected');
+  return page;
+}
+
+/** Clicks the add-a-dot button of an option under one criterion on a phone. */
+async function addDot(page: Page, criterionId: string, option: string): Promise<void> {
+  const row = page.getByTestId(`criterion-${criterionId}`).getByTestId('dot-option').filter({ hasText: option });
+  const before = await page.getByTestId(`dots-left-${criterionId}`).textContent();
+  await row.getByTestId('dot-add').click();
+  await expect(page.getByTestId(`dots-left-${criterionId}`)).not.toHaveText(before ?? '');
+}
+
+// Harbour Lane Bike Co-op's challenges for a new member's first ride; no digits, so any number on the projector would be a tally.
+const DOCK = 'How might we help a new member find a free dock?';
+const UNLOCK = 'How might we make unlocking a bike obvious?';
+const ROUTE = 'How might we suggest a calm first route?';
+const HELMET = 'How might we lend helmets at the dock?';
+
+test('a dot vote with two criteria tallied live, revealed, carried forward into a team sort, and every phone shows its team', async ({ browser }) => {
+  test.setTimeout(90_000);
+  const consoleContext = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+  const consolePage = await consoleContext.newPage();
+  await signIn(consolePage, DEMO.facilitator);
+  await consolePage.getByRole('link', { name: "A new member's first ride" }).click();
+  await consolePage.getByTestId('run-live').click();
+  await expect(consolePage.getByTestId('console-activity')).toBeVisible();
+  const code = (await consolePage.getByTestId('console-code').textContent())!.trim();
+
+  const projector = await consoleContext.newPage();
+  await projector.setViewportSize({ width: 1600, height: 900 });
+  await projector.goto((await consolePage.getByTestId('open-projector').getAttribute('href'))!);
+  await expect(projector.getByTestId('projector-code')).toHaveText(code);
+
+  const joinUrl = `${new URL(consolePage.url()).origin}/join/${code}`;
+  const names = ['Ana', 'Ben', 'Cleo', 'Dev', 'Eli'];
+  const phones = await Promise.all(names.map((n) => phone(browser, joinUrl, n)));
+  await expect(consolePage.getByTestId('online-count')).toHaveText('5');
+
+  // Straight to the dot vote from the console's timeline.
+  await consolePage.getByTestId('timeline-item').filter({ hasText: 'Pick the challenges' }).getByRole('button').click();
+  await expect(consolePage.getByTestId('console-activity')).toHaveText('Pick the challenges');
+  for (const p of phones) await expect(p.getByTestId('vote-waiting')).toBeVisible();
+
+  // Set the vote up: four typed options, impact and effort, top two.
+  const setup = consolePage.getByTestId('vote-setup');
+  for (const text of [DOCK, UNLOCK, ROUTE, HELMET]) {
+    await setup.getByLabel('New option').fill(text);
+    await setup.getByTestId('add-option').click();
+  }
+  await expect(setup.getByTestId('setup-option')).toHaveCount(4);
+  // Four options: two dots each, the budget Cairn suggests (a third of the options, Global Learning Partners).
+  await expect(setup.getByLabel('Dots per voter')).toHaveValue('2');
+  await setup.getByTestId('impact-effort').click();
+  await setup.getByLabel('Carry forward (top N)').fill('2');
+  await setup.getByTestId('save-vote').click();
+  await consolePage.getByTestId('open-vote').click();
+  await expect(consolePage.getByTestId('vote-status')).toHaveText('Voting open');
+
+  // The projector lists the options and the criteria, with no numbers.
+  const projectorVote = projector.getByTestId('vote-projector');
+  await expect(projectorVote.getByTestId('projector-options')).toContainText(DOCK);
+  await expect(projectorVote).not.toContainText(/[0-9]/);
+
+  // Five phones vote; the console's tally follows each one.
+  for (const [i, p] of phones.entries()) {
+    await expect(p.getByTestId('dot-option')).toHaveCount(8);
+    await addDot(p, 'impact', DOCK);
+    await addDot(p, 'impact', i === 4 ? ROUTE : UNLOCK);
+    await addDot(p, 'effort', DOCK);
+    // The impact budget is spent: no more impact dots anywhere.
+    await expect(p.getByTestId('criterion-impact').getByTestId('dot-add').first()).toBeDisabled();
+    await expect(p.getByTestId('dots-left-impact')).toHaveText('0 of 2 dots left');
+    await expect(consolePage.getByTestId('voted-count')).toHaveText(String(i + 1));
+    await expect(projectorVote).not.toContainText(/[0-9]/);
+  }
+  await expect(consolePage.getByTestId('dots-left-room')).toHaveText('5');
+  const dockRow = consolePage.getByTestId('tally-row').filter({ hasText: DOCK });
+  await expect(dockRow.getByTestId('tally-dots')).toHaveText('10');
+  await expect(consolePage.getByTestId('tally-row').first()).toContainText(DOCK);
+  await expect(consolePage.getByTestId('criteria-matrix')).toContainText(DOCK);
+  await shot(consolePage, 'voting-console-tally');
+  await shot(phones[0]!, 'voting-phone-dots');
+  await shot(projector, 'voting-projector-hidden');
+  await expect(projector.getByTestId('projector-results')).toHaveCount(0);
+
+  // Close, reveal, and carry the top two forward.
+  await consolePage.getByTestId('close-vote').click();
+  await expect(consolePage.getByTestId('vote-status')).toHaveText('Voting closed');
+  await expect(phones[0]!.getByTestId('vote-closed')).toBeVisible();
+  await consolePage.getByTestId('reveal').click();
+  await expect(projector.getByTestId('projector-results')).toBeVisible();
+  await expect(projector.getByTestId('projector-results').locator('canvas').first()).toBeVisible();
+  await expect(projector.getByTestId('criteria-matrix')).toContainText(DOCK);
+  await consolePage.getByTestId('carry-forward').click();
+  await expect(consolePage.getByTestId('carried')).toBeVisible();
+  await expect(consolePage.getByTestId('carry-forward-panel')).toContainText(UNLOCK);
+  await expect(projector.getByTestId('projector-chosen')).toContainText(UNLOCK);
+  await shot(projector, 'voting-projector-revealed');
+  await expectAccessible(consolePage);
+  await expectAccessible(projector);
+  await expectAccessible(phones[0]!);
+
+  // The team sort: the two carried-forward challenges become teams.
+  await consolePage.getByTestId('timeline-item').filter({ hasText: 'Form the teams' }).getByRole('button').click();
+  await expect(consolePage.getByTestId('console-activity')).toHaveText('Form the teams');
+  await consolePage.getByTestId('use-winners').click();
+  await expect(consolePage.getByTestId('setup-option')).toHaveCount(2);
+  await consolePage.getByTestId('save-vote').click();
+  await consolePage.getByTestId('open-vote').click();
+  for (const [i, p] of phones.entries()) {
+    await expect(p.getByTestId('rank-item')).toHaveCount(2);
+    // Two people want the unlocking challenge first; the rest keep the order they were shown and send it.
+    if (i >= 3 && !(await p.getByTestId('rank-item').first().textContent())!.includes(UNLOCK)) {
+      await p.getByTestId('rank-item').first().getByTestId('rank-down').click();
+    }
+    await p.getByTestId('send-ranking').click();
+    await expect(p.getByTestId('ranking-sent')).toBeVisible();
+  }
+  await expect(consolePage.getByTestId('voted-count')).toHaveText('5');
+  await consolePage.getByTestId('close-vote').click();
+  await consolePage.getByTestId('propose-teams').click();
+  await expect(consolePage.getByTestId('proposed-team')).toHaveCount(2);
+  await expect(consolePage.getByTestId('proposed-member')).toHaveCount(5);
+  const sizes = await consolePage.getByTestId('proposed-team').evaluateAll((teams) => teams.map((t) => t.querySelectorAll('[data-test="proposed-member"]').length));
+  expect(Math.max(...sizes) - Math.min(...sizes)).toBeLessThanOrEqual(1);
+  await shot(consolePage, 'voting-console-teams');
+  await consolePage.getByTestId('confirm-teams').click();
+  await expect(consolePage.getByTestId('confirmed-teams')).toBeVisible();
+
+  for (const p of phones) {
+    await expect(p.getByTestId('my-team')).toBeVisible();
+    await expect(p.getByTestId('my-team-challenge')).toHaveText(new RegExp(`^(${[DOCK, UNLOCK].map((s) => s.replace(/[?]/g, '\\?')).join('|')})$`));
+  }
+  await shot(phones[3]!, 'voting-phone-team');
+});

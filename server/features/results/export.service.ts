@@ -1,0 +1,144 @@
+import { stringify } from 'csv-stringify/sync';
+import type { ExportFile, NoteResult, WorkshopResults } from '../../../shared/schemas/results';
+
+/** A value of a CSV cell before it is written. */
+type Cell = string | number | boolean | null;
+
+/** One CSV table: its header and its records, each as wide as the header. */
+export interface CsvTable {
+  header: string[];
+  rows: Cell[][];
+}
+
+/** Options of a CSV export. */
+export interface CsvOptions {
+  /**
+   * For spreadsheet users: start with a UTF-8 byte-order mark (so accented and non-Latin text opens
+   * right) and put an apostrophe before text that a spreadsheet would run as a formula.
+   */
+  bom: boolean;
+}
+
+/** Text cells that spreadsheets would read as a formula (OWASP, "CSV Injection"): = + - @, tab and carriage return first. */
+const FORMULA_START = /^[=+\-@\t\r]/;
+
+/** A cell as text: numbers as written, yes/no for booleans, empty for nothing; formulas neutralised for spreadsheets. */
+function cellText(value: Cell, spreadsheet: boolean): string {
+  if (value === null) return '';
+  if (typeof value === 'boolean') return value ? 'yes' : 'no';
+  if (typeof value === 'number') return String(value);
+  return spreadsheet && FORMULA_START.test(value) ? `'${value}` : value;
+}
+
+/**
+ * Writes a table as RFC 4180 CSV: CRLF after every record, fields with a comma, a quote or a line
+ * break (CR or LF) quoted, quotes doubled, the header as wide as the records.
+ * @example toCsv({ header: ['a'], rows: [['x,y']] }, { bom: false }) // 'a\r\n"x,y"\r\n'
+ */
+export function toCsv(table: CsvTable, options: CsvOptions): string {
+  for (const row of table.rows) {
+    if (row.length !== table.header.length) throw new Error(`A CSV record has ${row.length} fields; the header has ${table.header.length}`);
+  }
+  return stringify([table.header, ...table.rows.map((r) => r.map((c) => cellText(c, options.bom)))], {
+    record_delimiter: '\r\n',
+    // csv-stringify quotes a field holding the record delimiter (CRLF) only; RFC 4180 wants any line break quoted.
+    quoted_match: /[\r\n]/,
+    bom: options.bom,
+  });
+}
+
+/** A time as ISO 8601 in UTC, the form every spreadsheet reads. */
+function iso(ms: number | null): string | null {
+  return ms === null ? null : new Date(ms).toISOString();
+}
+
+/** The structured fields of a guided sentence as "name: value" pairs. */
+function details(n: NoteResult): string {
+  return n.fields ? Object.entries(n.fields).map(([k, v]) => `${k}: ${v}`).join('; ') : '';
+}
+
+/** Every note of the workshop (notes, guided sentences, feedback, frames, reflections), in agenda order, oldest first. */
+export function notesTable(r: WorkshopResults): CsvTable {
+  const agenda = new Map(r.agenda.map((a) => [a.itemId, a]));
+  const order = (n: NoteResult) => agenda.get(n.itemId)?.position ?? Number.MAX_SAFE_INTEGER;
+  const notes = [...r.notes].sort((a, b) => order(a) - order(b) || a.createdAt - b.createdAt || a.id.localeCompare(b.id));
+  return {
+    header: ['Activity number', 'Activity', 'Activity type', 'Author', 'Team', 'Theme', 'Kind', 'Part', 'Note', 'Details', 'Written at'],
+    rows: notes.map((n) => {
+      const a = agenda.get(n.itemId);
+      return [a?.position ?? null, a?.title ?? '', a?.type ?? '', n.author, n.teamName, n.themeName, n.kind, n.part, n.text, details(n), iso(n.createdAt)];
+    }),
+  };
+}
+
+/** Teams with their challenges and members. */
+export function teamsTable(r: WorkshopResults): CsvTable {
+  return {
+    header: ['Team', 'Challenge', 'Size', 'Members'],
+    rows: r.teams.map((t) => [t.name, t.challenge, t.members.length, t.members.map((m) => m.name).join('; ')]),
+  };
+}
+
+/** Everyone who joined, numbered in order of joining; whether they left an address, never the address. */
+export function participantsTable(r: WorkshopResults): CsvTable {
+  return {
+    header: ['Number', 'Name', 'Team', 'Photo consent', 'Left an address for the report', 'Joined at', 'Notes'],
+    rows: r.participants.map((p) => [p.number, p.name, p.teamName, p.photoConsent, p.leftAddress, iso(p.joinedAt), p.notes]),
+  };
+}
+
+/** Every vote's result: each option's score, rank, ties and selection, overall and per criterion. */
+export function talliesTable(r: WorkshopResults): CsvTable {
+  const rows: Cell[][] = [];
+  for (const a of r.activities) {
+    for (const s of a.sections) {
+      if (s.kind !== 'votes') continue;
+      const blocks = [{ label: s.rankedBy, rows: s.overall }, ...s.tables];
+      for (const block of blocks) {
+        for (const v of block.rows) rows.push([a.position, a.title, s.method, block.label, v.label, v.score, v.rank, v.tied, v.nearTie, v.selected]);
+      }
+    }
+  }
+  return { header: ['Activity number', 'Activity', 'Method', 'Ranked by', 'Option', 'Score', 'Rank', 'Tied', 'Near tie', 'Selected'], rows };
+}
+
+/** Every dot placed and every ballot position, voter by voter. */
+export function votesTable(r: WorkshopResults): CsvTable {
+  const position = new Map(r.agenda.map((a) => [a.itemId, a.position]));
+  return {
+    header: ['Activity number', 'Activity', 'Voter', 'Option', 'Criterion', 'Value'],
+    rows: r.votes.map((v) => [position.get(v.itemId) ?? null, v.activity, v.voter, v.option, v.criterion, v.value]),
+  };
+}
+
+/** The table behind each CSV export file. */
+export const CSV_TABLES: Record<Exclude<ExportFile, 'results.json'>, (r: WorkshopResults) => CsvTable> = {
+  'notes.csv': notesTable,
+  'teams.csv': teamsTable,
+  'participants.csv': participantsTable,
+  'tallies.csv': talliesTable,
+  'votes.csv': votesTable,
+};
+
+/** A file name for an export: Cairn, the workshop's title as a slug, the date and the table. */
+export function exportFileName(r: WorkshopResults, file: string): string {
+  const slug =
+    r.workshop.title
+      .normalize('NFKD')
+      .replace(/[^\w\s-]/g, '')
+      .trim()
+      .toLowerCase()
+      .replace(/[\s_-]+/g, '-')
+      .slice(0, 60) || 'workshop';
+  return `cairn-${slug}-${r.workshop.date}-${file}`;
+}
+
+/**
+ * One export file of a workshop's results: a CSV table, or the complete results as JSON.
+ * @example exportFile(results, 'notes.csv', { bom: true }).body
+ */
+export function exportFile(r: WorkshopResults, file: ExportFile, options: CsvOptions): { body: string; contentType: string; fileName: string } {
+  const fileName = exportFileName(r, file);
+  if (file === 'results.json') return { body: JSON.stringify(r, null, 2), contentType: 'application/json; charset=utf-8', fileName };
+  return { body: toCsv(CSV_TABLES[file](r), options), contentType: 'text/csv; charset=utf-8; header=present', fileName };
+}

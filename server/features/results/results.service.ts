@@ -1,0 +1,571 @@
+import type { AppContext } from '../../context';
+import type { LiveSessionRow, ParticipantRow, PhotoRow, SubmissionRow, TeamRow, WorkshopRow } from '../../db/models';
+import { errors } from '../../common/errors';
+import { toAgendaItem } from '../workshops/workshops.service';
+import { photoCleared } from '../activities/photos.service';
+import { computeSchedule } from '../../../shared/schedule';
+import { competitionRanks, OVERALL_CRITERION } from '../../../shared/tally';
+import type { AgendaItem } from '../../../shared/schemas/agenda-item';
+import { FEEDBACK_GRID_PARTS, PHOTO_TYPES } from '../../../shared/schemas/activities';
+import { VoteKind, type VoteResults } from '../../../shared/schemas/voting';
+import type {
+  ActivityResult,
+  AgendaRunRow,
+  NoteGroup,
+  NoteResult,
+  ParticipantResult,
+  Participation,
+  ResultSection,
+  TeamResult,
+  VoteRecord,
+  VoteRow,
+  WorkshopResults,
+} from '../../../shared/schemas/results';
+
+/** Where the results read what other features compute: the vote results come from the voting service. */
+export interface ResultsSources {
+  /** Results of every closed vote of a workshop (server/features/voting). */
+  votes?: { workshopResults(workshopId: string): Promise<VoteResults[]> };
+}
+
+/** The name a participant gets once names are removed. */
+export function anonymousName(number: number): string {
+  return `Participant ${number}`;
+}
+
+/** Everything the providers build the results from, read once per request. */
+export interface ResultsInput {
+  ctx: AppContext;
+  sources: ResultsSources;
+  workshop: WorkshopRow;
+  ownerName: string;
+  agenda: AgendaItem[];
+  /** The workshop's live sessions, oldest first. */
+  sessions: LiveSessionRow[];
+  /** Everyone who joined any of the sessions, in order of joining. */
+  participants: ParticipantRow[];
+  /** Participant id → 1-based number in order of joining. */
+  numbers: Map<string, number>;
+  /** Participant id → the name the results show (display name, or "Participant N" when anonymized). */
+  names: Map<string, string>;
+  teams: TeamRow[];
+  teamNames: Map<string, string>;
+  /** Every submission the facilitators did not hide, oldest first. */
+  notes: NoteResult[];
+  /** Theme ids in the order the facilitators placed the themes. */
+  themeOrder: string[];
+  anonymized: boolean;
+  now: number;
+  /** Loads something once per results build, for providers that share a read. */
+  memo<T>(key: string, load: () => Promise<T>): Promise<T>;
+}
+
+/**
+ * A provider of one kind of section of an activity's results: it returns the sections it has for
+ * the item (none when the item has nothing of its kind). New kinds (votes, photos …) are added to
+ * {@link ACTIVITY_PROVIDERS}.
+ */
+export type ActivityProvider = (item: AgendaItem, input: ResultsInput) => Promise<ResultSection[]> | ResultSection[];
+
+/** A provider of raw vote records for the votes export. */
+export type VoteRecordProvider = (input: ResultsInput) => Promise<VoteRecord[]> | VoteRecord[];
+
+/** Submission kinds that are notes of the notes section (the others have sections of their own). */
+const NOTE_KINDS = new Set(['note', 'point_of_view', 'how_might_we']);
+
+/** Groups notes by a key, in the order the keys are given, then any other keys in order of first note. */
+function groupNotes(
+  notes: NoteResult[],
+  keyOf: (n: NoteResult) => string | null,
+  labelOf: (key: string | null) => string,
+  order: (string | null)[],
+): NoteGroup[] {
+  const groups = new Map<string | null, NoteResult[]>();
+  for (const key of order) groups.set(key, []);
+  for (const n of notes) {
+    const key = keyOf(n);
+    if (!groups.has(key)) groups.set(key, []);
+    groups.get(key)!.push(n);
+  }
+  return [...groups.entries()]
+    .filter(([, list]) => list.length > 0)
+    .map(([key, list]) => ({ key: key ?? 'none', label: labelOf(key), notes: list }));
+}
+
+/** Notes of an activity, by theme (when the facilitator grouped any) and by team. */
+export const notesProvider: ActivityProvider = (item, input) => {
+  const notes = input.notes.filter((n) => n.itemId === item.id && NOTE_KINDS.has(n.kind));
+  if (notes.length === 0) return [];
+  const themed = notes.some((n) => n.themeId !== null);
+  const themeOrder = [...input.themeOrder, null];
+  return [
+    {
+      kind: 'notes',
+      total: notes.length,
+      byTheme: themed
+        ? groupNotes(notes, (n) => n.themeId, (key) => (key === null ? 'Not in a theme' : (notes.find((n) => n.themeId === key)?.themeName ?? 'Theme')), themeOrder)
+        : [],
+      byTeam: groupNotes(notes, (n) => n.teamId, (key) => (key === null ? 'No team' : (input.teamNames.get(key) ?? 'Team')), [
+        ...input.teams.map((t) => t.id),
+        null,
+      ]),
+    },
+  ];
+};
+
+/** The team a feedback note is about: the host team whose prototype was tested, as the phone chose it. */
+function testedTeamOf(n: NoteResult): string | null {
+  return n.fields?.hostTeamId ?? null;
+}
+
+/** Feedback capture grids of test rounds: one per team tested, four parts each. */
+export const feedbackProvider: ActivityProvider = (item, input) => {
+  const notes = input.notes.filter((n) => n.itemId === item.id && n.kind === 'feedback');
+  if (notes.length === 0) return [];
+  const teamIds = [...input.teams.map((t) => t.id as string | null), null].filter((id) => notes.some((n) => testedTeamOf(n) === id));
+  for (const n of notes) if (!teamIds.includes(testedTeamOf(n))) teamIds.push(testedTeamOf(n));
+  const known = new Set(FEEDBACK_GRID_PARTS.map((p) => p.id));
+  return [
+    {
+      kind: 'feedback',
+      grids: teamIds.map((teamId) => {
+        const mine = notes.filter((n) => testedTeamOf(n) === teamId);
+        const parts = FEEDBACK_GRID_PARTS.map(({ id, label }) => ({ part: id, label, notes: mine.filter((n) => n.part === id) }));
+        const other = mine.filter((n) => !known.has(n.part ?? ''));
+        if (other.length) parts.push({ part: 'other', label: 'Other feedback', notes: other });
+        return { teamId, teamName: teamId === null ? 'No team' : (input.teamNames.get(teamId) ?? 'Team'), parts };
+      }),
+    },
+  ];
+};
+
+/** The key a storyboard is kept under: its team, or its author when they had none (as the activity keeps frame orders). */
+function storyKeyOf(n: Pick<NoteResult, 'teamId' | 'participantId'>): string {
+  return n.teamId ?? `p:${n.participantId}`;
+}
+
+/** The workshop's photos, each with whether it may be shown (consent honoured), read once per build. */
+function photosOf(input: ResultsInput): Promise<{ row: PhotoRow; shown: boolean }[]> {
+  return input.memo('photos', async () => {
+    const rows = await input.ctx.db.models.Photo.findAll({ where: { sessionId: input.sessions.map((s) => s.id) }, order: [['createdAt', 'ASC']] });
+    const consent = new Map(input.participants.map((p) => [p.id, p.photoConsent]));
+    return rows.map((row) => ({ row, shown: photoCleared(row, consent.get(row.participantId) ?? false) }));
+  });
+}
+
+/** The API path of a photo's thumbnail, for a signed-in reader of the workshop. */
+function photoUrl(workshopId: string, photoId: string): string {
+  return `/api/workshops/${encodeURIComponent(workshopId)}/photos/${encodeURIComponent(photoId)}?size=thumb`;
+}
+
+/** Storyboards: each team's frames (text or photo) in the order the team set, photos only where consent allows. */
+export const storyboardProvider: ActivityProvider = async (item, input) => {
+  const frames = input.notes.filter((n) => n.itemId === item.id && n.kind === 'frame');
+  if (frames.length === 0) return [];
+  const [states, photos] = await Promise.all([
+    input.memo('activityStates', () => input.ctx.db.models.ActivityState.findAll({ where: { sessionId: input.sessions.map((s) => s.id) } })),
+    photosOf(input),
+  ]);
+  const shown = new Set(photos.filter((p) => p.shown).map((p) => p.row.id));
+  const orders: Record<string, string[]> = Object.assign({}, ...states.filter((st) => st.itemId === item.id).map((st) => st.frameOrders));
+  const keys = [...new Set(frames.map(storyKeyOf))];
+  return [
+    {
+      kind: 'storyboards',
+      boards: keys.map((key) => {
+        const mine = frames.filter((f) => storyKeyOf(f) === key);
+        const order = orders[key] ?? [];
+        const at = (id: string) => (order.includes(id) ? order.indexOf(id) : order.length);
+        mine.sort((a, b) => at(a.id) - at(b.id) || a.createdAt - b.createdAt);
+        const teamId = mine[0]!.teamId;
+        return {
+          teamId,
+          teamName: teamId === null ? `${mine[0]!.author}'s storyboard` : (input.teamNames.get(teamId) ?? 'Team'),
+          frames: mine.map((f, i) => {
+            const photoId = f.fields?.photoId ?? null;
+            return { position: i + 1, text: f.text, photoId: photoId && shown.has(photoId) ? photoId : null };
+          }),
+        };
+      }),
+    },
+  ];
+};
+
+/** Photos of sketches: each with its caption, team, author and the feedback it got; pictures only where consent allows. */
+export const sketchPhotosProvider: ActivityProvider = async (item, input) => {
+  if (!PHOTO_TYPES.has(item.type) || item.type === 'storyboard') return [];
+  const sketches = input.notes.filter((n) => n.itemId === item.id && n.kind === 'sketch' && n.fields?.photoId);
+  if (sketches.length === 0) return [];
+  const photos = new Map((await photosOf(input)).map((p) => [p.row.id, p]));
+  const entries = sketches.flatMap((n) => {
+    const photo = photos.get(n.fields!.photoId!);
+    if (!photo) return [];
+    return [
+      {
+        id: photo.row.id,
+        caption: n.text,
+        teamName: n.teamName,
+        author: n.author,
+        shown: photo.shown,
+        url: photo.shown ? photoUrl(input.workshop.id, photo.row.id) : null,
+        feedback: input.notes.filter((f) => f.kind === 'feedback' && f.fields?.sketchId === n.id),
+      },
+    ];
+  });
+  return entries.length ? [{ kind: 'photos', photos: entries, withheld: entries.filter((e) => !e.shown).length }] : [];
+};
+
+/** A vote's option rows: labels from its options, selected where carried forward. */
+function voteRows(
+  v: VoteResults,
+  rows: { optionId: string; score: number; rank: number; tied?: boolean; nearTie?: boolean }[],
+  selected: Set<string>,
+): VoteRow[] {
+  const label = new Map(v.options.map((o) => [o.id, o.text]));
+  return rows.map((r) => ({
+    optionId: r.optionId,
+    label: label.get(r.optionId) ?? '',
+    score: r.score,
+    rank: r.rank,
+    // Ties are read off the ranks where the method does not flag them ("1224": equal ranks are a tie).
+    tied: r.tied ?? rows.some((o) => o !== r && o.rank === r.rank),
+    nearTie: r.nearTie ?? false,
+    selected: selected.has(r.optionId),
+  }));
+}
+
+/** A vote's results as a results section: the ranking that carries options forward, the others, ties, matrix and pairwise table. */
+export function voteSection(v: VoteResults): Extract<ResultSection, { kind: 'votes' }> {
+  const label = new Map(v.options.map((o) => [o.id, o.text]));
+  const base = { open: v.status !== 'closed', voters: v.participation.voters, voted: v.participation.voted, pairwise: null, matrix: null };
+  if (v.kind === 'dot_vote') {
+    const selected = new Set(v.chosen ?? v.top.selected);
+    const dots = (rows: { optionId: string; dots: number; rank: number; tied: boolean; nearTie: boolean }[]) =>
+      voteRows(v, rows.map((r) => ({ ...r, score: r.dots })), selected);
+    const byCriterion = v.rules.rankBy !== OVERALL_CRITERION;
+    const criteria = v.rules.criteria;
+    const rankedBy = byCriterion ? (criteria.find((c) => c.id === v.rules.rankBy)?.label ?? v.rules.rankBy) : criteria.length ? 'All criteria' : 'Dots';
+    const tables = [
+      ...(byCriterion ? [{ id: OVERALL_CRITERION, label: 'All criteria', rows: dots(v.overall) }] : []),
+      ...(criteria.length > 1 || byCriterion
+        ? criteria.filter((c) => c.id !== v.rules.rankBy).map((c) => ({ id: c.id, label: c.label, rows: dots(v.perCriterion[c.id] ?? []) }))
+        : []),
+    ];
+    const xLabel = criteria.find((c) => c.id === v.matrix?.xCriterionId)?.label ?? '';
+    const yLabel = criteria.find((c) => c.id === v.matrix?.yCriterionId)?.label ?? '';
+    return {
+      kind: 'votes',
+      method: 'dots',
+      rankedBy,
+      overall: dots(byCriterion ? (v.perCriterion[v.rules.rankBy] ?? v.overall) : v.overall),
+      tables,
+      topN: v.rules.topN,
+      tiePolicy: v.top.policy,
+      tiedAtCutoff: v.top.tiedAtCutoff.map((id) => label.get(id) ?? ''),
+      ...base,
+      matrix: v.matrix ? { xLabel, yLabel, points: v.matrix.points.map((p) => ({ ...p, label: label.get(p.optionId) ?? '' })) } : null,
+    };
+  }
+  if (v.kind === 'preference_vote') {
+    const selected = new Set(v.chosen ?? v.top.selected);
+    const borda = { id: 'borda', label: 'Borda count', rows: voteRows(v, v.borda.map((r) => ({ ...r, score: r.points })), selected) };
+    const schulze = { id: 'schulze', label: 'Schulze method', rows: voteRows(v, v.schulze.ranking.map((r) => ({ ...r, score: r.wins })), selected) };
+    const [main, other] = v.rules.method === 'borda' ? [borda, schulze] : [schulze, borda];
+    return {
+      kind: 'votes',
+      method: v.rules.method,
+      rankedBy: main.label,
+      overall: main.rows,
+      tables: [other],
+      topN: v.rules.topN,
+      tiePolicy: v.top.policy,
+      tiedAtCutoff: v.top.tiedAtCutoff.map((id) => label.get(id) ?? ''),
+      ...base,
+      pairwise: { labels: v.options.map((o) => o.text), d: v.schulze.pairwise },
+    };
+  }
+  const counts = v.options.map((o) => v.firstChoices[o.id] ?? 0);
+  const ranks = competitionRanks(counts);
+  const rows = v.options
+    .map((o, i) => ({ optionId: o.id, score: counts[i]!, rank: ranks[i]! }))
+    .sort((a, b) => a.rank - b.rank);
+  return {
+    kind: 'votes',
+    method: 'first_choices',
+    rankedBy: 'First choices',
+    overall: voteRows(v, rows, new Set()),
+    tables: [],
+    topN: null,
+    tiePolicy: null,
+    tiedAtCutoff: [],
+    ...base,
+  };
+}
+
+/** The workshop's vote results, read once per build from the voting service. */
+function voteResultsOf(input: ResultsInput): Promise<VoteResults[]> {
+  return input.memo('votes', () => input.sources.votes?.workshopResults(input.workshop.id) ?? Promise.resolve([]));
+}
+
+/** Vote results of an activity: dot votes (ranks, ties, criteria matrix), preference votes (both methods, pairwise table), team sorts. */
+export const votesProvider: ActivityProvider = async (item, input) => {
+  if (!VoteKind.safeParse(item.type).success) return [];
+  return (await voteResultsOf(input)).filter((v) => v.itemId === item.id).map(voteSection);
+};
+
+/** Every dot and every ballot position of the workshop's closed votes, voter by voter (names as the results show them). */
+export const voteRecords: VoteRecordProvider = async (input) => {
+  const votes = await voteResultsOf(input);
+  if (votes.length === 0) return [];
+  const { Vote, VoteDot, VoteRanking } = input.ctx.db.models;
+  const rows = await Vote.findAll({ where: { sessionId: input.sessions.map((s) => s.id), status: 'closed' }, order: [['createdAt', 'ASC']] });
+  const title = new Map(input.agenda.map((i) => [i.id, i.title]));
+  const out: VoteRecord[] = [];
+  for (const vote of rows) {
+    const label = new Map(vote.options.map((o) => [o.id, o.text]));
+    const criterion = new Map(vote.rules.criteria.map((c) => [c.id, c.label]));
+    const activity = title.get(vote.itemId) ?? '';
+    const voter = (id: string) => input.names.get(id) ?? 'Participant';
+    if (vote.kind === 'dot_vote') {
+      const dots = await VoteDot.findAll({ where: { voteId: vote.id } });
+      for (const d of dots) {
+        if (d.count <= 0) continue;
+        out.push({ itemId: vote.itemId, activity, voter: voter(d.participantId), option: label.get(d.optionId) ?? '', criterion: criterion.get(d.criterionId) ?? 'Dots', value: d.count });
+      }
+    } else {
+      const rankings = await VoteRanking.findAll({ where: { voteId: vote.id } });
+      for (const r of rankings) {
+        r.ranking.forEach((optionId, i) =>
+          out.push({ itemId: vote.itemId, activity, voter: voter(r.participantId), option: label.get(optionId) ?? '', criterion: 'Place in ranking', value: i + 1 }),
+        );
+      }
+    }
+  }
+  const order = new Map(input.participants.map((p, i) => [input.names.get(p.id), i]));
+  return out.sort((a, b) => (a.itemId === b.itemId ? (order.get(a.voter) ?? 0) - (order.get(b.voter) ?? 0) : 0));
+};
+
+/** Closing reflections: what the room takes away and what happens next. */
+export const reflectionsProvider: ActivityProvider = (item, input) => {
+  const notes = input.notes.filter((n) => n.itemId === item.id && n.kind === 'reflection');
+  return notes.length ? [{ kind: 'reflections', notes }] : [];
+};
+
+/**
+ * The section providers of an activity, in the order the results show their sections. Each is small
+ * and reads only what it needs, so a feature adds its own section by adding a provider here.
+ */
+export const ACTIVITY_PROVIDERS: ActivityProvider[] = [
+  notesProvider,
+  votesProvider,
+  sketchPhotosProvider,
+  storyboardProvider,
+  feedbackProvider,
+  reflectionsProvider,
+];
+
+/** Providers of the raw vote records in the votes export. */
+export const VOTE_RECORD_PROVIDERS: VoteRecordProvider[] = [voteRecords];
+
+/** The agenda as it ran: the plan's clock times against the actual starts and ends of every run. */
+export function agendaAsRun(input: Pick<ResultsInput, 'workshop' | 'agenda' | 'sessions' | 'now'>): AgendaRunRow[] {
+  const schedule = computeSchedule(input.agenda, input.workshop.window, input.workshop.rules);
+  const runs = input.sessions.flatMap((s) => s.runs);
+  return input.agenda.map((item, i) => {
+    const planned = schedule.items[i]!;
+    const mine = runs.filter((r) => r.itemId === item.id);
+    const ranMs = mine.reduce((sum, r) => sum + Math.max(0, (r.endedAt ?? input.now) - r.startedAt), 0);
+    const actualMin = mine.length ? Math.round(ranMs / 6_000) / 10 : null;
+    const open = mine.some((r) => r.endedAt === null);
+    return {
+      itemId: item.id,
+      position: i + 1,
+      title: item.title,
+      type: item.type,
+      phase: item.phase,
+      plannedStart: planned.start,
+      plannedEnd: planned.end,
+      plannedMin: item.timeboxMin,
+      actualStart: mine.length ? Math.min(...mine.map((r) => r.startedAt)) : null,
+      actualEnd: mine.length && !open ? Math.max(...mine.map((r) => r.endedAt!)) : null,
+      actualMin,
+      overMin: actualMin === null ? null : Math.round((actualMin - item.timeboxMin) * 10) / 10,
+      runCount: mine.length,
+    };
+  });
+}
+
+/** Teams of every session with their challenges and members. */
+function teamResults(input: ResultsInput): TeamResult[] {
+  return input.teams.map((t) => ({
+    id: t.id,
+    name: t.name,
+    challenge: t.challenge,
+    members: input.participants.filter((p) => p.teamId === t.id).map((p) => ({ participantId: p.id, name: input.names.get(p.id)! })),
+  }));
+}
+
+/** Participants as the exports list them: numbered, named or not, with no address. */
+function participantResults(input: ResultsInput): ParticipantResult[] {
+  return input.participants.map((p) => ({
+    id: p.id,
+    number: input.numbers.get(p.id)!,
+    name: input.names.get(p.id)!,
+    teamName: p.teamId ? (input.teamNames.get(p.teamId) ?? null) : null,
+    photoConsent: p.photoConsent,
+    leftAddress: p.email !== null,
+    joinedAt: p.joinedAt.getTime(),
+    notes: input.notes.filter((n) => n.participantId === p.id).length,
+  }));
+}
+
+/** Participation: who joined, consented and left an address, and who contributed to each activity. */
+function participationOf(input: ResultsInput): Participation {
+  const joined = input.participants.length;
+  const perActivity = input.agenda
+    .map((item) => {
+      const notes = input.notes.filter((n) => n.itemId === item.id);
+      const contributors = new Set(notes.map((n) => n.participantId)).size;
+      return { itemId: item.id, title: item.title, contributors, notes: notes.length, rate: joined === 0 ? 0 : contributors / joined };
+    })
+    .filter((a) => a.notes > 0);
+  return {
+    joined,
+    withPhotoConsent: input.participants.filter((p) => p.photoConsent).length,
+    withAddress: input.participants.filter((p) => p.email !== null).length,
+    notesTotal: input.notes.length,
+    perActivity,
+  };
+}
+
+/** A stored submission as the results show it. */
+function toNote(row: SubmissionRow, input: Pick<ResultsInput, 'names' | 'teamNames'>, themeNames: Map<string, string>): NoteResult {
+  return {
+    id: row.id,
+    itemId: row.itemId,
+    participantId: row.participantId,
+    author: input.names.get(row.participantId) ?? 'Participant',
+    teamId: row.teamId,
+    teamName: row.teamId ? (input.teamNames.get(row.teamId) ?? null) : null,
+    kind: row.kind,
+    part: row.part,
+    text: row.text,
+    fields: row.fields,
+    themeId: row.themeId,
+    themeName: row.themeId ? (themeNames.get(row.themeId) ?? null) : null,
+    createdAt: row.createdAt.getTime(),
+  };
+}
+
+/** Names of the affinity themes the facilitators grouped notes into. */
+async function themeNamesOf(ctx: AppContext, sessionIds: string[]): Promise<Map<string, string>> {
+  if (sessionIds.length === 0) return new Map();
+  const rows = await ctx.db.models.Theme.findAll({ where: { sessionId: sessionIds }, order: [['position', 'ASC']] });
+  return new Map(rows.map((r) => [r.id, r.name]));
+}
+
+/**
+ * A workshop's results after the day: the brief, the agenda as run, every activity's results in
+ * agenda order (each section from a provider), teams, participants, participation and next steps.
+ */
+export class ResultsService {
+  constructor(
+    private ctx: AppContext,
+    private sources: ResultsSources = {},
+  ) {}
+
+  /** Reads everything the providers need, once. */
+  async input(workshopId: string, anonymize: boolean, now = Date.now()): Promise<ResultsInput> {
+    const { Workshop, User, AgendaItem, LiveSession, Participant, Team, Submission } = this.ctx.db.models;
+    const workshop = await Workshop.findByPk(workshopId);
+    if (!workshop) throw errors.notFound('That workshop');
+    const [owner, itemRows, sessions] = await Promise.all([
+      User.findByPk(workshop.ownerId, { attributes: ['id', 'name'] }),
+      AgendaItem.findAll({ where: { workshopId }, order: [['position', 'ASC']] }),
+      LiveSession.findAll({ where: { workshopId }, order: [['startedAt', 'ASC']] }),
+    ]);
+    const sessionIds = sessions.map((s) => s.id);
+    const sessionOrder = new Map(sessionIds.map((id, i) => [id, i]));
+    const [people, teams, submissions, themeNames] = await Promise.all([
+      Participant.findAll({ where: { sessionId: sessionIds } }),
+      Team.findAll({ where: { sessionId: sessionIds } }),
+      // Hidden notes and duplicates merged into another note were moderated away; the results leave them out.
+      Submission.findAll({ where: { sessionId: sessionIds, hidden: false, mergedIntoId: null }, order: [['createdAt', 'ASC']] }),
+      themeNamesOf(this.ctx, sessionIds),
+    ]);
+    const participants = [...people].sort(
+      (a, b) => sessionOrder.get(a.sessionId)! - sessionOrder.get(b.sessionId)! || a.joinedAt.getTime() - b.joinedAt.getTime() || a.id.localeCompare(b.id),
+    );
+    teams.sort((a, b) => sessionOrder.get(a.sessionId)! - sessionOrder.get(b.sessionId)! || a.position - b.position);
+    const numbers = new Map(participants.map((p, i) => [p.id, i + 1]));
+    const names = new Map(participants.map((p) => [p.id, anonymize ? anonymousName(numbers.get(p.id)!) : p.displayName]));
+    const teamNames = new Map(teams.map((t) => [t.id, t.name]));
+    const cache = new Map<string, Promise<unknown>>();
+    const input: ResultsInput = {
+      ctx: this.ctx,
+      sources: this.sources,
+      workshop,
+      ownerName: owner?.name ?? '',
+      agenda: itemRows.map(toAgendaItem),
+      sessions,
+      participants,
+      numbers,
+      names,
+      teams,
+      teamNames,
+      notes: [],
+      themeOrder: [...themeNames.keys()],
+      anonymized: anonymize,
+      now,
+      memo: <T>(key: string, load: () => Promise<T>) => {
+        if (!cache.has(key)) cache.set(key, load());
+        return cache.get(key) as Promise<T>;
+      },
+    };
+    input.notes = submissions.map((s) => toNote(s, input, themeNames));
+    return input;
+  }
+
+  /** The workshop's results; with `anonymize`, every participant is "Participant N". */
+  async results(workshopId: string, anonymize = false, now = Date.now()): Promise<WorkshopResults> {
+    const input = await this.input(workshopId, anonymize, now);
+    return this.build(input);
+  }
+
+  /** Builds the results from a read input, calling every provider. */
+  async build(input: ResultsInput): Promise<WorkshopResults> {
+    const { workshop } = input;
+    const activities: ActivityResult[] = [];
+    for (const [i, item] of input.agenda.entries()) {
+      const sections: ResultSection[] = [];
+      for (const provide of ACTIVITY_PROVIDERS) sections.push(...(await provide(item, input)));
+      activities.push({ itemId: item.id, position: i + 1, title: item.title, type: item.type, phase: item.phase, prompt: item.prompt, sections });
+    }
+    const votes: VoteRecord[] = [];
+    for (const provide of VOTE_RECORD_PROVIDERS) votes.push(...(await provide(input)));
+    return {
+      generatedAt: input.now,
+      anonymized: input.anonymized,
+      workshop: {
+        id: workshop.id,
+        title: workshop.title,
+        objective: workshop.objective,
+        persona: workshop.persona,
+        date: workshop.date,
+        window: workshop.window,
+        ownerName: input.ownerName,
+        headcount: workshop.headcount,
+      },
+      sessions: input.sessions.map((s) => ({ id: s.id, status: s.status, startedAt: s.startedAt.getTime(), endedAt: s.endedAt?.getTime() ?? null })),
+      agenda: agendaAsRun(input),
+      activities,
+      notes: input.notes,
+      teams: teamResults(input),
+      participants: participantResults(input),
+      participation: participationOf(input),
+      votes,
+      nextSteps: input.notes.filter((n) => n.kind === 'reflection'),
+      personalDataDeletedAt: workshop.personalDataDeletedAt?.getTime() ?? null,
+    };
+  }
+}

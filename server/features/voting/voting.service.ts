@@ -1,0 +1,736 @@
+import crypto from 'node:crypto';
+import { QueryTypes, UniqueConstraintError, type Transaction } from 'sequelize';
+import type { AppContext } from '../../context';
+import type { LiveSessionRow, VoteRow } from '../../db/models';
+import { AppError, errors } from '../../common/errors';
+import { liveRooms, type LiveIo, type LiveService } from '../live/live.service';
+import {
+  checkBallot,
+  criteriaMatrix,
+  criterionIds,
+  OVERALL_CRITERION,
+  participation,
+  selectTopN,
+  suggestDotsPerVoter,
+  tallyDots,
+  type BallotErrorCode,
+  type Dot,
+  type TallyRow,
+} from '../../../shared/tally';
+import { borda, schulze } from '../../../shared/preference';
+import { sortIntoTeams } from '../../../shared/team-sort';
+import { fieldErrors, type ErrorCode } from '../../../shared/errors';
+import type { LiveItem, ParticipantView } from '../../../shared/schemas/live';
+import {
+  MAX_OPTION_TEXT,
+  VoteKind,
+  VoteRules,
+  type BallotAnswer,
+  type DotPayload,
+  type DotVoteResults,
+  type MyBallot,
+  type Participation,
+  type PreferenceResults,
+  type RankPayload,
+  type TeamProposal,
+  type TeamSortResults,
+  type VoteOption,
+  type VoteResults,
+  type VoteSetupPayload,
+  type VoteSources,
+  type VoteView,
+} from '../../../shared/schemas/voting';
+
+/** Tallies pushed to a room at most this often: live enough for the console, cheap when a room of phones votes at once. */
+export const TALLY_INTERVAL_MS = 300;
+/** Earlier notes offered as options, newest first: enough for a day's wall, small enough for one answer. */
+const SOURCE_NOTES_LIMIT = 300;
+/** Submission kinds worth promoting to a vote option. */
+const PROMOTABLE_KINDS = ['note', 'how_might_we', 'point_of_view', 'reflection', 'feedback'];
+
+/** The current item when it is a vote, with its kind narrowed. */
+type VoteItem = LiveItem & { type: VoteKind };
+
+/** Why a dot change was refused, as an error code of Cairn's one list. */
+const BALLOT_ERROR: Record<BallotErrorCode, ErrorCode> = {
+  budget_exceeded: 'budget_exceeded',
+  cap_exceeded: 'cap_exceeded',
+  // Stacking off is a cap of one dot per option.
+  stacking_off: 'cap_exceeded',
+  negative: 'bad_request',
+  unknown_criterion: 'bad_request',
+};
+
+/** Who asks for results: the facilitators see them any time, everyone else once they are revealed. */
+export type ResultsAsker = 'runner' | 'screen';
+
+/** The agenda item whose run is open (the one running now); a stopped session has none. */
+function runningItemId(session: LiveSessionRow): string | null {
+  const last = session.runs.at(-1);
+  return last && last.endedAt === null ? last.itemId : null;
+}
+
+/** Sets a JSON attribute and marks it changed (Sequelize does not see changes inside JSON values). */
+function setJson<K extends 'options' | 'rules' | 'chosen' | 'proposal'>(row: VoteRow, key: K, value: VoteRow[K]): void {
+  row.set(key, value);
+  row.changed(key, true);
+}
+
+/** Parses rules with their schema; a refusal names the fields, as a payload refusal does. */
+function parseRules(value: unknown): VoteRules {
+  const r = VoteRules.safeParse(value);
+  if (r.success) return r.data;
+  const message = Object.entries(fieldErrors(r.error))
+    .map(([field, problem]) => `${field}: ${problem}`)
+    .join('; ');
+  throw new AppError(400, 'validation_failed', message);
+}
+
+/**
+ * The rules of a vote: what the facilitator gave, else the plan's settings of the item, else Cairn's
+ * defaults (dots per voter suggested from the number of options by shared/tally.ts).
+ */
+export function rulesFor(item: LiveItem, optionCount: number, given: Partial<VoteRules> = {}): VoteRules {
+  const s = item.settings;
+  const dotsPerVoter = given.dotsPerVoter ?? (optionCount >= 2 ? suggestDotsPerVoter(optionCount) : (s.dotsPerVoter ?? 3));
+  const topN = given.topN ?? s.topN ?? (item.type === 'team_sort' ? optionCount : 3);
+  return parseRules({
+    dotsPerVoter,
+    // Without a cap of its own, one option may take the whole budget.
+    capPerOption: given.capPerOption ?? s.capPerOption ?? dotsPerVoter,
+    allowStacking: given.allowStacking ?? s.allowStacking ?? true,
+    criteria: given.criteria ?? s.criteria ?? [],
+    topN: Math.max(1, optionCount > 0 ? Math.min(topN, optionCount) : topN),
+    rankBy: given.rankBy ?? OVERALL_CRITERION,
+    method: given.method ?? 'schulze',
+  });
+}
+
+/** A vote row as the screens see it. */
+function toView(row: VoteRow, mine: MyBallot | null): VoteView {
+  return {
+    itemId: row.itemId,
+    kind: row.kind,
+    status: row.status,
+    ready: true,
+    options: row.options,
+    rules: row.rules,
+    chosen: row.chosen,
+    mine,
+  };
+}
+
+/**
+ * Dot votes, preference votes and team sorts of a live session. The server is the only authority on
+ * stored votes: budget and cap are checked inside the write transaction that stores a dot, a retried
+ * command is applied once by its client id, and tallies go to the facilitators as they change (to the
+ * whole room only once revealed). Every change is written first and announced after the commit.
+ */
+export class VotingService {
+  private io: LiveIo | null = null;
+  private tallyTicks = new Map<string, { timer: NodeJS.Timeout | null; lastAt: number; itemId: string }>();
+  private closed = false;
+  // The dot path is the hottest in a room (every phone, several times, within seconds), so it keeps
+  // what does not change under it in memory: which session a participant is in, the open vote of
+  // the current item (dropped on every change of a vote), and each voter's committed dots.
+  private sessionOfParticipant = new Map<string, string>();
+  private voteOfItem = new Map<string, VoteRow>();
+  private ballots = new Map<string, Dot[]>();
+
+  constructor(
+    private ctx: AppContext,
+    private live: LiveService,
+  ) {}
+
+  /** Broadcasts through this socket.io server from now on. */
+  attach(io: LiveIo): void {
+    this.io = io;
+  }
+
+  /** Stops pending tally announcements (the app is shutting down). */
+  close(): void {
+    this.closed = true;
+    for (const tick of this.tallyTicks.values()) if (tick.timer) clearTimeout(tick.timer);
+    this.tallyTicks.clear();
+  }
+
+  /** The current item's vote; a participant also gets their own ballot. Before set-up, an empty draft with the plan's rules. */
+  async state(sessionId: string, participantId: string | null): Promise<VoteView> {
+    const item = await this.currentVoteItem(sessionId);
+    const row = await this.ctx.db.models.Vote.findOne({ where: { sessionId, itemId: item.id } });
+    if (!row) {
+      return {
+        itemId: item.id,
+        kind: item.type,
+        status: 'draft',
+        ready: false,
+        options: [],
+        rules: rulesFor(item, 0),
+        chosen: null,
+        mine: participantId ? { itemId: item.id, dots: [], ranking: null } : null,
+      };
+    }
+    return toView(row, participantId ? await this.mineOf(row, participantId) : null);
+  }
+
+  /**
+   * Sets the current item's vote up: its options (typed, or notes promoted by id, whose text is used) and
+   * rules. Allowed until someone has voted; an open vote must be closed first.
+   */
+  async setup(sessionId: string, payload: VoteSetupPayload): Promise<VoteView> {
+    const { Vote, VoteDot, VoteRanking, Submission } = this.ctx.db.models;
+    const item = await this.currentVoteItem(sessionId);
+    const noteIds = payload.options.flatMap((o) => ('submissionId' in o ? [o.submissionId] : []));
+    const notes = noteIds.length
+      ? await Submission.findAll({ where: { sessionId, id: noteIds, hidden: false }, attributes: ['id', 'text'] })
+      : [];
+    const noteText = new Map(notes.map((n) => [n.id, n.text]));
+    const options: VoteOption[] = payload.options.map((o) => {
+      if ('text' in o) return { id: crypto.randomUUID(), text: o.text, submissionId: null };
+      const text = noteText.get(o.submissionId);
+      if (text === undefined) throw errors.badRequest('One of the notes is not in this session, or it is hidden');
+      return { id: crypto.randomUUID(), text: text.trim().slice(0, MAX_OPTION_TEXT), submissionId: o.submissionId };
+    });
+    const seen = new Set<string>();
+    for (const o of options) {
+      const key = o.text.toLowerCase().replace(/\s+/g, ' ');
+      if (seen.has(key)) throw errors.badRequest(`Two options read “${o.text}”; keep one`);
+      seen.add(key);
+    }
+    const rules = rulesFor(item, options.length, payload.rules ?? {});
+    const row = await this.ctx.db.writeTx(async (transaction) => {
+      this.forgetVotes();
+      await this.checkStillCurrent(sessionId, item.id, transaction);
+      const existing = await Vote.findOne({ where: { sessionId, itemId: item.id }, transaction });
+      if (existing) {
+        if (existing.status === 'open') throw errors.conflict('Close the vote before changing its options');
+        const cast =
+          (await VoteDot.count({ where: { voteId: existing.id }, transaction })) +
+          (await VoteRanking.count({ where: { voteId: existing.id }, transaction }));
+        if (cast > 0) throw errors.conflict('People have voted already, so the options stay as they are');
+        existing.status = 'draft';
+        setJson(existing, 'options', options);
+        setJson(existing, 'rules', rules);
+        setJson(existing, 'chosen', null);
+        setJson(existing, 'proposal', null);
+        await existing.save({ transaction });
+        return existing;
+      }
+      return Vote.create(
+        { id: crypto.randomUUID(), sessionId, itemId: item.id, kind: item.type, status: 'draft', options, rules, chosen: null, proposal: null },
+        { transaction },
+      );
+    });
+    return this.announce(row);
+  }
+
+  /** Opens the current item's vote (again, after a close): phones may vote and move their votes. */
+  openVote(sessionId: string): Promise<VoteView> {
+    return this.setStatus(sessionId, 'open');
+  }
+
+  /** Closes the current item's vote: votes are final, and the results can be carried forward. */
+  closeVote(sessionId: string): Promise<VoteView> {
+    return this.setStatus(sessionId, 'closed');
+  }
+
+  /**
+   * Adds or takes back one dot of a participant, exactly once per `clientId`. Budget, cap and stacking
+   * are checked with checkBallot inside the write transaction that stores the dot, so two phones of the
+   * same person spending the last dot at once cannot overspend.
+   */
+  async dot(participantId: string, sessionId: string, payload: DotPayload): Promise<BallotAnswer> {
+    const item = await this.currentVoteItem(sessionId);
+    if ((await this.participantSession(participantId)) !== sessionId) throw errors.forbidden('You are not in this session any more; join again');
+    const db = this.ctx.db;
+    let key = '';
+    const outcome = await db.batchTx(
+      async (transaction): Promise<{ refused: AppError } | { answer: BallotAnswer; applied: boolean }> => {
+        // Read at the moment the write runs: a close, a lock or a move that came first has landed.
+        const state = await this.live.state(sessionId);
+        if (state.status === 'ended') return { refused: new AppError(409, 'session_ended', 'This live session has ended') };
+        if (state.locked) return { refused: new AppError(409, 'input_locked', 'The facilitator has locked input for now') };
+        if (state.item?.id !== item.id) return { refused: errors.conflict('That activity is not the current one any more; nothing was changed') };
+        const vote = this.voteOfItem.get(`${sessionId}:${item.id}`) ?? (await this.cachedVote(sessionId, item.id, transaction));
+        if (!vote) return { refused: errors.conflict('Voting has not opened yet') };
+        key = `${vote.id}:${participantId}`;
+        // A retry of something already applied is answered before the checks, which may have changed since.
+        const receipt = await db.sequelize.query('SELECT voteId FROM vote_receipts WHERE participantId = ? AND clientId = ?', {
+          replacements: [participantId, payload.clientId],
+          type: QueryTypes.SELECT,
+          transaction,
+        });
+        const mine = this.ballots.get(key) ?? (await this.loadBallot(vote.id, participantId, transaction));
+        this.ballots.set(key, mine);
+        const answer = (dots: Dot[]): BallotAnswer => ({
+          duplicate: false,
+          mine: { itemId: vote.itemId, dots: dots.map((d) => ({ optionId: d.optionId, criterionId: d.criterionId, count: d.count })), ranking: null },
+        });
+        if (receipt.length > 0) return { answer: { ...answer(mine), duplicate: true }, applied: false };
+        if (vote.status === 'draft') return { refused: errors.conflict('Voting has not opened yet') };
+        if (vote.kind !== 'dot_vote') return { refused: errors.badRequest('This vote does not take that kind of ballot') };
+        if (vote.status === 'closed') return { refused: errors.conflict('Voting has closed; your votes stay as they were') };
+        if (!vote.options.some((o) => o.id === payload.optionId)) return { refused: errors.badRequest('This vote has no such option') };
+        const check = checkBallot(vote.rules, mine, { optionId: payload.optionId, criterionId: payload.criterionId, delta: payload.delta });
+        if (!check.ok) return { refused: new AppError(BALLOT_ERROR[check.code] === 'bad_request' ? 400 : 409, BALLOT_ERROR[check.code], check.message) };
+        // Checked; now the writes, which only fail with the database itself (then the batch rolls back).
+        const row = mine.find((d) => d.optionId === payload.optionId && d.criterionId === payload.criterionId);
+        const count = (row?.count ?? 0) + payload.delta;
+        if (!row) {
+          await db.sequelize.query('INSERT INTO vote_dots (id, voteId, participantId, optionId, criterionId, count) VALUES (?, ?, ?, ?, ?, ?)', {
+            replacements: [crypto.randomUUID(), vote.id, participantId, payload.optionId, payload.criterionId, count],
+            transaction,
+          });
+        } else if (count === 0) {
+          await db.sequelize.query('DELETE FROM vote_dots WHERE voteId = ? AND participantId = ? AND optionId = ? AND criterionId = ?', {
+            replacements: [vote.id, participantId, payload.optionId, payload.criterionId],
+            transaction,
+          });
+        } else {
+          await db.sequelize.query('UPDATE vote_dots SET count = ? WHERE voteId = ? AND participantId = ? AND optionId = ? AND criterionId = ?', {
+            replacements: [count, vote.id, participantId, payload.optionId, payload.criterionId],
+            transaction,
+          });
+        }
+        await db.sequelize.query('INSERT INTO vote_receipts (id, participantId, clientId, voteId, createdAt) VALUES (?, ?, ?, ?, ?)', {
+          replacements: [crypto.randomUUID(), participantId, payload.clientId, vote.id, new Date().toISOString()],
+          transaction,
+        });
+        const next = [
+          ...mine.filter((d) => d !== row),
+          ...(count === 0 ? [] : [{ voterId: participantId, optionId: payload.optionId, criterionId: payload.criterionId, count }]),
+        ];
+        // Kept before the commit so the next write in this batch sees it; forgotten if the batch rolls back.
+        this.ballots.set(key, next);
+        return { answer: answer(next), applied: true };
+      },
+      () => this.ballots.delete(key),
+    );
+    if ('refused' in outcome) throw outcome.refused;
+    if (outcome.applied) this.afterBallot(sessionId, participantId, outcome.answer.mine);
+    return outcome.answer;
+  }
+
+  /** Which session a participant joined (it never changes). */
+  private async participantSession(participantId: string): Promise<string | null> {
+    const known = this.sessionOfParticipant.get(participantId);
+    if (known) return known;
+    const p = await this.ctx.db.models.Participant.findByPk(participantId, { attributes: ['id', 'sessionId'] });
+    if (p) this.sessionOfParticipant.set(participantId, p.sessionId);
+    return p?.sessionId ?? null;
+  }
+
+  /** The vote of an item, from memory while no command has changed any vote since it was read. */
+  private async cachedVote(sessionId: string, itemId: string, transaction: Transaction): Promise<VoteRow | null> {
+    const k = `${sessionId}:${itemId}`;
+    const known = this.voteOfItem.get(k);
+    if (known) return known;
+    const vote = await this.ctx.db.models.Vote.findOne({ where: { sessionId, itemId }, transaction });
+    if (vote) this.voteOfItem.set(k, vote);
+    return vote;
+  }
+
+  /** Forgets the votes and ballots kept in memory: called inside every transaction that changes a vote. */
+  private forgetVotes(): void {
+    this.voteOfItem.clear();
+    this.ballots.clear();
+  }
+
+  /** A voter's stored dots on a vote. */
+  private async loadBallot(voteId: string, participantId: string, transaction: Transaction): Promise<Dot[]> {
+    const rows = await this.ctx.db.sequelize.query<{ optionId: string; criterionId: string; count: number }>(
+      'SELECT optionId, criterionId, count FROM vote_dots WHERE voteId = ? AND participantId = ?',
+      { replacements: [voteId, participantId], type: QueryTypes.SELECT, transaction },
+    );
+    return rows.map((r) => ({ voterId: participantId, optionId: r.optionId, criterionId: r.criterionId, count: Number(r.count) }));
+  }
+
+  /** Stores a participant's order of the options (replacing their earlier one), exactly once per `clientId`. */
+  async rank(participantId: string, sessionId: string, payload: RankPayload): Promise<BallotAnswer> {
+    const { VoteRanking } = this.ctx.db.models;
+    const { answer, applied } = await this.ballot(participantId, sessionId, payload.clientId, ['preference_vote', 'team_sort'], async (vote, transaction) => {
+      const known = new Set(vote.options.map((o) => o.id));
+      if (!payload.ranking.every((id) => known.has(id))) throw errors.badRequest('This vote has no such option');
+      if (new Set(payload.ranking).size !== payload.ranking.length) throw errors.badRequest('Each option can have one place only');
+      const row = await VoteRanking.findOne({ where: { voteId: vote.id, participantId }, transaction });
+      if (row) {
+        row.set('ranking', payload.ranking);
+        row.changed('ranking', true);
+        row.updatedAt = new Date();
+        await row.save({ transaction });
+      } else {
+        await VoteRanking.create(
+          { id: crypto.randomUUID(), voteId: vote.id, participantId, ranking: payload.ranking, updatedAt: new Date() },
+          { transaction },
+        );
+      }
+    });
+    if (applied) this.afterBallot(sessionId, participantId, answer.mine);
+    return answer;
+  }
+
+  /** The current item's results: the facilitators any time, everyone else once the facilitator reveals them. */
+  async results(sessionId: string, asker: ResultsAsker): Promise<VoteResults> {
+    const state = await this.live.state(sessionId);
+    if (asker !== 'runner' && !state.revealed) throw errors.forbidden('The results are hidden until the facilitator reveals them');
+    const item = await this.currentVoteItem(sessionId);
+    const row = await this.readyVote(sessionId, item.id);
+    return this.resultsOf(row, item.title, await this.live.participants(sessionId));
+  }
+
+  /**
+   * Carries the top N forward. The options ranked inside the top N must all be there; any other must
+   * come from the tie at the cut-off, which the facilitator breaks by picking (shared/tally.ts selectTopN).
+   */
+  async choose(sessionId: string, optionIds: string[]): Promise<VoteView> {
+    const item = await this.currentVoteItem(sessionId);
+    const row = await this.readyVote(sessionId, item.id);
+    if (row.kind === 'team_sort') throw errors.badRequest('A team sort forms teams; confirm them instead');
+    if (row.status !== 'closed') throw errors.conflict('Close the vote before carrying options forward');
+    const results = await this.resultsOf(row, item.title, await this.live.participants(sessionId));
+    if (results.kind === 'team_sort') throw errors.badRequest('A team sort forms teams; confirm them instead');
+    const { selected, tiedAtCutoff } = results.top;
+    const n = row.rules.topN;
+    if (new Set(optionIds).size !== optionIds.length) throw errors.badRequest('Pick each option once');
+    if (optionIds.length !== Math.min(n, row.options.length)) throw errors.badRequest(`Pick ${n} options`);
+    if (!selected.every((id) => optionIds.includes(id))) throw errors.badRequest('Keep every option ranked inside the top N');
+    if (!optionIds.every((id) => selected.includes(id) || tiedAtCutoff.includes(id))) {
+      throw errors.badRequest('Only options tied at the cut-off can be picked besides the top N');
+    }
+    const saved = await this.ctx.db.writeTx(async (transaction) => {
+      this.forgetVotes();
+      const fresh = await this.ctx.db.models.Vote.findByPk(row.id, { transaction });
+      if (!fresh) throw errors.notFound('That vote');
+      if (fresh.status !== 'closed') throw errors.conflict('Close the vote before carrying options forward');
+      // In the order of the ranking, so later activities list the winners first.
+      const order = [...selected, ...tiedAtCutoff];
+      setJson(fresh, 'chosen', [...optionIds].sort((a, b) => order.indexOf(a) - order.indexOf(b)));
+      await fresh.save({ transaction });
+      return fresh;
+    });
+    return this.announce(saved);
+  }
+
+  /** What the facilitator may turn into options: earlier notes of the session and the options earlier votes carried forward. */
+  async sources(sessionId: string): Promise<VoteSources> {
+    const { Submission, Vote, AgendaItem, LiveSession } = this.ctx.db.models;
+    const session = await LiveSession.findByPk(sessionId, { attributes: ['id', 'workshopId'] });
+    if (!session) throw errors.notFound('That live session');
+    const [notes, votes, items] = await Promise.all([
+      Submission.findAll({
+        where: { sessionId, hidden: false, kind: PROMOTABLE_KINDS },
+        order: [['createdAt', 'DESC']],
+        limit: SOURCE_NOTES_LIMIT,
+        attributes: ['id', 'itemId', 'kind', 'text'],
+      }),
+      Vote.findAll({ where: { sessionId }, order: [['createdAt', 'ASC']] }),
+      AgendaItem.findAll({ where: { workshopId: session.workshopId }, attributes: ['id', 'title'] }),
+    ]);
+    const title = new Map(items.map((i) => [i.id, i.title]));
+    return {
+      notes: notes.map((n) => ({ submissionId: n.id, itemId: n.itemId, itemTitle: title.get(n.itemId) ?? '', kind: n.kind, text: n.text })),
+      winners: votes
+        .filter((v) => v.chosen && v.chosen.length > 0)
+        .map((v) => ({
+          itemId: v.itemId,
+          itemTitle: title.get(v.itemId) ?? '',
+          texts: v.chosen!.map((id) => v.options.find((o) => o.id === id)?.text ?? '').filter(Boolean),
+        })),
+    };
+  }
+
+  /**
+   * Cairn's teams for the current team sort: one team per challenge, everyone who ranked the challenges or
+   * is online now, sizes differing by at most one and the least total preference cost (shared/team-sort.ts).
+   * The proposal is kept with the vote; the facilitator adjusts it and confirms it with `teams:set`.
+   */
+  async propose(sessionId: string): Promise<TeamProposal> {
+    const { VoteRanking, Vote } = this.ctx.db.models;
+    const item = await this.currentVoteItem(sessionId);
+    const row = await this.readyVote(sessionId, item.id);
+    if (row.kind !== 'team_sort') throw errors.badRequest('Only a team sort forms teams');
+    const [rankings, people] = await Promise.all([
+      VoteRanking.findAll({ where: { voteId: row.id } }),
+      this.live.participants(sessionId),
+    ]);
+    const rankingOf = new Map(rankings.map((r) => [r.participantId, r.ranking]));
+    const placed = people.filter((p) => p.online || rankingOf.has(p.id));
+    if (placed.length === 0) throw errors.conflict('Nobody is in the room to sort into teams yet');
+    const optionIds = row.options.map((o) => o.id);
+    const result = sortIntoTeams(
+      placed.map((p) => ({ id: p.id, ranking: rankingOf.get(p.id) ?? [] })),
+      optionIds,
+    );
+    const name = new Map(placed.map((p) => [p.id, p.displayName]));
+    const proposal: TeamProposal = {
+      itemId: item.id,
+      teams: row.options.map((o) => ({ optionId: o.id, challenge: o.text, memberIds: result.teams[o.id] ?? [] })),
+      outcome: result.outcome.map((o) => ({
+        participantId: o.participantId,
+        displayName: name.get(o.participantId) ?? '',
+        optionId: o.challengeId,
+        choice: o.choice,
+      })),
+      cost: result.cost,
+    };
+    await this.ctx.db.writeTx(async (transaction) => {
+      this.forgetVotes();
+      const fresh = await Vote.findByPk(row.id, { transaction });
+      if (!fresh) throw errors.notFound('That vote');
+      setJson(fresh, 'proposal', proposal);
+      await fresh.save({ transaction });
+    });
+    return proposal;
+  }
+
+  /**
+   * Results of every vote of a workshop's live sessions that was opened, in the order they were set up (for
+   * the results page and observers); a vote the day ended without closing is there too, marked by its status.
+   */
+  async workshopResults(workshopId: string): Promise<VoteResults[]> {
+    const { LiveSession, Vote, AgendaItem } = this.ctx.db.models;
+    const sessions = await LiveSession.findAll({ where: { workshopId }, attributes: ['id'], order: [['startedAt', 'ASC']] });
+    if (sessions.length === 0) return [];
+    const items = await AgendaItem.findAll({ where: { workshopId }, attributes: ['id', 'title'] });
+    const title = new Map(items.map((i) => [i.id, i.title]));
+    const out: VoteResults[] = [];
+    for (const s of sessions) {
+      const votes = await Vote.findAll({ where: { sessionId: s.id, status: ['open', 'closed'] }, order: [['createdAt', 'ASC']] });
+      if (votes.length === 0) continue;
+      const people = await this.live.participants(s.id);
+      for (const v of votes) out.push(await this.resultsOf(v, title.get(v.itemId) ?? '', people));
+    }
+    return out;
+  }
+
+  // ---- inside ----
+
+  /** The current agenda item of a session, refused when it is not a vote. */
+  private async currentVoteItem(sessionId: string): Promise<VoteItem> {
+    const state = await this.live.state(sessionId);
+    const item = state.item;
+    if (!item || !VoteKind.safeParse(item.type).success) throw errors.conflict('The current activity is not a vote');
+    return item as VoteItem;
+  }
+
+  /** The vote of an item once set up. */
+  private async readyVote(sessionId: string, itemId: string): Promise<VoteRow> {
+    const row = await this.ctx.db.models.Vote.findOne({ where: { sessionId, itemId } });
+    if (!row) throw errors.conflict('Set the vote up first: choose its options');
+    return row;
+  }
+
+  /** Inside a write: the session is live and the item is still the one running, so nobody votes on an activity the room has left. */
+  private async checkStillCurrent(sessionId: string, itemId: string, transaction: Transaction): Promise<LiveSessionRow> {
+    const s = await this.ctx.db.models.LiveSession.findByPk(sessionId, { transaction });
+    if (!s) throw errors.notFound('That live session');
+    if (s.status === 'ended') throw new AppError(409, 'session_ended', 'This live session has ended');
+    if (runningItemId(s) !== itemId) throw errors.conflict('That activity is not the current one any more; nothing was changed');
+    return s;
+  }
+
+  private async setStatus(sessionId: string, status: 'open' | 'closed'): Promise<VoteView> {
+    const item = await this.currentVoteItem(sessionId);
+    const { row, changed } = await this.ctx.db.writeTx(async (transaction) => {
+      this.forgetVotes();
+      await this.checkStillCurrent(sessionId, item.id, transaction);
+      const vote = await this.ctx.db.models.Vote.findOne({ where: { sessionId, itemId: item.id }, transaction });
+      if (!vote) throw errors.conflict('Set the vote up first: choose its options');
+      if (vote.status === status) return { row: vote, changed: false };
+      if (status === 'closed' && vote.status === 'draft') throw errors.conflict('The vote has not opened yet');
+      vote.status = status;
+      // Reopening makes the carried-forward choice stale: the votes may still move.
+      if (status === 'open') setJson(vote, 'chosen', null);
+      await vote.save({ transaction });
+      return { row: vote, changed: true };
+    });
+    if (!changed) return toView(row, null);
+    const view = this.announce(row);
+    // Closing settles the tallies: the console gets the final ones at once.
+    if (status === 'closed') this.scheduleTally(sessionId, item.id);
+    return view;
+  }
+
+  /** Tells every screen of the session about a vote's options or status (no tallies in it). */
+  private announce(row: VoteRow): VoteView {
+    const view = toView(row, null);
+    this.io?.to(liveRooms.session(row.sessionId)).emit('vote:updated', view);
+    this.scheduleTally(row.sessionId, row.itemId);
+    return view;
+  }
+
+  /**
+   * One ballot change in one write transaction: a retry of an applied `clientId` answers with the ballot as
+   * it is now; otherwise the session must be live and unlocked, the vote open and the current item's.
+   */
+  private async ballot(
+    participantId: string,
+    sessionId: string,
+    clientId: string,
+    kinds: VoteKind | VoteKind[],
+    change: (vote: VoteRow, transaction: Transaction) => Promise<void>,
+  ): Promise<{ answer: BallotAnswer; applied: boolean }> {
+    const { Vote, VoteReceipt, Participant } = this.ctx.db.models;
+    const allowed = Array.isArray(kinds) ? kinds : [kinds];
+    const item = await this.currentVoteItem(sessionId);
+    const retried = async (transaction?: Transaction) => {
+      const receipt = await VoteReceipt.findOne({ where: { participantId, clientId }, transaction });
+      if (!receipt) return null;
+      const vote = await Vote.findByPk(receipt.voteId, { transaction });
+      if (!vote) return null;
+      return { answer: { duplicate: true, mine: await this.mineOf(vote, participantId, transaction) }, applied: false };
+    };
+    try {
+      return await this.ctx.db.writeTx(async (transaction) => {
+        const p = await Participant.findByPk(participantId, { transaction, attributes: ['id', 'sessionId'] });
+        if (!p || p.sessionId !== sessionId) throw errors.forbidden('You are not in this session any more; join again');
+        // A retry of something already applied is answered before the checks, which may have changed since.
+        const again = await retried(transaction);
+        if (again) return again;
+        const s = await this.checkStillCurrent(sessionId, item.id, transaction);
+        if (s.locked) throw new AppError(409, 'input_locked', 'The facilitator has locked input for now');
+        const vote = await Vote.findOne({ where: { sessionId, itemId: item.id }, transaction });
+        if (!vote || vote.status === 'draft') throw errors.conflict('Voting has not opened yet');
+        if (!allowed.includes(vote.kind)) throw errors.badRequest('This vote does not take that kind of ballot');
+        if (vote.status === 'closed') throw errors.conflict('Voting has closed; your votes stay as they were');
+        await change(vote, transaction);
+        await VoteReceipt.create({ id: crypto.randomUUID(), participantId, clientId, voteId: vote.id, createdAt: new Date() }, { transaction });
+        return { answer: { duplicate: false, mine: await this.mineOf(vote, participantId, transaction) }, applied: true };
+      });
+    } catch (err) {
+      // The unique (participantId, clientId) index is the last word if two copies ever race past the lookup.
+      if (!(err instanceof UniqueConstraintError)) throw err;
+      const again = await retried();
+      if (!again) throw err;
+      return again;
+    }
+  }
+
+  /** After a ballot's commit: the participant's other phones follow, and the console's tally is due. */
+  private afterBallot(sessionId: string, participantId: string, mine: MyBallot): void {
+    this.io?.to(liveRooms.participant(participantId)).emit('ballot:updated', mine);
+    this.scheduleTally(sessionId, mine.itemId);
+  }
+
+  /** A participant's own ballot in a vote. */
+  private async mineOf(vote: VoteRow, participantId: string, transaction?: Transaction): Promise<MyBallot> {
+    const { VoteDot, VoteRanking } = this.ctx.db.models;
+    if (vote.kind === 'dot_vote') {
+      const rows = await VoteDot.findAll({ where: { voteId: vote.id, participantId }, transaction });
+      return {
+        itemId: vote.itemId,
+        dots: rows.map((r) => ({ optionId: r.optionId, criterionId: r.criterionId, count: r.count })),
+        ranking: null,
+      };
+    }
+    const row = await VoteRanking.findOne({ where: { voteId: vote.id, participantId }, transaction });
+    return { itemId: vote.itemId, dots: [], ranking: row ? row.ranking : null };
+  }
+
+  /**
+   * A vote's results from the stored ballots, counted by the pure functions of shared/. The room is
+   * everyone online now plus everyone who voted, so a voter whose phone dropped still counts.
+   */
+  private async resultsOf(row: VoteRow, itemTitle: string, people: ParticipantView[]): Promise<VoteResults> {
+    const { VoteRanking } = this.ctx.db.models;
+    const optionIds = row.options.map((o) => o.id);
+    const base = { itemId: row.itemId, itemTitle, status: row.status, options: row.options, rules: row.rules, chosen: row.chosen };
+    const online = people.filter((p) => p.online).map((p) => p.id);
+    const n = Math.min(row.rules.topN, optionIds.length);
+
+    if (row.kind === 'dot_vote') {
+      // Raw rows: a room's dots are thousands of rows, read a few times a second while votes come in.
+      const rows = await this.ctx.db.sequelize.query<{ participantId: string; optionId: string; criterionId: string; count: number }>(
+        'SELECT participantId, optionId, criterionId, count FROM vote_dots WHERE voteId = ?',
+        { replacements: [row.id], type: QueryTypes.SELECT },
+      );
+      const dots: Dot[] = rows.map((d) => ({ voterId: d.participantId, optionId: d.optionId, criterionId: d.criterionId, count: Number(d.count) }));
+      const voterIds = [...new Set([...online, ...dots.map((d) => d.voterId)])];
+      const tally = tallyDots(optionIds, criterionIds(row.rules), dots);
+      const ranked: TallyRow[] = row.rules.rankBy === OVERALL_CRITERION ? tally.overall : (tally.perCriterion[row.rules.rankBy] ?? tally.overall);
+      const [first, second] = row.rules.criteria;
+      const results: DotVoteResults = {
+        kind: 'dot_vote',
+        ...base,
+        participation: participation(voterIds, dots, row.rules),
+        perCriterion: tally.perCriterion,
+        overall: tally.overall,
+        top: selectTopN(ranked, n),
+        // Impact (the first criterion) up, effort (the second) across: the usual reading of such a matrix.
+        matrix: first && second ? { xCriterionId: second.id, yCriterionId: first.id, points: criteriaMatrix(tally, second.id, first.id) } : null,
+      };
+      return results;
+    }
+
+    const rankings = await VoteRanking.findAll({ where: { voteId: row.id } });
+    const voters = new Set([...online, ...rankings.map((r) => r.participantId)]).size;
+    const rate: Participation = { voters, voted: rankings.length, rate: voters === 0 ? 0 : rankings.length / voters, dotsLeft: null };
+    const ballots = rankings.map((r) => ({ ranking: r.ranking }));
+    if (row.kind === 'preference_vote') {
+      const bordaRows = borda(optionIds, ballots);
+      const s = schulze(optionIds, ballots);
+      // selectTopN reads only the option and its rank, so either method's ranking can be cut at N.
+      const byMethod: TallyRow[] = (row.rules.method === 'borda' ? bordaRows : s.ranking).map((r) => ({
+        optionId: r.optionId,
+        dots: 0,
+        rank: r.rank,
+        tied: false,
+        nearTie: false,
+      }));
+      const results: PreferenceResults = {
+        kind: 'preference_vote',
+        ...base,
+        participation: rate,
+        borda: bordaRows,
+        schulze: s,
+        top: selectTopN(byMethod, n),
+      };
+      return results;
+    }
+    const firstChoices: Record<string, number> = Object.fromEntries(optionIds.map((id) => [id, 0]));
+    for (const r of rankings) {
+      const first = r.ranking[0];
+      if (first !== undefined && first in firstChoices) firstChoices[first] += 1;
+    }
+    const results: TeamSortResults = { kind: 'team_sort', ...base, participation: rate, firstChoices };
+    return results;
+  }
+
+  /**
+   * Sends the tallies of a session's current vote soon: at once after a quiet spell, otherwise at most
+   * once every TALLY_INTERVAL_MS, so a room of phones voting together costs a few broadcasts a second.
+   */
+  private scheduleTally(sessionId: string, itemId: string): void {
+    if (this.closed) return;
+    let tick = this.tallyTicks.get(sessionId);
+    if (!tick) {
+      tick = { timer: null, lastAt: 0, itemId };
+      this.tallyTicks.set(sessionId, tick);
+    }
+    tick.itemId = itemId;
+    if (tick.timer) return;
+    const due = tick.lastAt + TALLY_INTERVAL_MS - Date.now();
+    const t = tick;
+    t.timer = setTimeout(() => {
+      t.timer = null;
+      t.lastAt = Date.now();
+      this.pushTally(sessionId, t.itemId).catch((err: unknown) => {
+        if (!this.closed) this.ctx.logger.error({ err }, 'could not send the tallies');
+      });
+    }, Math.max(0, due));
+  }
+
+  /** Sends the current vote's tallies to the facilitators, or to the whole session once revealed. */
+  private async pushTally(sessionId: string, itemId: string): Promise<void> {
+    if (this.closed || !this.io) return;
+    const state = await this.live.state(sessionId);
+    if (state.item?.id !== itemId) return;
+    // No check for listeners in the room: with broadcasts shared between processes, they may be on another one.
+    const room = state.revealed ? liveRooms.session(sessionId) : liveRooms.facilitators(sessionId);
+    const row = await this.ctx.db.models.Vote.findOne({ where: { sessionId, itemId } });
+    if (!row || this.closed) return;
+    const results = await this.resultsOf(row, state.item.title, await this.live.participants(sessionId));
+    if (this.closed) return;
+    this.io.to(room).emit('vote:tallied', results);
+  }
+}

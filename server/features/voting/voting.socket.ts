@@ -1,0 +1,55 @@
+import type { AppContext } from '../../context';
+import { EDIT_ROLES } from '../../common/access';
+import type { LiveCommands, LiveSocket } from '../live/live.socket';
+import type { VotingService } from './voting.service';
+import { LivePayloads } from '../../../shared/events';
+import { ChoosePayload, DotPayload, RankPayload, VoteSetupPayload } from '../../../shared/schemas/voting';
+
+/**
+ * Voting commands on a live socket: the facilitators set up, open, close and carry forward; phones
+ * vote; every screen reads the vote, and the results once the facilitator reveals them.
+ */
+export function registerVotingSocket({ on, parse }: LiveCommands, voting: VotingService, socket: LiveSocket, ctx: AppContext): void {
+  const empty = (payload: unknown) => parse(LivePayloads.empty, payload ?? {});
+
+  /** Whether this socket is a facilitator running its session now (checked afresh, as `runner` commands are). */
+  const runsSession = async (): Promise<boolean> => {
+    const data = socket.data;
+    if (data.kind !== 'user' || !data.userId || !data.watching) return false;
+    const user = await ctx.db.models.User.findByPk(data.userId);
+    if (!user || user.disabled) return false;
+    const role = await ctx.workshopRoleOf(user, data.watching.workshopId);
+    return role !== 'missing' && role !== null && EDIT_ROLES.includes(role);
+  };
+
+  on('vote:state', 'screen', async (payload, who) => {
+    empty(payload);
+    return voting.state(who.sessionId, who.participantId);
+  });
+  on('vote:setup', 'runner', async (payload, who) => voting.setup(who.sessionId, parse(VoteSetupPayload, payload)));
+  on('vote:open', 'runner', async (payload, who) => {
+    empty(payload);
+    return voting.openVote(who.sessionId);
+  });
+  on('vote:close', 'runner', async (payload, who) => {
+    empty(payload);
+    return voting.closeVote(who.sessionId);
+  });
+  on('vote:dot', 'participant', async (payload, who) => voting.dot(who.participantId!, who.sessionId, parse(DotPayload, payload)));
+  on('vote:rank', 'participant', async (payload, who) => voting.rank(who.participantId!, who.sessionId, parse(RankPayload, payload)));
+  on('vote:results', 'screen', async (payload, who) => {
+    empty(payload);
+    // Phones, projectors and observers see results once revealed; the facilitators see them as they come in.
+    const asker = who.participantId === null && (await runsSession()) ? 'runner' : 'screen';
+    return voting.results(who.sessionId, asker);
+  });
+  on('vote:choose', 'runner', async (payload, who) => voting.choose(who.sessionId, parse(ChoosePayload, payload).optionIds));
+  on('vote:sources', 'runner', async (payload, who) => {
+    empty(payload);
+    return voting.sources(who.sessionId);
+  });
+  on('teams:propose', 'runner', async (payload, who) => {
+    empty(payload);
+    return voting.propose(who.sessionId);
+  });
+}

@@ -1,0 +1,127 @@
+import { getCurrentInstance, inject, onBeforeUnmount, provide, ref, type InjectionKey, type Ref } from 'vue';
+import type { Ack, ClientToServerEvents, ServerToClientEvents } from '../../../shared/events';
+import { connectSocket, type CairnSocket } from '../../socket/client';
+import { photoObjectUrl, type PhotoToken } from '../../api/uploads';
+
+/** Which screen an activity view runs on. */
+export type ActivityScreen = 'phone' | 'console' | 'projector';
+
+/** What an activity command's acknowledgement carries on success. */
+type AckData<E extends keyof ClientToServerEvents> = Parameters<ClientToServerEvents[E]>[1] extends (a: Ack<infer T>) => void ? T : never;
+
+/** An error an activity command answered with. */
+export class ActivityError extends Error {
+  constructor(
+    public code: string,
+    message: string,
+  ) {
+    super(message);
+  }
+}
+
+/** The activity views' own connection to the live session: commands, broadcasts and photos. */
+export interface ActivityChannel {
+  screen: ActivityScreen;
+  connected: Ref<boolean>;
+  /** Sends a command and resolves with its data, or rejects with an ActivityError. */
+  request<E extends keyof ClientToServerEvents>(event: E, payload: Parameters<ClientToServerEvents[E]>[0]): Promise<AckData<E>>;
+  /** Listens to a broadcast until the component that asked is unmounted. */
+  on<E extends keyof ServerToClientEvents>(event: E, listener: ServerToClientEvents[E]): void;
+  /** Runs now if connected, and after every reconnection, until the component that asked is unmounted. */
+  onReady(listener: () => void): void;
+  /** An object URL of a photo (cached for the view's life); `null` when it cannot be shown. */
+  photoUrl(photoId: string, size: 'thumb' | 'full', blurred: boolean): Promise<string | null>;
+}
+
+const KEY: InjectionKey<ActivityChannel> = Symbol('activity-channel');
+const ACK_TIMEOUT_MS = 6000;
+
+/** How the channel finds its token and session. */
+export interface ChannelOptions {
+  screen: ActivityScreen;
+  sessionId: () => string | null;
+  workshopId: () => string | null;
+  /** The token to connect with: a participant's, a projector's display token, or an account's access token. */
+  token: () => string | null;
+  /** Accounts attach to the session with `session:watch`; phones and display tokens are attached on connect. */
+  watches: boolean;
+}
+
+/**
+ * Opens the activity views' socket to the live session (a second connection beside the live store's,
+ * which does not expose its own) and provides it to the activity sub-components.
+ */
+export function provideActivityChannel(options: ChannelOptions): ActivityChannel {
+  // The channel lives as long as the screen's top activity view, not any one child.
+  const connected = ref(false);
+  const readyListeners = new Set<() => void>();
+  const photos = new Map<string, Promise<string | null>>();
+
+  const s: CairnSocket = connectSocket(options.token);
+  const untyped = s as unknown as { on(e: string, fn: unknown): void; off(e: string, fn: unknown): void };
+  // Children mount and unmount with each agenda item; their listeners go with them.
+  const whileMounted = (remove: () => void) => {
+    if (getCurrentInstance()) onBeforeUnmount(remove);
+  };
+  s.on('connect', async () => {
+    if (options.watches) {
+      const sessionId = options.sessionId();
+      if (!sessionId) return;
+      const answer = (await s.timeout(ACK_TIMEOUT_MS).emitWithAck('session:watch', { sessionId }).catch(() => null)) as Ack<unknown> | null;
+      if (!answer || 'error' in answer) return;
+    }
+    connected.value = true;
+    for (const l of readyListeners) l();
+  });
+  s.on('disconnect', () => (connected.value = false));
+
+  const channel: ActivityChannel = {
+    screen: options.screen,
+    connected,
+    async request(event, payload) {
+      let answer: Ack<unknown>;
+      try {
+        // The typed emit cannot take a generic event name; the answer's type comes from AckData.
+        answer = (await (s.timeout(ACK_TIMEOUT_MS) as unknown as { emitWithAck(e: string, p: unknown): Promise<Ack<unknown>> }).emitWithAck(event, payload)) as Ack<unknown>;
+      } catch {
+        throw new ActivityError('timeout', 'The server did not answer in time; try again');
+      }
+      if ('error' in answer) throw new ActivityError(answer.error.code, answer.error.message);
+      return answer.data as never;
+    },
+    on(event, listener) {
+      untyped.on(event, listener);
+      whileMounted(() => untyped.off(event, listener));
+    },
+    onReady(listener) {
+      readyListeners.add(listener);
+      whileMounted(() => readyListeners.delete(listener));
+      if (connected.value) listener();
+    },
+    photoUrl(photoId, size, blurred) {
+      // A photo that becomes blurred (or clear) is another picture: the flag is part of the key.
+      const key = `${photoId}|${size}|${blurred}`;
+      let url = photos.get(key);
+      if (!url) {
+        const token: PhotoToken = { token: options.token() ?? '', workshopId: options.screen === 'phone' || !options.watches ? null : options.workshopId() };
+        url = photoObjectUrl(photoId, size, token).catch(() => null);
+        photos.set(key, url);
+      }
+      return url;
+    },
+  };
+  provide(KEY, channel);
+  onBeforeUnmount(() => {
+    s.removeAllListeners();
+    s.disconnect();
+    for (const url of photos.values()) void url.then((u) => u && URL.revokeObjectURL(u));
+  });
+  return channel;
+}
+
+/** The activity channel provided by the screen's top activity view. */
+export function useActivityChannel(): ActivityChannel {
+  const channel = inject(KEY);
+  if (!channel) throw new Error('useActivityChannel needs provideActivityChannel in a parent component');
+  return channel;
+}

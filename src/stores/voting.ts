@@ -1,0 +1,271 @@
+import { defineStore } from 'pinia';
+import { computed, ref, shallowRef } from 'vue';
+import type { Ack, ClientToServerEvents } from '../../shared/events';
+import type { Team } from '../../shared/schemas/team';
+import type {
+  BallotAnswer,
+  MyBallot,
+  TeamProposal,
+  VoteResults,
+  VoteSetupPayload,
+  VoteSources,
+  VoteView,
+} from '../../shared/schemas/voting';
+import { checkBallot } from '../../shared/tally';
+import { connectSocket, type CairnSocket } from '../socket/client';
+import { newId } from '../socket/ids';
+import { CommandError } from './live';
+
+const ACK_TIMEOUT_MS = 6000;
+/** A phone resends a vote after a lost answer this many times (same clientId, so it lands once). */
+const RETRIES = 4;
+
+/** Which screen the store serves: a phone votes, the console runs the vote, the projector shows it. */
+export type VotingScreen = 'phone' | 'console' | 'projector';
+
+/**
+ * The current vote as one screen sees it: the vote (options, rules, status), the tallies when this
+ * screen may see them, the teams, and on phones the participant's own ballot. It keeps a socket of its
+ * own while a voting activity is on screen, attached to the same session with the same token as the
+ * live store's, so the vote's commands and broadcasts stay in this feature.
+ */
+export const useVotingStore = defineStore('voting', () => {
+  const vote = ref<VoteView | null>(null);
+  const results = ref<VoteResults | null>(null);
+  const teams = ref<Team[]>([]);
+  const proposal = ref<TeamProposal | null>(null);
+  const connected = ref(false);
+  const problem = ref<string | null>(null);
+  const socket = shallowRef<CairnSocket | null>(null);
+  /** The item the screen shows; answers and broadcasts about another item are ignored. */
+  const itemId = ref<string | null>(null);
+  let screen: VotingScreen = 'phone';
+  let wantResults = false;
+
+  const mine = computed<MyBallot | null>(() => vote.value?.mine ?? null);
+
+  async function ask<T>(event: keyof ClientToServerEvents, payload: unknown = {}): Promise<T> {
+    const s = socket.value;
+    if (!s || !s.connected) throw new CommandError('network', 'Not connected; Cairn is reconnecting');
+    let answer: Ack<T>;
+    try {
+      // The typed emit needs the event's own payload type; every caller passes the right one.
+      answer = (await (s.timeout(ACK_TIMEOUT_MS) as unknown as { emitWithAck: (e: string, p: unknown) => Promise<Ack<T>> }).emitWithAck(
+        event,
+        payload,
+      )) as Ack<T>;
+    } catch {
+      throw new CommandError('timeout', 'The server did not answer in time');
+    }
+    if ('error' in answer) throw new CommandError(answer.error.code, answer.error.message);
+    return answer.data;
+  }
+
+  function takeVote(next: VoteView): void {
+    if (itemId.value && next.itemId !== itemId.value) return;
+    // Broadcasts carry no ballot: keep this phone's own.
+    const keep = vote.value && vote.value.itemId === next.itemId ? vote.value.mine : null;
+    vote.value = { ...next, mine: next.mine ?? keep };
+  }
+
+  function takeMine(m: MyBallot): void {
+    if (vote.value && vote.value.itemId === m.itemId) vote.value = { ...vote.value, mine: m };
+  }
+
+  /**
+   * Reads the vote of the item on screen again; `withResults` also reads the tallies (the console always,
+   * other screens once the facilitator has revealed them).
+   */
+  async function refresh(forItem: string, withResults: boolean): Promise<void> {
+    itemId.value = forItem;
+    wantResults = withResults;
+    if (vote.value?.itemId !== forItem) {
+      vote.value = null;
+      results.value = null;
+      proposal.value = null;
+    }
+    if (!withResults) results.value = null;
+    if (!connected.value) return;
+    try {
+      const v = await ask<VoteView>('vote:state');
+      if (v.itemId !== itemId.value) return;
+      vote.value = v;
+      problem.value = null;
+      if (withResults && v.ready) {
+        const r = await ask<VoteResults>('vote:results');
+        if (r.itemId === itemId.value) results.value = r;
+      }
+      if (v.kind === 'team_sort') teams.value = await ask<Team[]>('teams:list');
+    } catch (err) {
+      // The item moved on under us; the next refresh reads the new one.
+      if (err instanceof CommandError && err.code === 'conflict') return;
+      problem.value = err instanceof CommandError ? err.message : 'Could not read the vote';
+    }
+  }
+
+  /** Connects with a token: the console and an account's projector pass `watch`; a phone's or display's token names its session. */
+  function connect(opts: { token: () => string | null; watch?: string; screen: VotingScreen }): void {
+    disconnect();
+    screen = opts.screen;
+    const s = connectSocket(opts.token);
+    socket.value = s;
+    s.on('connect', async () => {
+      try {
+        if (opts.watch) await ask('session:watch', { sessionId: opts.watch });
+        connected.value = true;
+        if (itemId.value) await refresh(itemId.value, wantResults);
+        await flush();
+      } catch (err) {
+        problem.value = err instanceof CommandError ? err.message : 'Could not reach the session';
+      }
+    });
+    s.on('disconnect', () => (connected.value = false));
+    s.on('connect_error', () => (connected.value = false));
+    s.on('vote:updated', takeVote);
+    s.on('vote:tallied', (r) => {
+      if (r.itemId === itemId.value && (screen === 'console' || wantResults)) results.value = r;
+    });
+    s.on('ballot:updated', takeMine);
+    s.on('teams:updated', (t) => (teams.value = t));
+  }
+
+  /** Closes the socket and forgets the vote. */
+  function disconnect(): void {
+    socket.value?.removeAllListeners();
+    socket.value?.disconnect();
+    socket.value = null;
+    connected.value = false;
+    vote.value = null;
+    results.value = null;
+    proposal.value = null;
+    itemId.value = null;
+    outbox.length = 0;
+  }
+
+  // ---- phone: ballots, sent one after another and retried with the same clientId ----
+
+  type Outgoing = { event: 'vote:dot' | 'vote:rank'; payload: Record<string, unknown> & { clientId: string }; resolve: () => void; reject: (e: unknown) => void; tries: number };
+  const outbox: Outgoing[] = [];
+  let flushing = false;
+
+  async function flush(): Promise<void> {
+    if (flushing) return;
+    flushing = true;
+    try {
+      while (outbox.length > 0 && connected.value) {
+        const next = outbox[0]!;
+        try {
+          const answer = await ask<BallotAnswer>(next.event, next.payload);
+          takeMine(answer.mine);
+          outbox.shift();
+          next.resolve();
+        } catch (err) {
+          const lost = err instanceof CommandError && (err.code === 'timeout' || err.code === 'network');
+          next.tries += 1;
+          if (lost && next.tries < RETRIES) {
+            // A lost answer while still connected: try again shortly; after a drop, the reconnect sends it.
+            if (connected.value) setTimeout(() => void flush(), 1000);
+            break;
+          }
+          outbox.shift();
+          next.reject(err);
+        }
+      }
+    } finally {
+      flushing = false;
+    }
+  }
+
+  function send(event: Outgoing['event'], payload: Record<string, unknown>): Promise<void> {
+    return new Promise<void>((resolve, reject) => {
+      outbox.push({ event, payload: { ...payload, clientId: newId() }, resolve, reject, tries: 0 });
+      void flush();
+    });
+  }
+
+  /**
+   * Adds (`+1`) or takes back (`-1`) one dot. The rule is checked here first with the same function the
+   * server runs, so a refusal shows at once; the server's answer then replaces the ballot.
+   */
+  async function dot(optionId: string, criterionId: string, delta: 1 | -1): Promise<void> {
+    const v = vote.value;
+    if (!v || !v.mine) return;
+    const dots = v.mine.dots.map((d) => ({ ...d, voterId: 'me' }));
+    const check = checkBallot(v.rules, dots, { optionId, criterionId, delta });
+    if (!check.ok) throw new CommandError(check.code, check.message);
+    const current = v.mine.dots.find((d) => d.optionId === optionId && d.criterionId === criterionId);
+    const nextDots = current
+      ? v.mine.dots.map((d) => (d === current ? { ...d, count: d.count + delta } : d)).filter((d) => d.count > 0)
+      : [...v.mine.dots, { optionId, criterionId, count: delta }];
+    vote.value = { ...v, mine: { ...v.mine, dots: nextDots } };
+    try {
+      await send('vote:dot', { optionId, criterionId, delta });
+    } catch (err) {
+      // The server said no: show what it holds.
+      if (itemId.value) await refresh(itemId.value, wantResults);
+      throw err;
+    }
+  }
+
+  /** Sends this participant's order of the options (favourite first). */
+  async function rank(ranking: string[]): Promise<void> {
+    await send('vote:rank', { ranking });
+  }
+
+  // ---- console ----
+
+  /** Sets the current item's vote up. */
+  async function setup(payload: VoteSetupPayload): Promise<void> {
+    takeVote(await ask<VoteView>('vote:setup', payload));
+    results.value = null;
+    if (itemId.value) await refresh(itemId.value, true);
+  }
+
+  /** Opens or closes the current vote. */
+  async function setOpen(open: boolean): Promise<void> {
+    takeVote(await ask<VoteView>(open ? 'vote:open' : 'vote:close'));
+  }
+
+  /** Carries the chosen options forward. */
+  async function choose(optionIds: string[]): Promise<void> {
+    takeVote(await ask<VoteView>('vote:choose', { optionIds }));
+    if (itemId.value) results.value = await ask<VoteResults>('vote:results');
+  }
+
+  /** What may become options. */
+  function sources(): Promise<VoteSources> {
+    return ask<VoteSources>('vote:sources');
+  }
+
+  /** Cairn's proposal of teams from the current team sort. */
+  async function propose(): Promise<TeamProposal> {
+    proposal.value = await ask<TeamProposal>('teams:propose');
+    return proposal.value;
+  }
+
+  /** Confirms teams (after any moves the facilitator made). */
+  async function confirmTeams(payload: { teams: { name: string; challenge: string; memberIds: string[] }[] }): Promise<void> {
+    teams.value = await ask<Team[]>('teams:set', payload);
+  }
+
+  return {
+    vote,
+    results,
+    teams,
+    proposal,
+    connected,
+    problem,
+    mine,
+    connect,
+    disconnect,
+    refresh,
+    dot,
+    rank,
+    setup,
+    setOpen,
+    choose,
+    sources,
+    propose,
+    confirmTeams,
+  };
+});

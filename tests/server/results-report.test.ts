@@ -1,0 +1,182 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import * as pdfjs from 'pdfjs-dist/legacy/build/pdf.mjs';
+import { addMember, bearer, createStranger, liveDay, startTestApp, type LiveDay, type TestAccount, type TestApp } from './helpers';
+import { renderReportPdf } from '../../server/features/results/report.service';
+import { ResultsService } from '../../server/features/results/results.service';
+
+let t: TestApp;
+let day: LiveDay;
+let cofacilitator: TestAccount;
+
+beforeAll(async () => {
+  t = await startTestApp();
+  day = await liveDay(t, {
+    title: 'Harbour Lane: the report',
+    phones: [
+      { displayName: 'Ana Lima', photoConsent: true },
+      { displayName: 'Ben Okafor', photoConsent: false },
+      { displayName: 'Chidi Brandt' },
+    ],
+    teams: [
+      { name: 'Team Dock', challenge: 'Make unlocking obvious', phones: [0, 1] },
+      { name: 'Team Route', challenge: 'A calm first route', phones: [2] },
+    ],
+    notes: [
+      { type: 'insights', phone: 0, text: 'Unlocking took three tries, then the app froze' },
+      { type: 'insights', phone: 1, text: 'Замок не открылся с первого раза' },
+      { type: 'insights', phone: 2, text: 'Ο σταθμός ήταν άδειος' },
+      { type: 'insights', phone: 0, text: '<b>Not bold</b> & <i>not italic</i>' },
+      { type: 'test_rounds', phone: 2, kind: 'feedback', part: 'ideas', text: 'Add a map on the dock', fields: (teams) => ({ hostTeamId: teams.get('Team Dock')! }) },
+      { type: 'closing', phone: 1, kind: 'reflection', text: 'Prototype the welcome ride card next week' },
+    ],
+  });
+  cofacilitator = await createStranger(t, 'cofacilitator');
+  await addMember(t, day.workshopId, cofacilitator.id, 'cofacilitator');
+});
+afterAll(() => t?.close());
+
+/** The text of every page of a PDF, read back with PDF.js (an independent reader), whitespace collapsed. */
+async function pdfText(pdf: Buffer): Promise<string> {
+  const doc = await pdfjs.getDocument({ data: new Uint8Array(pdf), useSystemFonts: false, isEvalSupported: false }).promise;
+  const pages: string[] = [];
+  for (let i = 1; i <= doc.numPages; i++) {
+    const content = await (await doc.getPage(i)).getTextContent();
+    pages.push(content.items.map((item) => ('str' in item ? item.str + (item.hasEOL ? '\n' : '') : '')).join(''));
+  }
+  await doc.destroy();
+  return pages.join('\n').replace(/\s+/g, ' ');
+}
+
+async function getPdf(token: string, query = ''): Promise<{ status: number; pdf: Buffer; headers: Record<string, string> }> {
+  const res = await t.agent
+    .get(`/api/workshops/${day.workshopId}/report.pdf${query}`)
+    .set('Authorization', bearer(token))
+    .buffer(true)
+    .parse((r, done) => {
+      const chunks: Buffer[] = [];
+      r.on('data', (c: Buffer) => chunks.push(c));
+      r.on('end', () => done(null, Buffer.concat(chunks)));
+    });
+  return { status: res.status, pdf: res.body as Buffer, headers: res.headers as Record<string, string> };
+}
+
+describe('the printed report (PDF)', () => {
+  it('holds the brief, the agenda as run, the results, the teams, participation and next steps, as text', async () => {
+    const { status, pdf, headers } = await getPdf(await t.tokenFor('observer'));
+    expect(status).toBe(200);
+    expect(headers['content-type']).toBe('application/pdf');
+    expect(headers['content-disposition']).toBe('attachment; filename=cairn-harbour-lane-the-report-2027-03-13-report.pdf');
+    expect(pdf.subarray(0, 5).toString('latin1')).toBe('%PDF-');
+    const text = await pdfText(pdf);
+    for (const expected of [
+      'Harbour Lane: the report',
+      'Brief',
+      "Improve a new member's first ride",
+      'Agenda as run',
+      'Results',
+      'Unlocking took three tries, then the app froze — Ana Lima',
+      // Cyrillic and Greek come out of the Source Sans 3 subsets shipped with the app.
+      'Замок не открылся с первого раза',
+      'Ο σταθμός ήταν άδειος',
+      // Markup in a note is printed as the characters the participant typed.
+      '<b>Not bold</b> & <i>not italic</i>',
+      'Feedback grid: Team Dock',
+      'Add a map on the dock',
+      'Teams and their challenges',
+      'Challenge: Make unlocking obvious',
+      'Participation',
+      '3 joined · 2 agreed to photos',
+      'Next steps',
+      'Prototype the welcome ride card next week',
+      "organisation's data-protection policy",
+    ]) {
+      expect(text, expected).toContain(expected);
+    }
+  });
+
+  it('prints every agenda item with its planned times, and the actual times of those that ran', async () => {
+    const results = await new ResultsService(t.cairn.ctx).results(day.workshopId);
+    const text = await pdfText(await renderReportPdf(results));
+    for (const a of results.agenda) {
+      expect(text).toContain(`${a.plannedStart}–${a.plannedEnd}`);
+    }
+    expect(text.match(/did not run/g)?.length).toBe(results.agenda.filter((a) => a.runCount === 0).length);
+    const welcome = results.agenda[0]!;
+    const clock = (ms: number) => `${String(new Date(ms).getHours()).padStart(2, '0')}:${String(new Date(ms).getMinutes()).padStart(2, '0')}`;
+    expect(text).toContain(`${clock(welcome.actualStart!)}–${clock(welcome.actualEnd!)}`);
+  });
+
+  it('leaves every name out of the copy without names', async () => {
+    const text = await pdfText((await getPdf(day.ownerToken, '?anonymize=true')).pdf);
+    for (const name of ['Ana Lima', 'Ben Okafor', 'Chidi Brandt']) expect(text).not.toContain(name);
+    expect(text).toContain('Participant 1');
+    expect(text).toContain('names removed');
+  });
+});
+
+describe('sending the report', () => {
+  it('lists the members and, masked, the participants who left an address', async () => {
+    const res = await t.agent
+      .put('/api/participant/report-email')
+      .set('Authorization', bearer(day.phones[0]!.answer.token))
+      .send({ email: 'Ana.Lima@harbourlane.example' });
+    expect(res.status).toBe(200);
+    expect(res.body.email).toBe('ana.lima@harbourlane.example');
+    const list = await t.agent.get(`/api/workshops/${day.workshopId}/report/recipients`).set('Authorization', bearer(day.ownerToken));
+    expect(list.status).toBe(200);
+    expect(list.body.members.map((m: { name: string; role: string }) => [m.name, m.role]).sort()).toEqual([
+      ['Robin Stranger', 'cofacilitator'],
+      ['Tomas Reed', 'observer'],
+    ]);
+    expect(list.body.participants).toEqual([{ participantId: day.phones[0]!.answer.me.id, name: 'Ana Lima', maskedEmail: 'a•••@harbourlane.example' }]);
+  });
+
+  it('mails a link to the chosen observer and the PDF, names removed, to the participant, through the dev SMTP server', async () => {
+    const inbox = t.cairn.ctx.mail.dev!.messages;
+    const before = inbox.length;
+    const list = await t.agent.get(`/api/workshops/${day.workshopId}/report/recipients`).set('Authorization', bearer(cofacilitator.token));
+    const observer = list.body.members.find((m: { role: string }) => m.role === 'observer');
+    const res = await t.agent
+      .post(`/api/workshops/${day.workshopId}/report/send`)
+      .set('Authorization', bearer(cofacilitator.token))
+      .send({ memberIds: [observer.userId], participantIds: [day.phones[0]!.answer.me.id], note: 'Thanks for a great day, <everyone>!' });
+    expect(res.status, JSON.stringify(res.body)).toBe(200);
+    expect(res.body).toEqual({ links: 1, attachments: 1 });
+    expect(inbox.length).toBe(before + 2);
+    const [toObserver, toParticipant] = inbox.slice(before);
+
+    expect(toObserver!.to).toEqual(['tomas@harbourlane.example']);
+    expect(toObserver!.subject).toBe('Report of the Cairn workshop “Harbour Lane: the report” (2027-03-13)');
+    expect(toObserver!.text).toContain(`/workshops/${day.workshopId}/report`);
+    expect(toObserver!.text).toContain('Thanks for a great day, <everyone>!');
+    expect(toObserver!.attachments).toEqual([]);
+
+    expect(toParticipant!.to).toEqual(['ana.lima@harbourlane.example']);
+    expect(toParticipant!.text).toContain('the names of participants are removed');
+    expect(toParticipant!.text).not.toContain('/workshops/');
+    expect(toParticipant!.attachments).toHaveLength(1);
+    const attachment = toParticipant!.attachments[0]!;
+    expect(attachment.filename).toBe('cairn-harbour-lane-the-report-2027-03-13-report.pdf');
+    expect(attachment.contentType).toBe('application/pdf');
+    // The dev server keeps an attachment's size, not its bytes: it is the size of the report without names
+    // (the same report rendered again differs only in its creation date, a field of fixed width).
+    const again = await getPdf(day.ownerToken, '?anonymize=true');
+    expect(attachment.size).toBe(again.pdf.length);
+  });
+
+  it('refuses people who are not members, or participants who left no address', async () => {
+    for (const body of [{ memberIds: [day.phones[1]!.answer.me.id] }, { participantIds: [day.phones[1]!.answer.me.id] }, {}]) {
+      const res = await t.agent.post(`/api/workshops/${day.workshopId}/report/send`).set('Authorization', bearer(day.ownerToken)).send(body);
+      expect(res.status, JSON.stringify(body)).toBe(400);
+    }
+  });
+
+  it('lets observers read the report but not send it', async () => {
+    const observer = await t.tokenFor('observer');
+    expect((await getPdf(observer)).status).toBe(200);
+    const send = await t.agent.post(`/api/workshops/${day.workshopId}/report/send`).set('Authorization', bearer(observer)).send({ participantIds: [day.phones[0]!.answer.me.id] });
+    expect(send.status).toBe(403);
+    const list = await t.agent.get(`/api/workshops/${day.workshopId}/report/recipients`).set('Authorization', bearer(observer));
+    expect(list.status).toBe(403);
+  });
+});
