@@ -44,7 +44,7 @@ interface Child {
 
 async function startChild(mode: 'cairn' | 'bare'): Promise<Child> {
   const proc = fork(path.join('bench', 'server-child.ts'), [mode], {
-    execArgv: ['--expose-gc', '--import', 'tsx', '--max-old-space-size=4096', ...(process.env.BENCH_PROFILE ? ['--cpu-prof', '--cpu-prof-dir=.test-output/prof'] : [])],
+    execArgv: ['--expose-gc', '--import', 'tsx', '--max-old-space-size=4096'],
     stdio: ['ignore', 'inherit', 'inherit', 'ipc'],
   });
   let next = 1;
@@ -151,6 +151,8 @@ async function benchCairn() {
   });
   const token = signIn.accessToken;
   const demo = (await http<{ id: string; title: string }[]>(port, 'GET', '/workshops', undefined, token)).find((w) => w.title === DEMO_WORKSHOP_TITLE)!;
+  const agenda = (await http<{ agenda: { type: string }[] }>(port, 'GET', `/workshops/${demo.id}`, undefined, token)).agenda;
+  const voteIndex = agenda.findIndex((i) => i.type === 'dot_vote');
   const info = await http<{ sessionId: string; joinCode: string }>(port, 'POST', `/workshops/${demo.id}/live`, {}, token);
   const facilitator = await connect(port, token);
   await ask(facilitator, 'session:watch', { sessionId: info.sessionId });
@@ -188,7 +190,7 @@ async function benchCairn() {
 
   // The burst: every phone spends its dots within the window, each at a random moment.
   await child.ask('reset');
-  const burst = await voteBurst(child, facilitator, phones);
+  const burst = await voteBurst(child, facilitator, phones, voteIndex);
   const burstStats = await child.ask<Stats>('stats');
 
   for (const s of [...phones, facilitator]) s.disconnect();
@@ -204,9 +206,9 @@ async function benchCairn() {
 }
 
 /** The vote burst: each phone sends DOTS_EACH votes at random times within BURST_MS. */
-async function voteBurst(child: Child, facilitator: Socket, phones: Socket[]) {
+async function voteBurst(child: Child, facilitator: Socket, phones: Socket[], voteIndex: number) {
   const plan = await import('./burst');
-  return plan.runBurst({ child, facilitator, phones, dotsEach: DOTS_EACH, windowMs: BURST_MS, ask });
+  return plan.runBurst({ child, facilitator, phones, dotsEach: DOTS_EACH, windowMs: BURST_MS, ask, voteIndex });
 }
 
 // ---------- the baseline ----------
@@ -261,6 +263,7 @@ async function main(): Promise<void> {
     lost: cairn.burst.lost,
     duplicates: cairn.burst.duplicates,
     busy_errors: cairn.burst.busyErrors,
+    votes_refused: cairn.burst.refused,
     tally_lag_ms: round(cairn.burst.tallyLagMs),
     heap_per_phone_bytes: Math.round(cairn.heapPerPhone),
     baseline_heap_per_phone_bytes: Math.round(bare.heapPerPhone),
@@ -283,7 +286,7 @@ async function main(): Promise<void> {
     ['fan-out ratio p95', String(result.fanout_ratio_p95), '≤ 1.5'],
     [`${result.burst_kind} burst: ack p50 / p99`, `${result.ack_p50_ms} / ${result.ack_p99_ms} ms`, 'p99 < 250 ms'],
     ['sent / acked / stored', `${result.votes_sent} / ${result.votes_acked} / ${result.votes_stored}`, ''],
-    ['lost / duplicates / SQLITE_BUSY', `${result.lost} / ${result.duplicates} / ${result.busy_errors}`, '0 / 0 / 0'],
+    ['lost / duplicates / SQLITE_BUSY / refused', `${result.lost} / ${result.duplicates} / ${result.busy_errors} / ${result.votes_refused}`, '0 / 0 / 0 / 0'],
     ['console tally lag', `${result.tally_lag_ms} ms`, '≤ 1000 ms'],
     ['heap per phone', `${result.heap_per_phone_bytes} B`, `${result.baseline_heap_per_phone_bytes} B (ratio ${result.heap_ratio}, < 2)`],
     ['event-loop delay p99 (burst)', `${result.loop_delay_p99_ms} ms`, ''],

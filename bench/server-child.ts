@@ -9,6 +9,8 @@ import os from 'node:os';
 import path from 'node:path';
 import type { AddressInfo } from 'node:net';
 import { monitorEventLoopDelay } from 'node:perf_hooks';
+import { Session } from 'node:inspector/promises';
+import { writeFileSync, mkdirSync } from 'node:fs';
 import { Server } from 'socket.io';
 import { createApp, type CairnApp } from '../server/app';
 import { loadConfig } from '../server/config/env';
@@ -20,9 +22,10 @@ const loop = monitorEventLoopDelay({ resolution: 10 });
 loop.enable();
 let cpuMark = process.cpuUsage();
 let cairn: CairnApp | null = null;
+let profiler: Session | null = null;
 let dataDir = '';
 
-type Request = { id: number; type: 'stats' | 'gc' | 'reset' | 'count' | 'broadcast' | 'close'; payload?: unknown };
+type Request = { id: number; type: 'stats' | 'gc' | 'reset' | 'dots' | 'broadcast' | 'close'; payload?: unknown };
 
 function reply(id: number, data: unknown): void {
   process.send?.({ id, data });
@@ -55,12 +58,25 @@ async function main(): Promise<void> {
         reply(msg.id, process.memoryUsage().heapUsed);
         break;
       case 'reset':
+        // BENCH_PROFILE=1: a CPU profile of the burst alone, for finding the hot path.
+        if (process.env.BENCH_PROFILE) {
+          profiler = new Session();
+          profiler.connect();
+          await profiler.post('Profiler.enable');
+          await profiler.post('Profiler.start');
+        }
         loop.reset();
         cpuMark = process.cpuUsage();
         reply(msg.id, true);
         break;
       case 'stats': {
         const cpu = process.cpuUsage(cpuMark);
+        if (profiler) {
+          const { profile } = await profiler.post('Profiler.stop');
+          mkdirSync('.test-output/prof', { recursive: true });
+          writeFileSync(`.test-output/prof/burst-${mode}.cpuprofile`, JSON.stringify(profile));
+          profiler = null;
+        }
         reply(msg.id, {
           heapUsed: process.memoryUsage().heapUsed,
           loopDelayP99Ms: loop.percentile(99) / 1e6,
@@ -69,12 +85,11 @@ async function main(): Promise<void> {
         });
         break;
       }
-      case 'count': {
-        // Stored dots (or notes) of the session: what the benchmark compares its acknowledgements with.
-        const table = String((msg.payload as { table: string }).table);
-        const rows = (await cairn!.ctx.db.sequelize.query(`SELECT COUNT(*) AS n FROM ${table === 'dots' ? 'dots' : 'submissions'}`, {
-          plain: true,
-        })) as { n: number } | null;
+      case 'dots': {
+        // Stored dots: what the benchmark compares its acknowledgements and the console's tally with.
+        const rows = (await cairn!.ctx.db.sequelize.query('SELECT COALESCE(SUM(count), 0) AS n FROM vote_dots', { plain: true })) as {
+          n: number;
+        } | null;
         reply(msg.id, Number(rows?.n ?? 0));
         break;
       }
