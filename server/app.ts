@@ -20,6 +20,7 @@ import { authRoutes } from './features/auth/auth.router';
 import { UsersService } from './features/users/users.service';
 import { usersRoutes } from './features/users/users.router';
 import { WorkshopsService } from './features/workshops/workshops.service';
+import { activityPhotos } from './features/results/retention.service';
 import { workshopsRoutes } from './features/workshops/workshops.router';
 import { systemRoutes } from './features/system/system.router';
 import { MembersService } from './features/members/members.service';
@@ -82,7 +83,8 @@ export async function createApp(config: Config): Promise<CairnApp> {
   const mail = await Mailer.create({ smtpUrl: config.smtpUrl, from: config.mailFrom, devPort: config.devSmtpPort });
   const auth = new AuthService(db, tokens);
   const users = new UsersService(db, config.allowSignup);
-  const workshops = new WorkshopsService(db);
+  // Deleting a workshop also deletes its photos' files (after the commit).
+  const workshops = new WorkshopsService(db, (sessionIds, t) => activityPhotos.erase(ctx, sessionIds, t));
   const ctx: AppContext = {
     config,
     db,

@@ -350,3 +350,17 @@ describe('feedback on sketches and the count limit', () => {
     expect((await uploadsOnDisk()).length).toBe(files);
   });
 });
+
+describe('deleting the workshop', () => {
+  // Last in this file: it removes the demo workshop the other tests use.
+  it('removes the photo files from disk along with their rows', async () => {
+    const ok = await upload(0, checkerboard());
+    expect(ok.status).toBe(201);
+    expect((await uploadsOnDisk()).length).toBeGreaterThan(0);
+    await t.agent.post(`/api/workshops/${workshopId}/live/stop`).set('Authorization', bearer(facilitatorToken));
+    const res = await t.agent.delete(`/api/workshops/${workshopId}`).set('Authorization', bearer(facilitatorToken));
+    expect(res.status).toBe(204);
+    expect(await uploadsOnDisk()).toEqual([]);
+    expect(await t.cairn.ctx.db.models.Photo.count()).toBe(0);
+  });
+});

@@ -1,5 +1,6 @@
 import crypto from 'node:crypto';
-import { Op } from 'sequelize';
+import fs from 'node:fs/promises';
+import { Op, type Transaction } from 'sequelize';
 import type { Database } from '../../db';
 import type { AgendaItemRow, UserRow, WorkshopRow } from '../../db/models';
 import { errors } from '../../common/errors';
@@ -35,7 +36,11 @@ export function toAgendaItem(row: AgendaItemRow): AgendaItem {
 
 /** Workshops and their agendas: the planning rules of Cairn's server live here. */
 export class WorkshopsService {
-  constructor(private db: Database) {}
+  constructor(
+    private db: Database,
+    /** Deletes the photo rows of these live sessions in the transaction; returns the files to remove after the commit. */
+    private erasePhotos: (sessionIds: string[], transaction: Transaction) => Promise<string[]> = async () => [],
+  ) {}
 
   /** The account's role on a workshop, `null` for none, `'missing'` for no such workshop. */
   async roleOf(user: UserRow, workshopId: string): Promise<WorkshopAccessRole | null | 'missing'> {
@@ -130,12 +135,17 @@ export class WorkshopsService {
   /** Deletes a workshop and everything in it. */
   async remove(workshopId: string): Promise<void> {
     const w = await this.row(workshopId);
-    await this.db.writeTx(async (transaction) => {
+    const files = await this.db.writeTx(async (transaction) => {
+      const sessions = await this.db.models.LiveSession.findAll({ where: { workshopId }, attributes: ['id'], transaction });
+      const photoFiles = await this.erasePhotos(sessions.map((x) => x.id), transaction);
       await this.db.models.AgendaItem.destroy({ where: { workshopId }, transaction });
       await this.db.models.Membership.destroy({ where: { workshopId }, transaction });
       await this.db.models.Invitation.destroy({ where: { workshopId }, transaction });
       await w.destroy({ transaction });
+      return photoFiles;
     });
+    // After the commit, so no row ever points at a missing file.
+    await Promise.all(files.map((f) => fs.rm(f, { force: true }).catch(() => undefined)));
   }
 
   /** Adds an item, from the library's defaults for its type or as typed, at a position (default: the end). */
