@@ -36,6 +36,8 @@ export const useLiveStore = defineStore('live', () => {
   const errorBoundMs = ref(Infinity);
   const outbox = ref<SubmissionInput[]>([]);
   const socket = shallowRef<CairnSocket | null>(null);
+  /** Goes up each time the socket is attached to the session (after every (re)connection), for the activity and voting views to reload. */
+  const attached = ref(0);
   let outboxKey = '';
   // The server's clock, estimated once per sync and then advanced by the monotonic clock.
   let anchorServer = Date.now();
@@ -141,7 +143,7 @@ export const useLiveStore = defineStore('live', () => {
    * Connects with a token. Facilitator and display screens pass `watch` (the session to watch);
    * a participant's token already names its session.
    */
-  function connect(opts: { token: () => string | null; watch?: string; participantSessionId?: string }): void {
+  function connect(opts: { token: () => string | null; watch?: string; participantSessionId?: string; display?: boolean }): void {
     disconnect();
     ended.value = false;
     if (opts.participantSessionId) loadOutbox(opts.participantSessionId);
@@ -155,9 +157,10 @@ export const useLiveStore = defineStore('live', () => {
           accept(await ask<LiveState>('session:watch', { sessionId: opts.watch }));
         } else {
           accept(await ask<LiveState>('session:sync', {}));
-          me.value = await ask<Me>('participant:me', {});
+          if (!opts.display) me.value = await ask<Me>('participant:me', {});
           await flush();
         }
+        attached.value += 1;
       } catch (err) {
         connectError.value = err instanceof CommandError ? err.message : 'Could not reach the session';
       }
@@ -216,6 +219,9 @@ export const useLiveStore = defineStore('live', () => {
   return {
     state,
     connected,
+    attached,
+    socket,
+    ask,
     ended,
     me,
     participants,

@@ -1,5 +1,5 @@
 import { defineStore } from 'pinia';
-import { computed, ref, shallowRef } from 'vue';
+import { computed, ref, shallowRef, watch } from 'vue';
 import type { Ack, ClientToServerEvents } from '../../shared/events';
 import type { Team } from '../../shared/schemas/team';
 import type {
@@ -12,9 +12,9 @@ import type {
   VoteView,
 } from '../../shared/schemas/voting';
 import { checkBallot } from '../../shared/tally';
-import { connectSocket, type CairnSocket } from '../socket/client';
+import type { CairnSocket } from '../socket/client';
 import { newId } from '../socket/ids';
-import { CommandError } from './live';
+import { CommandError, useLiveStore } from './live';
 
 const ACK_TIMEOUT_MS = 6000;
 /** A phone resends a vote after a lost answer this many times (same clientId, so it lands once). */
@@ -25,9 +25,8 @@ export type VotingScreen = 'phone' | 'console' | 'projector';
 
 /**
  * The current vote as one screen sees it: the vote (options, rules, status), the tallies when this
- * screen may see them, the teams, and on phones the participant's own ballot. It keeps a socket of its
- * own while a voting activity is on screen, attached to the same session with the same token as the
- * live store's, so the vote's commands and broadcasts stay in this feature.
+ * screen may see them, the teams, and on phones the participant's own ballot. It uses the live store's
+ * socket: the screen's one connection to the session.
  */
 export const useVotingStore = defineStore('voting', () => {
   const vote = ref<VoteView | null>(null);
@@ -103,36 +102,55 @@ export const useVotingStore = defineStore('voting', () => {
     }
   }
 
-  /** Connects with a token: the console and an account's projector pass `watch`; a phone's or display's token names its session. */
-  function connect(opts: { token: () => string | null; watch?: string; screen: VotingScreen }): void {
+  const onTallied = (r: VoteResults) => {
+    if (r.itemId === itemId.value && (screen === 'console' || wantResults)) results.value = r;
+  };
+  const onTeams = (t: Team[]) => (teams.value = t);
+  const onDisconnect = () => (connected.value = false);
+  let stopAttached: (() => void) | null = null;
+
+  /**
+   * Shares the live store's socket (the screen's one connection to the session): listens to the
+   * vote's broadcasts and reloads the vote each time the socket is attached to the session again.
+   */
+  function connect(opts: { screen: VotingScreen }): void {
     disconnect();
     screen = opts.screen;
-    const s = connectSocket(opts.token);
+    const live = useLiveStore();
+    const s = live.socket;
+    if (!s) return;
     socket.value = s;
-    s.on('connect', async () => {
+    s.on('disconnect', onDisconnect);
+    s.on('vote:updated', takeVote);
+    s.on('vote:tallied', onTallied);
+    s.on('ballot:updated', takeMine);
+    s.on('teams:updated', onTeams);
+    const attach = async () => {
+      connected.value = true;
       try {
-        if (opts.watch) await ask('session:watch', { sessionId: opts.watch });
-        connected.value = true;
         if (itemId.value) await refresh(itemId.value, wantResults);
         await flush();
       } catch (err) {
         problem.value = err instanceof CommandError ? err.message : 'Could not reach the session';
       }
-    });
-    s.on('disconnect', () => (connected.value = false));
-    s.on('connect_error', () => (connected.value = false));
-    s.on('vote:updated', takeVote);
-    s.on('vote:tallied', (r) => {
-      if (r.itemId === itemId.value && (screen === 'console' || wantResults)) results.value = r;
-    });
-    s.on('ballot:updated', takeMine);
-    s.on('teams:updated', (t) => (teams.value = t));
+    };
+    stopAttached = watch(
+      () => live.attached,
+      () => void attach(),
+    );
+    if (live.connected && live.attached > 0) void attach();
   }
 
-  /** Closes the socket and forgets the vote. */
+  /** Stops listening (the shared socket stays with the live store) and forgets the vote. */
   function disconnect(): void {
-    socket.value?.removeAllListeners();
-    socket.value?.disconnect();
+    stopAttached?.();
+    stopAttached = null;
+    const s = socket.value;
+    s?.off('disconnect', onDisconnect);
+    s?.off('vote:updated', takeVote);
+    s?.off('vote:tallied', onTallied);
+    s?.off('ballot:updated', takeMine);
+    s?.off('teams:updated', onTeams);
     socket.value = null;
     connected.value = false;
     vote.value = null;

@@ -1,6 +1,7 @@
-import { getCurrentInstance, inject, onBeforeUnmount, provide, ref, type InjectionKey, type Ref } from 'vue';
+import { getCurrentInstance, inject, onBeforeUnmount, provide, ref, watch, type InjectionKey, type Ref } from 'vue';
 import type { Ack, ClientToServerEvents, ServerToClientEvents } from '../../../shared/events';
-import { connectSocket, type CairnSocket } from '../../socket/client';
+import type { CairnSocket } from '../../socket/client';
+import { useLiveStore } from '../../stores/live';
 import { photoObjectUrl, type PhotoToken } from '../../api/uploads';
 
 /** Which screen an activity view runs on. */
@@ -48,8 +49,8 @@ export interface ChannelOptions {
 }
 
 /**
- * Opens the activity views' socket to the live session (a second connection beside the live store's,
- * which does not expose its own) and provides it to the activity sub-components.
+ * Gives the activity sub-components the screen's connection to the live session (the live store's
+ * socket): commands, broadcasts scoped to the view's life, and photos.
  */
 export function provideActivityChannel(options: ChannelOptions): ActivityChannel {
   // The channel lives as long as the screen's top activity view, not any one child.
@@ -57,23 +58,26 @@ export function provideActivityChannel(options: ChannelOptions): ActivityChannel
   const readyListeners = new Set<() => void>();
   const photos = new Map<string, Promise<string | null>>();
 
-  const s: CairnSocket = connectSocket(options.token);
+  // The screen's one connection to the session is the live store's; the page opened it before this view.
+  const live = useLiveStore();
+  const s = live.socket as CairnSocket;
   const untyped = s as unknown as { on(e: string, fn: unknown): void; off(e: string, fn: unknown): void };
   // Children mount and unmount with each agenda item; their listeners go with them.
   const whileMounted = (remove: () => void) => {
     if (getCurrentInstance()) onBeforeUnmount(remove);
   };
-  s.on('connect', async () => {
-    if (options.watches) {
-      const sessionId = options.sessionId();
-      if (!sessionId) return;
-      const answer = (await s.timeout(ACK_TIMEOUT_MS).emitWithAck('session:watch', { sessionId }).catch(() => null)) as Ack<unknown> | null;
-      if (!answer || 'error' in answer) return;
-    }
+  const ready = () => {
     connected.value = true;
     for (const l of readyListeners) l();
-  });
-  s.on('disconnect', () => (connected.value = false));
+  };
+  // Every time the live store has attached the socket to the session (after each reconnection).
+  const stopAttached = watch(
+    () => live.attached,
+    () => ready(),
+  );
+  const onDisconnect = () => (connected.value = false);
+  s.on('disconnect', onDisconnect);
+  if (live.connected && live.attached > 0) connected.value = true;
 
   const channel: ActivityChannel = {
     screen: options.screen,
@@ -112,8 +116,8 @@ export function provideActivityChannel(options: ChannelOptions): ActivityChannel
   };
   provide(KEY, channel);
   onBeforeUnmount(() => {
-    s.removeAllListeners();
-    s.disconnect();
+    stopAttached();
+    s.off('disconnect', onDisconnect);
     for (const url of photos.values()) void url.then((u) => u && URL.revokeObjectURL(u));
   });
   return channel;
