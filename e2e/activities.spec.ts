@@ -1,7 +1,6 @@
-import { test, expect, type Browser, type Locator, type Page } from '@playwright/test';
-import AxeBuilder from '@axe-core/playwright';
+import { test, expect, type Locator, type Page } from '@playwright/test';
 import { PNG } from 'pngjs';
-import { DEMO, shot, signIn } from './fixtures';
+import { DEMO, expectAccessible, joinPhone, shot, signIn } from './fixtures';
 
 // The full-day template's agenda, by position (see shared/templates.ts).
 const AGENDA = { interview: 2, empathyMap: 3, howMightWe: 7, sketch: 11, testRounds: 15 };
@@ -18,24 +17,6 @@ function sketchPng(): Buffer {
     }
   }
   return PNG.sync.write(png);
-}
-
-/** No serious or critical accessibility violations on the page (axe-core). */
-async function expectAccessible(page: Page): Promise<void> {
-  const results = await new AxeBuilder({ page }).analyze();
-  const bad = results.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
-  expect(bad.map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).join(', ')})`)).toEqual([]);
-}
-
-async function joinPhone(browser: Browser, joinUrl: string, name: string, consent: boolean): Promise<Page> {
-  const context = await browser.newContext({ viewport: { width: 390, height: 844 }, isMobile: true, hasTouch: true });
-  const page = await context.newPage();
-  await page.goto(joinUrl);
-  await page.getByLabel('Your name for today').fill(name);
-  await page.getByTestId(consent ? 'consent-yes' : 'consent-no').click();
-  await page.getByTestId('join').click();
-  await expect(page.getByTestId('connection')).toHaveText('Connected');
-  return page;
 }
 
 /** Drags a note by its handle into a list, with small pointer steps (the lists sort by pointer, not HTML5 drag). */

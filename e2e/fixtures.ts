@@ -1,4 +1,5 @@
-import type { Page } from '@playwright/test';
+import { expect, type Browser, type Page } from '@playwright/test';
+import AxeBuilder from '@axe-core/playwright';
 import fs from 'node:fs';
 import path from 'node:path';
 
@@ -25,4 +26,23 @@ export async function signIn(page: Page, who: { email: string; password: string 
   await page.getByLabel('Password').fill(who.password);
   await page.getByTestId('submit').click();
   await page.waitForURL(/\/workshops/);
+}
+
+/** No serious or critical accessibility violations on the page (axe-core). */
+export async function expectAccessible(page: Page): Promise<void> {
+  const results = await new AxeBuilder({ page }).analyze();
+  const bad = results.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
+  expect(bad.map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).join(', ')})`)).toEqual([]);
+}
+
+/** A phone in its own browser context (phone-sized, touch) that joins the live session with a name and a photo-consent answer. */
+export async function joinPhone(browser: Browser, joinUrl: string, name: string, consent = true): Promise<Page> {
+  const context = await browser.newContext({ viewport: { width: 390, height: 844 }, isMobile: true, hasTouch: true });
+  const page = await context.newPage();
+  await page.goto(joinUrl);
+  await page.getByLabel('Your name for today').fill(name);
+  await page.getByTestId(consent ? 'consent-yes' : 'consent-no').click();
+  await page.getByTestId('join').click();
+  await expect(page.getByTestId('connection')).toHaveText('Connected');
+  return page;
 }

@@ -1,8 +1,7 @@
 import { test, expect, type Browser, type Page } from '@playwright/test';
-import AxeBuilder from '@axe-core/playwright';
 import { PNG } from 'pngjs';
 import jsQR from 'jsqr';
-import { DEMO, shot, signIn } from './fixtures';
+import { DEMO, expectAccessible, shot, signIn } from './fixtures';
 
 /** Parses a countdown label (MM:SS or H:MM:SS) into seconds. */
 function seconds(label: string): number {
@@ -11,13 +10,6 @@ function seconds(label: string): number {
     .split(':')
     .map(Number)
     .reduce((acc, n) => acc * 60 + n, 0);
-}
-
-/** No serious or critical accessibility violations on the page (axe-core). */
-async function expectAccessible(page: Page): Promise<void> {
-  const results = await new AxeBuilder({ page }).analyze();
-  const bad = results.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
-  expect(bad.map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).join(', ')})`)).toEqual([]);
 }
 
 async function phone(browser: Browser, joinUrl: string, name: string, consent: boolean): Promise<Page> {

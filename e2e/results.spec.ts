@@ -1,29 +1,9 @@
 import fs from 'node:fs';
 import path from 'node:path';
-import { test, expect, type Browser, type Page } from '@playwright/test';
-import AxeBuilder from '@axe-core/playwright';
+import { test, expect, type Page } from '@playwright/test';
 import { parse } from 'csv-parse/sync';
 import * as pdfjs from 'pdfjs-dist/legacy/build/pdf.mjs';
-import { DEMO, shot, signIn } from './fixtures';
-
-/** No serious or critical accessibility violations on the page (axe-core). */
-async function expectAccessible(page: Page): Promise<void> {
-  const results = await new AxeBuilder({ page }).analyze();
-  const bad = results.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
-  expect(bad.map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).join(', ')})`)).toEqual([]);
-}
-
-/** A phone in its own browser context that joins with a name. */
-async function phone(browser: Browser, joinUrl: string, name: string): Promise<Page> {
-  const context = await browser.newContext({ viewport: { width: 390, height: 844 }, isMobile: true, hasTouch: true });
-  const page = await context.newPage();
-  await page.goto(joinUrl);
-  await page.getByLabel('Your name for today').fill(name);
-  await page.getByTestId('consent-yes').click();
-  await page.getByTestId('join').click();
-  await expect(page.getByTestId('connection')).toHaveText('Connected');
-  return page;
-}
+import { DEMO, expectAccessible, joinPhone, shot, signIn } from './fixtures';
 
 /** Clicks a button that downloads a file and returns the file's bytes (kept under the test output too). */
 async function download(page: Page, testId: string, keepAs?: string): Promise<Buffer> {
@@ -58,7 +38,7 @@ test('after a short live run: the results page, the notes and tallies CSV as the
   await consolePage.getByTestId('run-live').click();
   await expect(consolePage.getByTestId('console-activity')).toBeVisible();
   const code = (await consolePage.getByTestId('console-code').textContent())!.trim();
-  const ana = await phone(browser, `${new URL(consolePage.url()).origin}/join/${code}`, 'Ana Lima');
+  const ana = await joinPhone(browser, `${new URL(consolePage.url()).origin}/join/${code}`, 'Ana Lima');
 
   // Insights: the phone adds two notes (a comma, quotes and a line break among them); the console shows them.
   await consolePage.getByTestId('timeline-item').filter({ hasText: 'What we learned' }).getByRole('button').click();

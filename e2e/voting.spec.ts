@@ -1,25 +1,5 @@
-import { test, expect, type Browser, type Page } from '@playwright/test';
-import AxeBuilder from '@axe-core/playwright';
-import { DEMO, shot, signIn } from './fixtures';
-
-/** No serious or critical accessibility violations on the page (axe-core). */
-async function expectAccessible(page: Page): Promise<void> {
-  const results = await new AxeBuilder({ page }).analyze();
-  const bad = results.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
-  expect(bad.map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).join(', ')})`)).toEqual([]);
-}
-
-/** A phone in its own browser context that joins with a name. */
-async function phone(browser: Browser, joinUrl: string, name: string): Promise<Page> {
-  const context = await browser.newContext({ viewport: { width: 390, height: 844 }, isMobile: true, hasTouch: true });
-  const page = await context.newPage();
-  await page.goto(joinUrl);
-  await page.getByLabel('Your name for today').fill(name);
-  await page.getByTestId('consent-yes').click();
-  await page.getByTestId('join').click();
-  await expect(page.getByTestId('connection')).toHaveText('Connected');
-  return page;
-}
+import { test, expect, type Page } from '@playwright/test';
+import { DEMO, expectAccessible, joinPhone, shot, signIn } from './fixtures';
 
 /** Clicks the add-a-dot button of an option under one criterion on a phone. */
 async function addDot(page: Page, criterionId: string, option: string): Promise<void> {
@@ -52,7 +32,7 @@ test('a dot vote with two criteria tallied live, revealed, carried forward into 
 
   const joinUrl = `${new URL(consolePage.url()).origin}/join/${code}`;
   const names = ['Ana', 'Ben', 'Cleo', 'Dev', 'Eli'];
-  const phones = await Promise.all(names.map((n) => phone(browser, joinUrl, n)));
+  const phones = await Promise.all(names.map((n) => joinPhone(browser, joinUrl, n)));
   await expect(consolePage.getByTestId('online-count')).toHaveText('5');
 
   // Straight to the dot vote from the console's timeline.
