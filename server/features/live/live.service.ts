@@ -1,6 +1,6 @@
 import crypto from 'node:crypto';
 import QRCode from 'qrcode';
-import { UniqueConstraintError, type Transaction } from 'sequelize';
+import { QueryTypes, UniqueConstraintError, type Transaction } from 'sequelize';
 import type { Server } from 'socket.io';
 import type { AppContext } from '../../context';
 import type { LiveSessionRow, ParticipantRow, SubmissionRow } from '../../db/models';
@@ -347,15 +347,19 @@ export class LiveService {
 
   /** Everyone who joined the session, with whether they are online now, in order of joining. */
   async participants(sessionId: string): Promise<ParticipantView[]> {
-    const rows = await this.ctx.db.models.Participant.findAll({ where: { sessionId }, order: [['joinedAt', 'ASC']] });
+    // Raw rows: the list of a full room is read a few times a second while votes come in.
+    const rows = await this.ctx.db.sequelize.query<{ id: string; displayName: string; photoConsent: number | boolean; teamId: string | null; joinedAt: string }>(
+      'SELECT id, displayName, photoConsent, teamId, joinedAt FROM participants WHERE sessionId = ? ORDER BY joinedAt ASC',
+      { replacements: [sessionId], type: QueryTypes.SELECT },
+    );
     const online = this.runtime(sessionId).online;
     return rows.map((p) => ({
       id: p.id,
       displayName: p.displayName,
-      photoConsent: p.photoConsent,
+      photoConsent: Boolean(p.photoConsent),
       teamId: p.teamId,
       online: online.has(p.id),
-      joinedAt: p.joinedAt.getTime(),
+      joinedAt: new Date(p.joinedAt).getTime(),
     }));
   }
 

@@ -2,6 +2,7 @@ import crypto from 'node:crypto';
 import { QueryTypes, UniqueConstraintError, type Transaction } from 'sequelize';
 import type { AppContext } from '../../context';
 import type { LiveSessionRow, VoteRow } from '../../db/models';
+import type { RawStatements } from '../../db';
 import { AppError, errors } from '../../common/errors';
 import { liveRooms, type LiveIo, type LiveService } from '../live/live.service';
 import {
@@ -255,12 +256,12 @@ export class VotingService {
         if (!vote) return { refused: errors.conflict('Voting has not opened yet') };
         key = `${vote.id}:${participantId}`;
         // A retry of something already applied is answered before the checks, which may have changed since.
-        const receipt = await db.sequelize.query('SELECT voteId FROM vote_receipts WHERE participantId = ? AND clientId = ?', {
-          replacements: [participantId, payload.clientId],
-          type: QueryTypes.SELECT,
-          transaction,
-        });
-        const mine = this.ballots.get(key) ?? (await this.loadBallot(vote.id, participantId, transaction));
+        const sql = db.raw(transaction);
+        const receipt = await sql.all<{ voteId: string }>('SELECT voteId FROM vote_receipts WHERE participantId = ? AND clientId = ?', [
+          participantId,
+          payload.clientId,
+        ]);
+        const mine = this.ballots.get(key) ?? (await this.loadBallot(vote.id, participantId, sql));
         this.ballots.set(key, mine);
         const answer = (dots: Dot[]): BallotAnswer => ({
           duplicate: false,
@@ -277,25 +278,38 @@ export class VotingService {
         const row = mine.find((d) => d.optionId === payload.optionId && d.criterionId === payload.criterionId);
         const count = (row?.count ?? 0) + payload.delta;
         if (!row) {
-          await db.sequelize.query('INSERT INTO vote_dots (id, voteId, participantId, optionId, criterionId, count) VALUES (?, ?, ?, ?, ?, ?)', {
-            replacements: [crypto.randomUUID(), vote.id, participantId, payload.optionId, payload.criterionId, count],
-            transaction,
-          });
+          await sql.run('INSERT INTO vote_dots (id, voteId, participantId, optionId, criterionId, count) VALUES (?, ?, ?, ?, ?, ?)', [
+            crypto.randomUUID(),
+            vote.id,
+            participantId,
+            payload.optionId,
+            payload.criterionId,
+            count,
+          ]);
         } else if (count === 0) {
-          await db.sequelize.query('DELETE FROM vote_dots WHERE voteId = ? AND participantId = ? AND optionId = ? AND criterionId = ?', {
-            replacements: [vote.id, participantId, payload.optionId, payload.criterionId],
-            transaction,
-          });
+          await sql.run('DELETE FROM vote_dots WHERE voteId = ? AND participantId = ? AND optionId = ? AND criterionId = ?', [
+            vote.id,
+            participantId,
+            payload.optionId,
+            payload.criterionId,
+          ]);
         } else {
-          await db.sequelize.query('UPDATE vote_dots SET count = ? WHERE voteId = ? AND participantId = ? AND optionId = ? AND criterionId = ?', {
-            replacements: [count, vote.id, participantId, payload.optionId, payload.criterionId],
-            transaction,
-          });
+          await sql.run('UPDATE vote_dots SET count = ? WHERE voteId = ? AND participantId = ? AND optionId = ? AND criterionId = ?', [
+            count,
+            vote.id,
+            participantId,
+            payload.optionId,
+            payload.criterionId,
+          ]);
         }
-        await db.sequelize.query('INSERT INTO vote_receipts (id, participantId, clientId, voteId, createdAt) VALUES (?, ?, ?, ?, ?)', {
-          replacements: [crypto.randomUUID(), participantId, payload.clientId, vote.id, new Date().toISOString()],
-          transaction,
-        });
+        // Dates as Sequelize writes them for SQLite, so the model reads them back alike.
+        await sql.run('INSERT INTO vote_receipts (id, participantId, clientId, voteId, createdAt) VALUES (?, ?, ?, ?, ?)', [
+          crypto.randomUUID(),
+          participantId,
+          payload.clientId,
+          vote.id,
+          new Date().toISOString().replace('T', ' ').replace('Z', ' +00:00'),
+        ]);
         const next = [
           ...mine.filter((d) => d !== row),
           ...(count === 0 ? [] : [{ voterId: participantId, optionId: payload.optionId, criterionId: payload.criterionId, count }]),
@@ -337,10 +351,10 @@ export class VotingService {
   }
 
   /** A voter's stored dots on a vote. */
-  private async loadBallot(voteId: string, participantId: string, transaction: Transaction): Promise<Dot[]> {
-    const rows = await this.ctx.db.sequelize.query<{ optionId: string; criterionId: string; count: number }>(
+  private async loadBallot(voteId: string, participantId: string, sql: RawStatements): Promise<Dot[]> {
+    const rows = await sql.all<{ optionId: string; criterionId: string; count: number }>(
       'SELECT optionId, criterionId, count FROM vote_dots WHERE voteId = ? AND participantId = ?',
-      { replacements: [voteId, participantId], type: QueryTypes.SELECT, transaction },
+      [voteId, participantId],
     );
     return rows.map((r) => ({ voterId: participantId, optionId: r.optionId, criterionId: r.criterionId, count: Number(r.count) }));
   }
