@@ -127,7 +127,25 @@ export function registerLiveSocket(socket: LiveSocket, ctx: AppContext, live: Li
   };
 
   /** Registers a command: authorise, then run (which parses), then answer through the ack. */
+  // Commands this socket's kind may never run, answered by one listener instead of one each.
+  const refused = new Set<string>();
+  socket.onAny((event: string, ...args: unknown[]) => {
+    if (!refused.has(event)) return;
+    const ack = args[args.length - 1];
+    if (typeof ack === 'function') {
+      (ack as (a: unknown) => void)({
+        error: { code: 'forbidden', message: data.kind === 'participant' ? 'Only the facilitators can do that' : 'Only participants can do that' },
+      });
+    }
+  });
   const on: LiveOn = <E extends Command>(event: E, need: Need | null, run: (payload: unknown, who: Allowed) => Promise<AckData<E>>) => {
+    // A phone or a projector can never run a facilitator's command, nor a projector a phone's: such
+    // sockets do not carry those handlers at all (a room of phones is most of the server's memory);
+    // the catch-all below answers `forbidden` for them.
+    if ((need === 'runner' && data.kind !== 'user') || (need === 'participant' && data.kind !== 'participant')) {
+      refused.add(event);
+      return;
+    }
     // The typed `on` cannot take a generic event name; the handler's own types come from AckData.
     (socket as unknown as { on(ev: string, fn: (...args: unknown[]) => void): void }).on(event, (...args: unknown[]) => {
       let [payload, ack] = args;
