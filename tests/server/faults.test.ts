@@ -132,4 +132,48 @@ describe('a hard kill of the server in the middle of the room', () => {
       for (const s of sent) expect(texts.has(s.input.text)).toBe(true);
     }
   }, 90_000);
+
+  it('keeps every acknowledged dot of a vote burst through a hard kill, and a resend adds none twice', async () => {
+    // The dot vote of the demo agenda ("Pick the challenges"), four options, five dots each.
+    const demo = (await api<WorkshopSummary[]>('GET', '/workshops', undefined, token)).find((w) => w.title === DEMO_WORKSHOP_TITLE)!;
+    const agenda = (await api<{ agenda: { type: string }[] }>('GET', `/workshops/${demo.id}`, undefined, token)).agenda;
+    await command(facilitator, 'session:goto', { index: agenda.findIndex((i) => i.type === 'dot_vote') });
+    const setup = (await command(facilitator, 'vote:setup', {
+      options: [{ text: 'Unlock with one tap' }, { text: 'Saddle guide at the dock' }, { text: 'Free dock finder' }, { text: 'A ride buddy' }],
+      rules: { dotsPerVoter: NOTES_EACH, capPerOption: NOTES_EACH, allowStacking: true, criteria: [] },
+    })) as { data: { options: { id: string }[] } };
+    await command(facilitator, 'vote:open', {});
+    const optionIds = setup.data.options.map((o) => o.id);
+
+    const sent = phones.flatMap((p, i) =>
+      Array.from({ length: NOTES_EACH }, (_, k) => ({
+        phone: p,
+        input: { clientId: `dot-${i}-${k}-${crypto.randomUUID()}`.slice(0, 64), optionId: optionIds[(i + k) % 4], criterionId: 'overall', delta: 1 },
+      })),
+    );
+    const acknowledged = new Set<string>();
+    let killed: Promise<void> | null = null;
+    await Promise.all(
+      sent.map(async ({ phone, input }) => {
+        const answer = await command(phone.socket, 'vote:dot', input).catch(() => null);
+        if (answer && 'data' in answer) acknowledged.add(input.clientId);
+        if (acknowledged.size >= sent.length / 2 && !killed) killed = server.kill();
+      }),
+    );
+    if (!killed) killed = server.kill();
+    await killed;
+    expect(acknowledged.size).toBeGreaterThan(0);
+
+    server = await startCairnProcess(dataDir, port);
+    await Promise.all([...phones.map((p) => connected(p.socket)), connected(facilitator)]);
+    await command(facilitator, 'session:watch', { sessionId: info.sessionId });
+    // Every phone resends all its dots with the same ids: what was stored before the kill answers as a duplicate.
+    const retries = await Promise.all(sent.map(({ phone, input }) => command(phone.socket, 'vote:dot', input)));
+    for (const [i, answer] of retries.entries()) {
+      expect('data' in answer).toBe(true);
+      if ('data' in answer && acknowledged.has(sent[i]!.input.clientId)) expect(answer.data.duplicate).toBe(true);
+    }
+    const results = (await command(facilitator, 'vote:results', {})) as { data: { overall: { dots: number }[] } };
+    expect(results.data.overall.reduce((sum, r) => sum + r.dots, 0)).toBe(sent.length);
+  }, 90_000);
 });
