@@ -77,6 +77,8 @@ export async function openDatabase(storage: string): Promise<Database> {
   const getConnection = cm.getConnection.bind(cm);
   const releaseConnection = cm.releaseConnection.bind(cm);
   let writer: Conn | null = null;
+  // Prepared statements of the writer connection (see `raw`), compiled once each.
+  const statements = new Map<string, sqlite3.Statement>();
   const prepare = (conn: Conn) => {
     if (!conn.__cairn) {
       conn.configure('busyTimeout', 10_000);
@@ -97,6 +99,17 @@ export async function openDatabase(storage: string): Promise<Database> {
   cm.releaseConnection = (c: Conn, force?: boolean) => {
     if (c === writer) return;
     releaseConnection(c, force);
+  };
+  // After a failed commit Sequelize closes the connection: start a fresh writer next time.
+  const cmd = cm as unknown as { destroyConnection: (c: Conn) => Promise<void> };
+  const destroyConnection = cmd.destroyConnection.bind(cm);
+  cmd.destroyConnection = async (c: Conn) => {
+    if (c === writer) {
+      writer = null;
+      for (const st of statements.values()) st.finalize();
+      statements.clear();
+    }
+    await destroyConnection(c);
   };
   await sequelize.query('PRAGMA journal_mode=WAL');
   await sequelize.query('PRAGMA synchronous=NORMAL');
@@ -163,7 +176,6 @@ export async function openDatabase(storage: string): Promise<Database> {
       pending.push({ solo: false, fn, resolve: resolve as (v: unknown) => void, reject, onRollback });
       void drain();
     });
-  const statements = new Map<string, sqlite3.Statement>();
   const raw = (t: Transaction): RawStatements => {
     const conn = (t as unknown as { connection: Conn }).connection;
     if (conn !== writer) throw new Error('raw statements run on the writer connection only');
