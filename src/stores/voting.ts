@@ -1,6 +1,6 @@
 import { defineStore } from 'pinia';
 import { computed, ref, shallowRef, watch } from 'vue';
-import type { Ack, ClientToServerEvents } from '../../shared/events';
+import type { ClientToServerEvents } from '../../shared/events';
 import type { Team } from '../../shared/schemas/team';
 import type {
   BallotAnswer,
@@ -16,7 +16,6 @@ import type { CairnSocket } from '../socket/client';
 import { newId } from '../socket/ids';
 import { CommandError, useLiveStore } from './live';
 
-const ACK_TIMEOUT_MS = 6000;
 /** A phone resends a vote after a lost answer this many times (same clientId, so it lands once). */
 const RETRIES = 4;
 
@@ -43,21 +42,10 @@ export const useVotingStore = defineStore('voting', () => {
 
   const mine = computed<MyBallot | null>(() => vote.value?.mine ?? null);
 
+  /** A command on the shared socket (the live store's), refused at once while it is reconnecting. */
   async function ask<T>(event: keyof ClientToServerEvents, payload: unknown = {}): Promise<T> {
-    const s = socket.value;
-    if (!s || !s.connected) throw new CommandError('network', 'Not connected; Cairn is reconnecting');
-    let answer: Ack<T>;
-    try {
-      // The typed emit needs the event's own payload type; every caller passes the right one.
-      answer = (await (s.timeout(ACK_TIMEOUT_MS) as unknown as { emitWithAck: (e: string, p: unknown) => Promise<Ack<T>> }).emitWithAck(
-        event,
-        payload,
-      )) as Ack<T>;
-    } catch {
-      throw new CommandError('timeout', 'The server did not answer in time');
-    }
-    if ('error' in answer) throw new CommandError(answer.error.code, answer.error.message);
-    return answer.data;
+    if (!socket.value?.connected) throw new CommandError('network', 'Not connected; Cairn is reconnecting');
+    return useLiveStore().ask<T>(event, payload);
   }
 
   function takeVote(next: VoteView): void {

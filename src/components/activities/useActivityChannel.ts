@@ -10,15 +10,8 @@ export type ActivityScreen = 'phone' | 'console' | 'projector';
 /** What an activity command's acknowledgement carries on success. */
 type AckData<E extends keyof ClientToServerEvents> = Parameters<ClientToServerEvents[E]>[1] extends (a: Ack<infer T>) => void ? T : never;
 
-/** An error an activity command answered with. */
-export class ActivityError extends Error {
-  constructor(
-    public code: string,
-    message: string,
-  ) {
-    super(message);
-  }
-}
+/** An error an activity command answered with (the live store's command error). */
+export { CommandError as ActivityError } from '../../stores/live';
 
 /** The activity views' own connection to the live session: commands, broadcasts and photos. */
 export interface ActivityChannel {
@@ -35,7 +28,6 @@ export interface ActivityChannel {
 }
 
 const KEY: InjectionKey<ActivityChannel> = Symbol('activity-channel');
-const ACK_TIMEOUT_MS = 6000;
 
 /** How the channel finds its token and session. */
 export interface ChannelOptions {
@@ -82,16 +74,8 @@ export function provideActivityChannel(options: ChannelOptions): ActivityChannel
   const channel: ActivityChannel = {
     screen: options.screen,
     connected,
-    async request(event, payload) {
-      let answer: Ack<unknown>;
-      try {
-        // The typed emit cannot take a generic event name; the answer's type comes from AckData.
-        answer = (await (s.timeout(ACK_TIMEOUT_MS) as unknown as { emitWithAck(e: string, p: unknown): Promise<Ack<unknown>> }).emitWithAck(event, payload)) as Ack<unknown>;
-      } catch {
-        throw new ActivityError('timeout', 'The server did not answer in time; try again');
-      }
-      if ('error' in answer) throw new ActivityError(answer.error.code, answer.error.message);
-      return answer.data as never;
+    request(event, payload) {
+      return live.ask(event, payload) as Promise<never>;
     },
     on(event, listener) {
       untyped.on(event, listener);
