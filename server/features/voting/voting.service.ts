@@ -241,7 +241,6 @@ export class VotingService {
    * same person spending the last dot at once cannot overspend.
    */
   async dot(participantId: string, sessionId: string, payload: DotPayload): Promise<BallotAnswer> {
-    const item = await this.currentVoteItem(sessionId);
     if ((await this.participantSession(participantId)) !== sessionId) throw errors.forbidden('You are not in this session any more; join again');
     const db = this.ctx.db;
     let key = '';
@@ -251,7 +250,9 @@ export class VotingService {
         const state = await this.live.state(sessionId);
         if (state.status === 'ended') return { refused: new AppError(409, 'session_ended', 'This live session has ended') };
         if (state.locked) return { refused: new AppError(409, 'input_locked', 'The facilitator has locked input for now') };
-        if (state.item?.id !== item.id) return { refused: errors.conflict('That activity is not the current one any more; nothing was changed') };
+        // One read of the live state a vote: the current item is the vote's item.
+        const item = state.item;
+        if (!item || !VoteKind.safeParse(item.type).success) return { refused: errors.conflict('The current activity is not a vote') };
         const vote = this.voteOfItem.get(`${sessionId}:${item.id}`) ?? (await this.cachedVote(sessionId, item.id, transaction));
         if (!vote) return { refused: errors.conflict('Voting has not opened yet') };
         key = `${vote.id}:${participantId}`;
