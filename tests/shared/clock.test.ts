@@ -9,18 +9,8 @@ import {
   type ClockSample,
   type Timer,
 } from '../../shared/clock';
-
-/** A small deterministic pseudo-random source (mulberry32), so the simulations repeat exactly. */
-function random(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+// A seeded source, so the simulations repeat exactly.
+import { mulberry32 as random } from './random';
 
 /**
  * One simulated round trip: the server's clock reads true time, the client's clock reads

@@ -1,18 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { Borda as VotesBorda, Schulze as VotesSchulze, utils as votesUtils, type Ballot as VotesBallot } from 'votes';
 import { type Ballot, borda, pairwiseMatrix, schulze } from '../../shared/preference';
-
-/** mulberry32, a tiny seeded pseudo-random generator (Tommy Ettinger), so every run draws the same ballots. */
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { mulberry32 } from './random';
 
 // Wikipedia, "Condorcet method" / "Borda count": the Tennessee capital example, weights as voters.
 const tennessee = ['Memphis', 'Nashville', 'Chattanooga', 'Knoxville'];
