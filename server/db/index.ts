@@ -42,6 +42,12 @@ export interface Database {
    * writes: no query building, no model instances, the statement compiled once.
    */
   raw(t: Transaction): RawStatements;
+  /**
+   * Runs `fn` in transaction `t` after everything else in it and before its commit: a group commit
+   * collects its writes in memory and stores them here as a few multi-row statements. If `fn` throws,
+   * the transaction (the whole batch) rolls back.
+   */
+  beforeCommit(t: Transaction, fn: () => Promise<void>): void;
   close(): Promise<void>;
 }
 
@@ -49,6 +55,8 @@ export interface Database {
 export interface RawStatements {
   all<R>(sql: string, params: unknown[]): Promise<R[]>;
   run(sql: string, params: unknown[]): Promise<void>;
+  /** Runs a statement whose text varies (a multi-row insert of some number of rows) without keeping it prepared. */
+  once(sql: string, params: unknown[]): Promise<void>;
 }
 
 /** The most writes one group commit carries. */
@@ -132,6 +140,12 @@ export async function openDatabase(storage: string): Promise<Database> {
     | { solo: true; run: () => Promise<void> }
     | { solo: false; fn: (t: Transaction) => Promise<unknown>; resolve: (v: unknown) => void; reject: (e: unknown) => void; onRollback?: () => void };
   const pending: Entry[] = [];
+  const commitHooks = new WeakMap<Transaction, (() => Promise<void>)[]>();
+  const runHooks = async (t: Transaction) => {
+    const hooks = commitHooks.get(t);
+    // A hook may add another (the last write of one feature can start another's).
+    while (hooks && hooks.length > 0) await hooks.shift()!();
+  };
   let draining = false;
   const drain = async () => {
     if (draining) return;
@@ -150,6 +164,7 @@ export async function openDatabase(storage: string): Promise<Database> {
         try {
           await sequelize.transaction({ type: Transaction.TYPES.IMMEDIATE }, async (t) => {
             for (const item of batch) results.push(await item.fn(t));
+            await runHooks(t);
           });
           batch.forEach((item, i) => item.resolve(results[i]));
         } catch (err) {
@@ -167,7 +182,14 @@ export async function openDatabase(storage: string): Promise<Database> {
     new Promise<T>((resolve, reject) => {
       pending.push({
         solo: true,
-        run: () => sequelize.transaction({ type: Transaction.TYPES.IMMEDIATE }, fn).then(resolve, reject),
+        run: () =>
+          sequelize
+            .transaction({ type: Transaction.TYPES.IMMEDIATE }, async (t) => {
+              const result = await fn(t);
+              await runHooks(t);
+              return result;
+            })
+            .then(resolve, reject),
       });
       void drain();
     });
@@ -192,7 +214,14 @@ export async function openDatabase(storage: string): Promise<Database> {
         new Promise<R[]>((resolve, reject) => statement(sql).all(params, (err: Error | null, rows: R[]) => (err ? reject(err) : resolve(rows)))),
       run: (sql: string, params: unknown[]) =>
         new Promise<void>((resolve, reject) => statement(sql).run(params, (err: Error | null) => (err ? reject(err) : resolve()))),
+      once: (sql: string, params: unknown[]) =>
+        new Promise<void>((resolve, reject) => conn.run(sql, params, (err: Error | null) => (err ? reject(err) : resolve()))),
     };
+  };
+  const beforeCommit = (t: Transaction, fn: () => Promise<void>) => {
+    const hooks = commitHooks.get(t);
+    if (hooks) hooks.push(fn);
+    else commitHooks.set(t, [fn]);
   };
   return {
     sequelize,
@@ -201,6 +230,7 @@ export async function openDatabase(storage: string): Promise<Database> {
     writeTx,
     batchTx,
     raw,
+    beforeCommit,
     close: async () => {
       for (const st of statements.values()) await new Promise<void>((resolve) => st.finalize(() => resolve()));
       statements.clear();

@@ -289,6 +289,29 @@ describe('a dot vote with two criteria', () => {
     expect(last.perCriterion.effort!.find((r) => r.optionId === opt.helmet)!.dots).toBe(0);
   });
 
+  it('stores exactly what a burst acknowledged: dots sent at once from four phones of one person, then all taken back at once', async () => {
+    const sockets = [phones[4]!, ...(await Promise.all([1, 2, 3].map(() => t.connect(tokens[4]!))))];
+    const storedDots = async () =>
+      (await t.cairn.ctx.db.models.VoteDot.findAll({ where: { participantId: ids[4]! } }))
+        .map((d) => ({ optionId: d.optionId, criterionId: d.criterionId, count: d.count }))
+        .sort((a, b) => `${a.optionId}${a.criterionId}`.localeCompare(`${b.optionId}${b.criterionId}`));
+    // Eight dots at once against a budget of 3 per criterion and a cap of 2 per option: six fit.
+    const wanted = (['impact', 'effort'] as const).flatMap((criterionId) => [opt.dock, opt.dock, opt.unlock, opt.route].map((optionId) => ({ optionId, criterionId })));
+    const spent = await Promise.all(wanted.map((w, i) => dot(sockets[i % 4]!, w.optionId, w.criterionId)));
+    const accepted = spent.filter((a) => errorCode(a) === null);
+    expect(accepted).toHaveLength(6);
+    expect(spent.filter((a) => errorCode(a) === 'budget_exceeded')).toHaveLength(2);
+    const mine = await commandData(phones[4]!, 'vote:state');
+    const held = mine.mine!.dots.map((d) => ({ ...d })).sort((a, b) => `${a.optionId}${a.criterionId}`.localeCompare(`${b.optionId}${b.criterionId}`));
+    expect(held.reduce((s, d) => s + d.count, 0)).toBe(6);
+    expect(await storedDots()).toEqual(held);
+    // Every dot taken back at once: each take-back finds its dot, and no row is left.
+    const back = await Promise.all(held.flatMap((d) => Array.from({ length: d.count }, (_, k) => dot(sockets[k % 4]!, d.optionId, d.criterionId, -1))));
+    expect(back.map(errorCode).every((c) => c === null)).toBe(true);
+    expect(await storedDots()).toEqual([]);
+    for (const s of sockets.slice(1)) s.disconnect();
+  });
+
   it('refuses votes while input is locked', async () => {
     await commandData(facilitator, 'session:lock', { locked: true });
     expect(errorCode(await dot(phones[4]!, opt.dock, 'impact'))).toBe('input_locked');

@@ -107,6 +107,60 @@ export function rulesFor(item: LiveItem, optionCount: number, given: Partial<Vot
   });
 }
 
+/** What the dot path keeps of a vote between commits: each voter's committed dots, and which client ids of the session were applied. */
+interface DotLedger {
+  ballots: Map<string, Dot[]>;
+  receipts: Set<string>;
+}
+
+/** A group commit's dot writes: the final count of every dot it changed, and the receipts it adds. */
+interface DotWrites {
+  dots: Map<string, { voteId: string; participantId: string; optionId: string; criterionId: string; count: number }>;
+  receipts: [id: string, participantId: string, clientId: string, voteId: string, createdAt: string][];
+}
+
+/** Rows a multi-row statement carries: 6 values each stays under SQLite's oldest limit of 999 parameters. */
+const ROWS_PER_STATEMENT = 150;
+
+function receiptKey(participantId: string, clientId: string): string {
+  return `${participantId}\n${clientId}`;
+}
+
+function chunks<T>(list: T[], size: number): T[][] {
+  const out: T[][] = [];
+  for (let i = 0; i < list.length; i += size) out.push(list.slice(i, i + size));
+  return out;
+}
+
+/** Stores a group commit's dots: counts by upsert on the unique (vote, voter, option, criterion) index, zeros deleted, receipts appended. */
+async function storeDots(sql: RawStatements, writes: DotWrites): Promise<void> {
+  const rows = [...writes.dots.values()];
+  for (const part of chunks(
+    rows.filter((r) => r.count > 0),
+    ROWS_PER_STATEMENT,
+  )) {
+    await sql.once(
+      `INSERT INTO vote_dots (id, voteId, participantId, optionId, criterionId, count) VALUES ${part.map(() => '(?, ?, ?, ?, ?, ?)').join(', ')}
+       ON CONFLICT (voteId, participantId, optionId, criterionId) DO UPDATE SET count = excluded.count`,
+      part.flatMap((r) => [crypto.randomUUID(), r.voteId, r.participantId, r.optionId, r.criterionId, r.count]),
+    );
+  }
+  for (const r of rows.filter((row) => row.count === 0)) {
+    await sql.run('DELETE FROM vote_dots WHERE voteId = ? AND participantId = ? AND optionId = ? AND criterionId = ?', [
+      r.voteId,
+      r.participantId,
+      r.optionId,
+      r.criterionId,
+    ]);
+  }
+  for (const part of chunks(writes.receipts, ROWS_PER_STATEMENT)) {
+    await sql.once(
+      `INSERT INTO vote_receipts (id, participantId, clientId, voteId, createdAt) VALUES ${part.map(() => '(?, ?, ?, ?, ?)').join(', ')}`,
+      part.flat(),
+    );
+  }
+}
+
 /** A vote row as the screens see it. */
 function toView(row: VoteRow, mine: MyBallot | null): VoteView {
   return {
@@ -133,10 +187,13 @@ export class VotingService {
   private closed = false;
   // The dot path is the hottest in a room (every phone, several times, within seconds), so it keeps
   // what does not change under it in memory: which session a participant is in, the open vote of
-  // the current item (dropped on every change of a vote), and each voter's committed dots.
+  // the current item (dropped on every change of a vote), and each vote's ledger.
   private sessionOfParticipant = new Map<string, string>();
+  private participantsRead = new Map<string, Promise<void>>();
   private voteOfItem = new Map<string, VoteRow>();
-  private ballots = new Map<string, Dot[]>();
+  private ledgers = new Map<string, DotLedger>();
+  private receiptsOfSession = new Map<string, Set<string>>();
+  private dotWrites = new WeakMap<Transaction, DotWrites>();
 
   constructor(
     private ctx: AppContext,
@@ -239,11 +296,15 @@ export class VotingService {
    * Adds or takes back one dot of a participant, exactly once per `clientId`. Budget, cap and stacking
    * are checked with checkBallot inside the write transaction that stores the dot, so two phones of the
    * same person spending the last dot at once cannot overspend.
+   *
+   * Dots come by the thousand within seconds, so a dot is checked against the vote's ledger in memory
+   * (every voter's committed dots and the session's receipts, read once) and its writes wait in memory
+   * for the end of its group commit, where the whole batch is stored as a few multi-row statements
+   * (`storeDots`). The acknowledgement still comes only after that commit.
    */
   async dot(participantId: string, sessionId: string, payload: DotPayload): Promise<BallotAnswer> {
-    if ((await this.participantSession(participantId)) !== sessionId) throw errors.forbidden('You are not in this session any more; join again');
+    if (!(await this.inSession(participantId, sessionId))) throw errors.forbidden('You are not in this session any more; join again');
     const db = this.ctx.db;
-    let key = '';
     const outcome = await db.batchTx(
       async (transaction): Promise<{ refused: AppError } | { answer: BallotAnswer; applied: boolean }> => {
         // Read at the moment the write runs: a close, a lock or a move that came first has landed.
@@ -255,84 +316,73 @@ export class VotingService {
         if (!item || !VoteKind.safeParse(item.type).success) return { refused: errors.conflict('The current activity is not a vote') };
         const vote = this.voteOfItem.get(`${sessionId}:${item.id}`) ?? (await this.cachedVote(sessionId, item.id, transaction));
         if (!vote) return { refused: errors.conflict('Voting has not opened yet') };
-        key = `${vote.id}:${participantId}`;
-        // A retry of something already applied is answered before the checks, which may have changed since.
-        const sql = db.raw(transaction);
-        const receipt = await sql.all<{ voteId: string }>('SELECT voteId FROM vote_receipts WHERE participantId = ? AND clientId = ?', [
-          participantId,
-          payload.clientId,
-        ]);
-        const mine = this.ballots.get(key) ?? (await this.loadBallot(vote.id, participantId, sql));
-        this.ballots.set(key, mine);
+        const ledger = this.ledgers.get(vote.id) ?? (await this.loadLedger(vote.id, sessionId, transaction));
+        const mine = ledger.ballots.get(participantId) ?? [];
         const answer = (dots: Dot[]): BallotAnswer => ({
           duplicate: false,
           mine: { itemId: vote.itemId, dots: dots.map((d) => ({ optionId: d.optionId, criterionId: d.criterionId, count: d.count })), ranking: null },
         });
-        if (receipt.length > 0) return { answer: { ...answer(mine), duplicate: true }, applied: false };
+        // A retry of something already applied is answered before the checks, which may have changed since.
+        const receipt = receiptKey(participantId, payload.clientId);
+        if (ledger.receipts.has(receipt)) return { answer: { ...answer(mine), duplicate: true }, applied: false };
         if (vote.status === 'draft') return { refused: errors.conflict('Voting has not opened yet') };
         if (vote.kind !== 'dot_vote') return { refused: errors.badRequest('This vote does not take that kind of ballot') };
         if (vote.status === 'closed') return { refused: errors.conflict('Voting has closed; your votes stay as they were') };
         if (!vote.options.some((o) => o.id === payload.optionId)) return { refused: errors.badRequest('This vote has no such option') };
         const check = checkBallot(vote.rules, mine, { optionId: payload.optionId, criterionId: payload.criterionId, delta: payload.delta });
         if (!check.ok) return { refused: new AppError(BALLOT_ERROR[check.code] === 'bad_request' ? 400 : 409, BALLOT_ERROR[check.code], check.message) };
-        // Checked; now the writes, which only fail with the database itself (then the batch rolls back).
+        // Checked: the ledger moves now, so the next dot of this batch sees it, and the writes wait for the commit.
         const row = mine.find((d) => d.optionId === payload.optionId && d.criterionId === payload.criterionId);
         const count = (row?.count ?? 0) + payload.delta;
-        if (!row) {
-          await sql.run('INSERT INTO vote_dots (id, voteId, participantId, optionId, criterionId, count) VALUES (?, ?, ?, ?, ?, ?)', [
-            crypto.randomUUID(),
-            vote.id,
-            participantId,
-            payload.optionId,
-            payload.criterionId,
-            count,
-          ]);
-        } else if (count === 0) {
-          await sql.run('DELETE FROM vote_dots WHERE voteId = ? AND participantId = ? AND optionId = ? AND criterionId = ?', [
-            vote.id,
-            participantId,
-            payload.optionId,
-            payload.criterionId,
-          ]);
-        } else {
-          await sql.run('UPDATE vote_dots SET count = ? WHERE voteId = ? AND participantId = ? AND optionId = ? AND criterionId = ?', [
-            count,
-            vote.id,
-            participantId,
-            payload.optionId,
-            payload.criterionId,
-          ]);
-        }
-        // Dates as Sequelize writes them for SQLite, so the model reads them back alike.
-        await sql.run('INSERT INTO vote_receipts (id, participantId, clientId, voteId, createdAt) VALUES (?, ?, ?, ?, ?)', [
-          crypto.randomUUID(),
-          participantId,
-          payload.clientId,
-          vote.id,
-          new Date().toISOString().replace('T', ' ').replace('Z', ' +00:00'),
-        ]);
         const next = [
           ...mine.filter((d) => d !== row),
           ...(count === 0 ? [] : [{ voterId: participantId, optionId: payload.optionId, criterionId: payload.criterionId, count }]),
         ];
-        // Kept before the commit so the next write in this batch sees it; forgotten if the batch rolls back.
-        this.ballots.set(key, next);
+        ledger.ballots.set(participantId, next);
+        ledger.receipts.add(receipt);
+        const writes = this.dotWritesOf(transaction);
+        writes.dots.set([vote.id, participantId, payload.optionId, payload.criterionId].join('\n'), {
+          voteId: vote.id,
+          participantId,
+          optionId: payload.optionId,
+          criterionId: payload.criterionId,
+          count,
+        });
+        // Dates as Sequelize writes them for SQLite, so the model reads them back alike.
+        writes.receipts.push([crypto.randomUUID(), participantId, payload.clientId, vote.id, new Date().toISOString().replace('T', ' ').replace('Z', ' +00:00')]);
         return { answer: answer(next), applied: true };
       },
-      () => this.ballots.delete(key),
+      // The batch rolled back: what the ledgers learnt from it is not stored, so they are read again.
+      () => this.forgetVotes(),
     );
     if ('refused' in outcome) throw outcome.refused;
     if (outcome.applied) this.afterBallot(sessionId, participantId, outcome.answer.mine);
     return outcome.answer;
   }
 
-  /** Which session a participant joined (it never changes). */
-  private async participantSession(participantId: string): Promise<string | null> {
+  /**
+   * Whether a participant is in a session (it never changes once joined). The first miss of a session
+   * reads all its participants at once: in a burst, every phone's first dot would otherwise read its own.
+   */
+  private async inSession(participantId: string, sessionId: string): Promise<boolean> {
     const known = this.sessionOfParticipant.get(participantId);
-    if (known) return known;
+    if (known) return known === sessionId;
+    if (!this.participantsRead.has(sessionId)) {
+      const reading =
+        this.participantsRead.get(sessionId) ??
+        this.ctx.db.sequelize
+          .query<{ id: string }>('SELECT id FROM participants WHERE sessionId = ?', { replacements: [sessionId], type: QueryTypes.SELECT })
+          .then((rows) => {
+            for (const r of rows) this.sessionOfParticipant.set(r.id, sessionId);
+          });
+      this.participantsRead.set(sessionId, reading);
+      await reading;
+      if (this.sessionOfParticipant.has(participantId)) return this.sessionOfParticipant.get(participantId) === sessionId;
+    } else await this.participantsRead.get(sessionId);
+    // Joined after the session's participants were read, or in another session.
     const p = await this.ctx.db.models.Participant.findByPk(participantId, { attributes: ['id', 'sessionId'] });
     if (p) this.sessionOfParticipant.set(participantId, p.sessionId);
-    return p?.sessionId ?? null;
+    return p?.sessionId === sessionId;
   }
 
   /** The vote of an item, from memory while no command has changed any vote since it was read. */
@@ -345,19 +395,50 @@ export class VotingService {
     return vote;
   }
 
-  /** Forgets the votes and ballots kept in memory: called inside every transaction that changes a vote. */
+  /** Forgets the votes and ledgers kept in memory: called inside every transaction that changes a vote, and after a rolled-back batch. */
   private forgetVotes(): void {
     this.voteOfItem.clear();
-    this.ballots.clear();
+    this.ledgers.clear();
+    this.receiptsOfSession.clear();
   }
 
-  /** A voter's stored dots on a vote. */
-  private async loadBallot(voteId: string, participantId: string, sql: RawStatements): Promise<Dot[]> {
-    const rows = await sql.all<{ optionId: string; criterionId: string; count: number }>(
-      'SELECT optionId, criterionId, count FROM vote_dots WHERE voteId = ? AND participantId = ?',
-      [voteId, participantId],
+  /** Reads a vote's ledger inside the writer's transaction: every voter's dots on it and the receipts of its session. */
+  private async loadLedger(voteId: string, sessionId: string, transaction: Transaction): Promise<DotLedger> {
+    const sql = this.ctx.db.raw(transaction);
+    const dots = await sql.all<{ participantId: string; optionId: string; criterionId: string; count: number }>(
+      'SELECT participantId, optionId, criterionId, count FROM vote_dots WHERE voteId = ?',
+      [voteId],
     );
-    return rows.map((r) => ({ voterId: participantId, optionId: r.optionId, criterionId: r.criterionId, count: Number(r.count) }));
+    let receipts = this.receiptsOfSession.get(sessionId);
+    if (!receipts) {
+      const rows = await sql.all<{ participantId: string; clientId: string }>(
+        'SELECT r.participantId, r.clientId FROM vote_receipts r JOIN votes v ON v.id = r.voteId WHERE v.sessionId = ?',
+        [sessionId],
+      );
+      receipts = new Set(rows.map((r) => receiptKey(r.participantId, r.clientId)));
+      this.receiptsOfSession.set(sessionId, receipts);
+    }
+    const ballots = new Map<string, Dot[]>();
+    for (const d of dots) {
+      const list = ballots.get(d.participantId) ?? [];
+      list.push({ voterId: d.participantId, optionId: d.optionId, criterionId: d.criterionId, count: Number(d.count) });
+      ballots.set(d.participantId, list);
+    }
+    const ledger = { ballots, receipts };
+    this.ledgers.set(voteId, ledger);
+    return ledger;
+  }
+
+  /** The dot writes a transaction collects; the first dot of a transaction has them stored just before its commit. */
+  private dotWritesOf(transaction: Transaction): DotWrites {
+    let writes = this.dotWrites.get(transaction);
+    if (!writes) {
+      const fresh: DotWrites = { dots: new Map(), receipts: [] };
+      this.dotWrites.set(transaction, fresh);
+      this.ctx.db.beforeCommit(transaction, () => storeDots(this.ctx.db.raw(transaction), fresh));
+      writes = fresh;
+    }
+    return writes;
   }
 
   /** Stores a participant's order of the options (replacing their earlier one), exactly once per `clientId`. */
@@ -380,7 +461,10 @@ export class VotingService {
         );
       }
     });
-    if (applied) this.afterBallot(sessionId, participantId, answer.mine);
+    if (applied) {
+      this.receiptsOfSession.get(sessionId)?.add(receiptKey(participantId, payload.clientId));
+      this.afterBallot(sessionId, participantId, answer.mine);
+    }
     return answer;
   }
 

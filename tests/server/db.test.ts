@@ -1,0 +1,103 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import fs from 'node:fs/promises';
+import os from 'node:os';
+import path from 'node:path';
+import { QueryTypes } from 'sequelize';
+import { openDatabase, type Database } from '../../server/db';
+
+let dir: string;
+let db: Database;
+
+beforeAll(async () => {
+  dir = await fs.mkdtemp(path.join(os.tmpdir(), 'cairn-db-'));
+  db = await openDatabase(path.join(dir, 'cairn.sqlite'));
+  await db.sequelize.query('CREATE TABLE scratch (n INTEGER NOT NULL UNIQUE)');
+});
+afterAll(async () => {
+  await db.close();
+  await fs.rm(dir, { recursive: true, force: true });
+});
+
+/** Holds the writer queue with a solo transaction until `release` is called, so what is queued meanwhile forms one batch. */
+function holdQueue(): { release: () => void; done: Promise<unknown> } {
+  let release = () => {};
+  const held = new Promise<void>((resolve) => (release = resolve));
+  return { release, done: db.writeTx(() => held) };
+}
+
+async function stored(): Promise<number[]> {
+  const rows = await db.sequelize.query<{ n: number }>('SELECT n FROM scratch ORDER BY n', { type: QueryTypes.SELECT });
+  return rows.map((r) => r.n);
+}
+
+describe('the writer queue', () => {
+  it('stores what a group commit collected in its before-commit step, once for the whole batch', async () => {
+    await db.sequelize.query('DELETE FROM scratch');
+    const hold = holdQueue();
+    const collected = new WeakMap<object, number[]>();
+    let flushes = 0;
+    const pending = Promise.all(
+      [1, 2, 3, 4].map((n) =>
+        db.batchTx(async (t) => {
+          let mine = collected.get(t);
+          if (!mine) {
+            const rows: number[] = [];
+            collected.set(t, (mine = rows));
+            db.beforeCommit(t, async () => {
+              flushes += 1;
+              await db.raw(t).once(`INSERT INTO scratch (n) VALUES ${rows.map(() => '(?)').join(', ')}`, rows);
+            });
+          }
+          mine.push(n);
+          return n * 10;
+        }),
+      ),
+    );
+    hold.release();
+    await hold.done;
+    expect(await pending).toEqual([10, 20, 30, 40]);
+    // The four waited side by side, so they shared one transaction and one multi-row insert.
+    expect(flushes).toBe(1);
+    expect(await stored()).toEqual([1, 2, 3, 4]);
+  });
+
+  it('rolls the whole batch back when its before-commit step fails, and tells every caller', async () => {
+    await db.sequelize.query('DELETE FROM scratch');
+    await db.sequelize.query('INSERT INTO scratch (n) VALUES (7)');
+    const rolledBack: number[] = [];
+    let hooked = false;
+    const hold = holdQueue();
+    const pending = Promise.allSettled(
+      [5, 6, 7].map((n) =>
+        db.batchTx(
+          async (t) => {
+            await db.raw(t).run('INSERT INTO scratch (n) VALUES (?)', [n + 100]);
+            if (!hooked) {
+              hooked = true;
+              // 7 is there already: the unique index refuses the insert at the end of the batch.
+              db.beforeCommit(t, () => db.raw(t).once('INSERT INTO scratch (n) VALUES (?), (?), (?)', [5, 6, 7]));
+            }
+            return n;
+          },
+          () => rolledBack.push(n),
+        ),
+      ),
+    );
+    hold.release();
+    await hold.done;
+    const answers = await pending;
+    expect(answers.map((a) => a.status)).toEqual(['rejected', 'rejected', 'rejected']);
+    expect(rolledBack.sort()).toEqual([5, 6, 7]);
+    expect(await stored()).toEqual([7]);
+  });
+
+  it('runs the before-commit step of a solo write transaction too', async () => {
+    await db.sequelize.query('DELETE FROM scratch');
+    const result = await db.writeTx(async (t) => {
+      db.beforeCommit(t, () => db.raw(t).once('INSERT INTO scratch (n) VALUES (?), (?)', [1, 2]));
+      return 'done';
+    });
+    expect(result).toBe('done');
+    expect(await stored()).toEqual([1, 2]);
+  });
+});
