@@ -93,6 +93,7 @@ export async function createApp(config: Config): Promise<CairnApp> {
     logger,
     auth,
     workshopRoleOf: (user, workshopId) => workshops.roleOf(user, workshopId),
+    accountRoleOf: (userId, workshopId) => workshops.roleOfAccount(userId, workshopId),
   };
 
   const app = express();

@@ -154,6 +154,27 @@ describe('who may run the session', () => {
     socket.disconnect();
   });
 
+  it('stops a co-facilitator at the next command once removed from the workshop, and an account once disabled', async () => {
+    const removed = await createStranger(t, 'live-socket-removed');
+    const disabled = await createStranger(t, 'live-socket-disabled');
+    const sockets: ClientSocket[] = [];
+    for (const account of [removed, disabled]) {
+      await addMember(t, demo.id, account.id, 'cofacilitator');
+      const socket = await t.connect(account.token);
+      await commandData(socket, 'session:watch', { sessionId: info.sessionId });
+      expect((await commandData(socket, 'session:goto', { index: 4 })).currentIndex).toBe(4);
+      sockets.push(socket);
+    }
+    const { Membership, User } = t.cairn.ctx.db.models;
+    await Membership.destroy({ where: { workshopId: demo.id, userId: removed.id } });
+    await User.update({ disabled: true }, { where: { id: disabled.id } });
+    for (const socket of sockets) {
+      const answer = await command(socket, 'session:goto', { index: 3 });
+      expect('error' in answer && answer.error.code).toBe('forbidden');
+      socket.disconnect();
+    }
+  });
+
   it('lets the projector follow with its display token, read-only', async () => {
     const display = new URL(info.displayUrl).searchParams.get('display')!;
     const projector = await t.connect(display);

@@ -6,7 +6,7 @@ import type { AppContext } from '../../context';
 import type { LiveSessionRow, ParticipantRow, SubmissionRow } from '../../db/models';
 import { AppError, errors } from '../../common/errors';
 import { joinBaseUrl } from '../../common/network';
-import { toAgendaItem } from '../workshops/workshops.service';
+import { toAgendaItem, type AgendaItemFields } from '../workshops/workshops.service';
 import { remainingMs } from '../../../shared/clock';
 import {
   JOIN_CODE_ALPHABET,
@@ -66,6 +66,8 @@ interface Runtime {
   /** The last state read or written, for phones that resync. */
   base: { state: BaseState; at: number } | null;
   loading: Promise<BaseState> | null;
+  /** The session's workshop, once read (it never changes). */
+  workshopId?: string;
 }
 
 /** A timer stopped before its first start, showing the whole timebox of an item. */
@@ -611,8 +613,12 @@ export class LiveService {
   }
 
   private async agendaOf(workshopId: string, transaction?: Transaction): Promise<AgendaItem[]> {
-    const rows = await this.ctx.db.models.AgendaItem.findAll({ where: { workshopId }, order: [['position', 'ASC']], transaction });
-    return rows.map(toAgendaItem);
+    // Raw rows: every live command reads the agenda, and the model layer took milliseconds for it.
+    const rows = await this.ctx.db.sequelize.query<Omit<AgendaItemFields, 'settings'> & { settings: string }>(
+      'SELECT id, type, phase, title, timeboxMin, minTimeboxMin, prompt, settings FROM agenda_items WHERE workshopId = ? ORDER BY position ASC',
+      { replacements: [workshopId], type: QueryTypes.SELECT, transaction },
+    );
+    return rows.map((r) => toAgendaItem({ ...r, settings: JSON.parse(r.settings) as AgendaItemFields['settings'] }));
   }
 
   private runtime(sessionId: string): Runtime {
@@ -657,10 +663,8 @@ export class LiveService {
     // A room of phones resyncing at once shares one read.
     rt.loading ??= (async () => {
       try {
-        const s = await this.ctx.db.models.LiveSession.findByPk(sessionId);
-        if (!s) throw errors.notFound('That live session');
-        const w = await this.ctx.db.models.Workshop.findByPk(s.workshopId, { attributes: ['id', 'title'] });
-        const base = this.toBase(s, await this.agendaOf(s.workshopId), w?.title ?? '');
+        const { s, agenda, title } = await this.readSession(sessionId);
+        const base = this.toBase(s, agenda, title);
         this.remember(base);
         return base;
       } finally {
@@ -668,6 +672,29 @@ export class LiveService {
       }
     })();
     return rt.loading;
+  }
+
+  /**
+   * A live session's row with its workshop's agenda and title. A session's workshop never changes, so
+   * once known the three are read side by side (a command's own time comes before every phone's).
+   */
+  private async readSession(sessionId: string, transaction?: Transaction): Promise<{ s: LiveSessionRow; agenda: AgendaItem[]; title: string }> {
+    const { LiveSession } = this.ctx.db.models;
+    const known = this.runtime(sessionId).workshopId;
+    const readWorkshop = (workshopId: string) =>
+      Promise.all([
+        this.agendaOf(workshopId, transaction),
+        this.ctx.db.sequelize.query<{ title: string }>('SELECT title FROM workshops WHERE id = ?', {
+          replacements: [workshopId],
+          type: QueryTypes.SELECT,
+          transaction,
+        }),
+      ]);
+    const [s, early] = await Promise.all([LiveSession.findByPk(sessionId, { transaction }), known ? readWorkshop(known) : null]);
+    if (!s) throw errors.notFound('That live session');
+    this.runtime(sessionId).workshopId = s.workshopId;
+    const [agenda, [w]] = early ?? (await readWorkshop(s.workshopId));
+    return { s, agenda, title: w?.title ?? '' };
   }
 
   private async stamp(base: BaseState): Promise<LiveState> {
@@ -688,17 +715,14 @@ export class LiveService {
     change: (s: LiveSessionRow, agenda: AgendaItem[], now: number, transaction: Transaction) => unknown,
   ): Promise<{ state: LiveState; changed: boolean; session: LiveSessionRow }> {
     const { base, changed, session } = await this.ctx.db.writeTx(async (transaction) => {
-      const s = await this.ctx.db.models.LiveSession.findByPk(sessionId, { transaction });
-      if (!s) throw errors.notFound('That live session');
+      const { s, agenda, title } = await this.readSession(sessionId, transaction);
       if (s.status === 'ended') throw sessionEnded();
-      const agenda = await this.agendaOf(s.workshopId, transaction);
-      const w = await this.ctx.db.models.Workshop.findByPk(s.workshopId, { attributes: ['id', 'title'], transaction });
       const changed = (await change(s, agenda, Date.now(), transaction)) !== false;
       if (changed) {
         s.version += 1;
         await s.save({ transaction });
       }
-      return { base: this.toBase(s, agenda, w?.title ?? ''), changed, session: s };
+      return { base: this.toBase(s, agenda, title), changed, session: s };
     });
     this.remember(base);
     return { state: await this.stamp(base), changed, session };

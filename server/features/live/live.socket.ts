@@ -2,7 +2,7 @@ import type { Socket } from 'socket.io';
 import type { z } from 'zod';
 import type { AppContext } from '../../context';
 import { AppError, errors } from '../../common/errors';
-import { EDIT_ROLES, type WorkshopAccessRole } from '../../common/access';
+import { EDIT_ROLES } from '../../common/access';
 import { liveRooms, type LiveService } from './live.service';
 import { fieldErrors } from '../../../shared/errors';
 import { SubmissionInput } from '../../../shared/schemas/live';
@@ -43,14 +43,6 @@ function parse<S extends z.ZodType>(schema: S, value: unknown): z.infer<S> {
     .map(([field, problem]) => (field === '_' ? problem : `${field}: ${problem}`))
     .join('; ');
   throw new AppError(400, 'validation_failed', message || 'The payload is not valid');
-}
-
-/** An account's role on a workshop, `null` for none or a disabled account. */
-async function roleOf(ctx: AppContext, userId: string, workshopId: string): Promise<WorkshopAccessRole | null> {
-  const user = await ctx.db.models.User.findByPk(userId);
-  if (!user || user.disabled) return null;
-  const role = await ctx.workshopRoleOf(user, workshopId);
-  return role === 'missing' ? null : role;
 }
 
 /** Registers a live command on one socket: authorise by need, run (which parses), answer through the ack. */
@@ -116,7 +108,7 @@ export function registerLiveSocket(socket: LiveSocket, ctx: AppContext, live: Li
     if (data.kind !== 'user' || !data.watching || !data.userId) throw errors.forbidden('Only the facilitators can run the session');
     // Checked afresh on every command, so a co-facilitator removed during the day stops at once.
     const { sessionId, workshopId } = data.watching;
-    const role = await roleOf(ctx, data.userId, workshopId);
+    const role = await ctx.accountRoleOf(data.userId, workshopId);
     const canRun = role !== null && EDIT_ROLES.includes(role);
     data.watching.canRun = canRun;
     if (!canRun) {
@@ -175,7 +167,7 @@ export function registerLiveSocket(socket: LiveSocket, ctx: AppContext, live: Li
     if (data.kind !== 'user' || !data.userId) throw errors.forbidden('Only facilitators and observers watch a session from an account');
     const { sessionId } = parse(LivePayloads.watch, payload);
     const workshopId = await live.workshopOf(sessionId);
-    const role = await roleOf(ctx, data.userId, workshopId);
+    const role = await ctx.accountRoleOf(data.userId, workshopId);
     if (!role) throw errors.forbidden('You have no role on this workshop');
     const before = data.watching?.sessionId;
     if (before && before !== sessionId) {

@@ -16,10 +16,8 @@ export function registerVotingSocket({ on, parse }: LiveCommands, voting: Voting
   const runsSession = async (): Promise<boolean> => {
     const data = socket.data;
     if (data.kind !== 'user' || !data.userId || !data.watching) return false;
-    const user = await ctx.db.models.User.findByPk(data.userId);
-    if (!user || user.disabled) return false;
-    const role = await ctx.workshopRoleOf(user, data.watching.workshopId);
-    return role !== 'missing' && role !== null && EDIT_ROLES.includes(role);
+    const role = await ctx.accountRoleOf(data.userId, data.watching.workshopId);
+    return role !== null && EDIT_ROLES.includes(role);
   };
 
   on('vote:state', 'screen', async (payload, who) => {

@@ -1,6 +1,6 @@
 import crypto from 'node:crypto';
 import fs from 'node:fs/promises';
-import { Op, type Transaction } from 'sequelize';
+import { Op, QueryTypes, type Transaction } from 'sequelize';
 import type { Database } from '../../db';
 import type { AgendaItemRow, UserRow, WorkshopRow } from '../../db/models';
 import { errors } from '../../common/errors';
@@ -20,8 +20,11 @@ import { AgendaItem, type ActivityType, type AgendaItemInput } from '../../../sh
 /** The default window of a workshop that starts from a blank page (common practice: 09:00–17:00, run 10:00–16:00). */
 const DEFAULT_WINDOW = { doorsOpen: '09:00', doorsClose: '17:00', start: '10:00', end: '16:00' };
 
+/** The columns of an agenda item row that the shared schema describes. */
+export type AgendaItemFields = Pick<AgendaItemRow, 'id' | 'type' | 'phase' | 'title' | 'timeboxMin' | 'minTimeboxMin' | 'prompt' | 'settings'>;
+
 /** An agenda item row as the shared schema describes it. */
-export function toAgendaItem(row: AgendaItemRow): AgendaItem {
+export function toAgendaItem(row: AgendaItemFields): AgendaItem {
   return AgendaItem.parse({
     id: row.id,
     type: row.type,
@@ -32,6 +35,13 @@ export function toAgendaItem(row: AgendaItemRow): AgendaItem {
     prompt: row.prompt,
     settings: row.settings ?? {},
   });
+}
+
+/** The role that the workshop's owner, the account's membership and the account's own role give it. */
+function decideRole(userId: string, accountRole: string, ownerId: string, memberRole: WorkshopAccessRole | null): WorkshopAccessRole | null {
+  if (ownerId === userId) return 'owner';
+  if (memberRole) return memberRole;
+  return accountRole === 'admin' ? 'admin' : null;
 }
 
 /** Workshops and their agendas: the planning rules of Cairn's server live here. */
@@ -46,10 +56,23 @@ export class WorkshopsService {
   async roleOf(user: UserRow, workshopId: string): Promise<WorkshopAccessRole | null | 'missing'> {
     const w = await this.db.models.Workshop.findByPk(workshopId, { attributes: ['id', 'ownerId'] });
     if (!w) return 'missing';
-    if (w.ownerId === user.id) return 'owner';
-    const m = await this.db.models.Membership.findOne({ where: { workshopId, userId: user.id } });
-    if (m) return m.role;
-    return user.role === 'admin' ? 'admin' : null;
+    const m = w.ownerId === user.id ? null : await this.db.models.Membership.findOne({ where: { workshopId, userId: user.id } });
+    return decideRole(user.id, user.role, w.ownerId, m?.role ?? null);
+  }
+
+  /**
+   * The role of an enabled account, by id, on a workshop; `null` for none, a disabled or unknown account
+   * or no such workshop. One query: live commands check it afresh on every command.
+   */
+  async roleOfAccount(userId: string, workshopId: string): Promise<WorkshopAccessRole | null> {
+    const [row] = await this.db.sequelize.query<{ role: string; disabled: number; ownerId: string | null; memberRole: WorkshopAccessRole | null }>(
+      `SELECT u.role AS role, u.disabled AS disabled, w.ownerId AS ownerId, m.role AS memberRole
+       FROM users u LEFT JOIN workshops w ON w.id = ? LEFT JOIN memberships m ON m.workshopId = w.id AND m.userId = u.id
+       WHERE u.id = ?`,
+      { replacements: [workshopId, userId], type: QueryTypes.SELECT },
+    );
+    if (!row || Boolean(row.disabled) || row.ownerId === null) return null;
+    return decideRole(userId, row.role, row.ownerId, row.memberRole);
   }
 
   /** The workshops an account may see: its own, those it was invited to, and every one for an admin. */
