@@ -48,6 +48,8 @@ async function startChild(mode: 'cairn' | 'bare'): Promise<Child> {
   const proc = fork(path.join('bench', 'server-child.ts'), [mode], {
     execArgv: ['--expose-gc', '--import', 'tsx', '--max-old-space-size=4096'],
     stdio: ['ignore', 'inherit', 'inherit', 'ipc'],
+    // Every simulated phone joins with the same code: the per-code join limit must let them all in.
+    env: { ...process.env, BENCH_JOINS_PER_CODE: String(Math.max(2_000, PHONES * 2)) },
   });
   let next = 1;
   const waiting = new Map<number, (d: unknown) => void>();

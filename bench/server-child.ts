@@ -37,7 +37,7 @@ async function main(): Promise<void> {
   if (mode === 'cairn') {
     dataDir = await fs.mkdtemp(path.join(os.tmpdir(), 'cairn-bench-'));
     cairn = await createApp(
-      loadConfig({ NODE_ENV: 'test', DATA_DIR: dataDir, LOG_LEVEL: 'silent', JWT_SECRET: 'a benchmark secret of at least thirty-two characters', PUBLIC_URL: 'http://127.0.0.1' }),
+      loadConfig({ NODE_ENV: 'test', DATA_DIR: dataDir, LOG_LEVEL: 'silent', JWT_SECRET: 'a benchmark secret of at least thirty-two characters', PUBLIC_URL: 'http://127.0.0.1', JOINS_PER_CODE: process.env.BENCH_JOINS_PER_CODE ?? '' }),
     );
     server = cairn.server;
   } else {
@@ -51,6 +51,8 @@ async function main(): Promise<void> {
   await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
   process.send?.({ ready: true, port: (server.address() as AddressInfo).port });
 
+  // The benchmark stopped (finished or failed): so does this server.
+  process.on('disconnect', () => process.exit(0));
   process.on('message', async (msg: Request) => {
     switch (msg.type) {
       case 'gc':

@@ -29,6 +29,7 @@ export const EnvSchema = z.object({
   ACCESS_TOKEN_TTL_SEC: z.coerce.number().int().min(10).max(86400).default(900),
   CORS_ORIGINS: z.string().default(''),
   REDIS_URL: z.string().optional(),
+  JOINS_PER_CODE: z.preprocess(unsetIfEmpty, z.coerce.number().int().min(10).max(1_000_000).default(2_000)),
 });
 
 /** Cairn's validated configuration. */
@@ -52,6 +53,8 @@ export interface Config {
   corsOrigins: string[];
   /** Redis for sharing socket broadcasts between several Cairn processes; `null` for one process. */
   redisUrl: string | null;
+  /** Joins one join code takes per 10 minutes (a room and its rejoins; more for a large event). */
+  joinsPerCode: number;
 }
 
 /** Reads the dev signing secret from the data folder, creating it on first use. */
@@ -94,5 +97,6 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     accessTokenTtlSec: e.ACCESS_TOKEN_TTL_SEC,
     corsOrigins: e.CORS_ORIGINS.split(',').map((s) => s.trim()).filter(Boolean),
     redisUrl: e.REDIS_URL ?? null,
+    joinsPerCode: e.JOINS_PER_CODE,
   };
 }

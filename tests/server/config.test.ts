@@ -33,6 +33,7 @@ describe('loadConfig', () => {
       logLevel: 'info',
       accessTokenTtlSec: 900,
       corsOrigins: [],
+      joinsPerCode: 2000,
     });
   });
 

@@ -218,6 +218,24 @@ describe('joining from a phone', () => {
   });
 });
 
+describe('joins per code', () => {
+  it('takes up to JOINS_PER_CODE joins of one code in the window, then asks the next phone to wait', async () => {
+    const small = await startTestApp({ JOINS_PER_CODE: '12' });
+    try {
+      const room = await startLive(small, await small.tokenFor('facilitator'), (await demoWorkshop(small)).id);
+      for (let i = 0; i < 12; i++) {
+        const res = await small.agent.post(`/api/join/${room.joinCode}`).send({ displayName: `Rider ${i + 1}`, photoConsent: true, deviceId: newDeviceId() });
+        expect(res.status).toBe(200);
+      }
+      const late = await small.agent.post(`/api/join/${room.joinCode}`).send({ displayName: 'Rider 13', photoConsent: true, deviceId: newDeviceId() });
+      expect(late.status).toBe(429);
+      expect(late.body.error).toEqual({ code: 'rate_limited', message: expect.stringMatching(/too many people are joining/i) });
+    } finally {
+      await small.close();
+    }
+  });
+});
+
 describe('the join QR code', () => {
   let info: LiveSessionInfo;
   beforeAll(async () => {

@@ -17,8 +17,6 @@ const JOIN_WINDOW_MS = 10 * 60_000;
 const FAILED_LOOKUPS_PER_DEVICE = 20;
 /** Failed lookups per window from a caller that names no device (scripts; Cairn's phones always send one), keyed by address. */
 const FAILED_LOOKUPS_WITHOUT_DEVICE = 100;
-/** Joins per code per window: a room of up to 1,000 phones, each rejoining now and then. */
-const JOINS_PER_CODE = 2_000;
 
 /** The phone's own id: `deviceId` of the body, or the `X-Cairn-Device` header. */
 function deviceOf(req: Request): string | null {
@@ -63,7 +61,8 @@ export function liveRoutes(routes: ApiRoutes, ctx: AppContext, live: LiveService
   });
   const perCode = rateLimit({
     windowMs: JOIN_WINDOW_MS,
-    limit: JOINS_PER_CODE,
+    // Joins per code per window (JOINS_PER_CODE, 2,000 by default): a room of up to 1,000 phones, each rejoining now and then.
+    limit: ctx.config.joinsPerCode,
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     keyGenerator: (req) => {
