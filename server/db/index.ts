@@ -48,6 +48,12 @@ export interface Database {
    * the transaction (the whole batch) rolls back.
    */
   beforeCommit(t: Transaction, fn: () => Promise<void>): void;
+  /**
+   * Calls `fn` when a group commit finds that another connection (another Cairn process on the same
+   * file) committed since the last one: what a feature keeps in memory of the database is stale then.
+   * It runs inside the group commit's transaction, before its writes, so they read afresh.
+   */
+  onExternalChange(fn: () => void): void;
   close(): Promise<void>;
 }
 
@@ -146,6 +152,16 @@ export async function openDatabase(storage: string): Promise<Database> {
     // A hook may add another (the last write of one feature can start another's).
     while (hooks && hooks.length > 0) await hooks.shift()!();
   };
+  const externalListeners: (() => void)[] = [];
+  // SQLite's data_version changes when another connection commits (never for this connection's own).
+  let dataVersion: number | null = null;
+  const checkExternal = async (t: Transaction) => {
+    const [row] = await raw(t).all<{ data_version: number }>('PRAGMA data_version', []);
+    const now = Number(row?.data_version);
+    // The first check cannot tell: what was kept before it may have been read from an older file state.
+    if (now !== dataVersion) for (const fn of externalListeners) fn();
+    dataVersion = now;
+  };
   let draining = false;
   const drain = async () => {
     if (draining) return;
@@ -163,6 +179,7 @@ export async function openDatabase(storage: string): Promise<Database> {
         const results: unknown[] = [];
         try {
           await sequelize.transaction({ type: Transaction.TYPES.IMMEDIATE }, async (t) => {
+            await checkExternal(t);
             for (const item of batch) results.push(await item.fn(t));
             await runHooks(t);
           });
@@ -231,6 +248,9 @@ export async function openDatabase(storage: string): Promise<Database> {
     batchTx,
     raw,
     beforeCommit,
+    onExternalChange: (fn: () => void) => {
+      externalListeners.push(fn);
+    },
     close: async () => {
       for (const st of statements.values()) await new Promise<void>((resolve) => st.finalize(() => resolve()));
       statements.clear();

@@ -46,6 +46,8 @@ export const liveRooms = {
 
 /** How long a pushed state may be served again to a phone that asks for it, before it is read afresh. */
 const STATE_FRESH_MS = 5_000;
+/** The same with several processes on one file (REDIS_URL), where another process may have changed it. */
+const SHARED_STATE_FRESH_MS = 250;
 /** Joins, connections and consent changes within this window are announced together, so a room of phones arriving at once costs a few broadcasts, not one each. */
 const ROOM_TICK_MS = 250;
 /** Tries at drawing an unused join code before giving up (a clash is already about 1 in 10^10). */
@@ -166,7 +168,12 @@ export class LiveService {
   private submissionChecks: SubmissionCheck[] = [];
   private submissionListeners: ((submission: SubmissionView) => void)[] = [];
 
-  constructor(private ctx: AppContext) {}
+  constructor(private ctx: AppContext) {
+    // Another Cairn process on the same file changed something: the kept states are read afresh.
+    ctx.db.onExternalChange(() => {
+      for (const rt of this.runtimes.values()) rt.base = null;
+    });
+  }
 
   /** Adds an activity's rule that every new submission must also pass. */
   addSubmissionCheck(check: SubmissionCheck): void {
@@ -388,7 +395,8 @@ export class LiveService {
   /** The session's state now, as every screen sees it. */
   async state(sessionId: string): Promise<LiveState> {
     const rt = this.runtime(sessionId);
-    const fresh = rt.base && Date.now() - rt.base.at <= STATE_FRESH_MS ? rt.base.state : null;
+    const freshMs = this.ctx.config.redisUrl ? SHARED_STATE_FRESH_MS : STATE_FRESH_MS;
+    const fresh = rt.base && Date.now() - rt.base.at <= freshMs ? rt.base.state : null;
     const base = fresh ?? (await this.loadBase(sessionId));
     return this.stamp(base);
   }

@@ -198,7 +198,10 @@ export class VotingService {
   constructor(
     private ctx: AppContext,
     private live: LiveService,
-  ) {}
+  ) {
+    // Another Cairn process on the same file voted, or changed a vote: read the votes afresh.
+    ctx.db.onExternalChange(() => this.forgetVotes());
+  }
 
   /** Broadcasts through this socket.io server from now on. */
   attach(io: LiveIo): void {
