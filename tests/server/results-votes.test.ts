@@ -59,7 +59,7 @@ beforeAll(async () => {
   for (const [who, ranking] of [[0, [X, Y, Z]], [1, [Y, Z, X]], [2, [X, Z, Y]]] as const) {
     await commandData(phone(who), 'vote:rank', { clientId: `rank-${crypto.randomUUID()}`, ranking });
   }
-  await commandData(day.owner, 'vote:close', {});
+  // Left open on purpose: ending the session closes it, and its ballots are in the results.
   await t.agent.post(`/api/workshops/${day.workshopId}/live/stop`).set('Authorization', bearer(day.ownerToken));
   const res = await t.agent.get(`/api/workshops/${day.workshopId}/results`).set('Authorization', bearer(day.ownerToken));
   expect(res.status).toBe(200);
@@ -118,6 +118,10 @@ describe('vote results on the results page', () => {
         { optionId: expect.any(String), label: 'Helmet lending', x: 1, y: 1 },
       ],
     });
+  });
+
+  it('closes a vote left open when the session ends, so it is final and whole in the results', () => {
+    expect(votes('preference_vote').open).toBe(false);
   });
 
   it('gives a preference vote by the chosen method, the other method and the pairwise table', () => {

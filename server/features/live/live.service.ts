@@ -167,6 +167,7 @@ export class LiveService {
   private closed = false;
   private submissionChecks: SubmissionCheck[] = [];
   private submissionListeners: ((submission: SubmissionView) => void)[] = [];
+  private endingSteps: ((sessionId: string, transaction: Transaction) => Promise<void>)[] = [];
 
   constructor(private ctx: AppContext) {
     // Another Cairn process on the same file changed something: the kept states are read afresh.
@@ -178,6 +179,11 @@ export class LiveService {
   /** Adds an activity's rule that every new submission must also pass. */
   addSubmissionCheck(check: SubmissionCheck): void {
     this.submissionChecks.push(check);
+  }
+
+  /** Adds a step to ending a session, run in the transaction that ends it (a feature closes what was left open). */
+  onEnding(step: (sessionId: string, transaction: Transaction) => Promise<void>): void {
+    this.endingSteps.push(step);
   }
 
   /** Calls `listener` with every new submission after its commit (activities that tell more rooms than the facilitators). */
@@ -248,11 +254,12 @@ export class LiveService {
   /** Ends the workshop's live session: input is refused from now on, and everything submitted stays. */
   async stop(workshopId: string): Promise<LiveSessionInfo> {
     const row = await this.liveRowOf(workshopId);
-    const { state, session } = await this.mutate(row.id, (s, _agenda, now) => {
+    const { state, session } = await this.mutate(row.id, async (s, _agenda, now, transaction) => {
       s.status = 'ended';
       s.endedAt = new Date(now);
       setJson(s, 'timer', { status: 'ended', endsAt: null, remainingMs: null, durationMs: s.timer.durationMs });
       setJson(s, 'runs', s.runs.map((r) => (r.endedAt === null ? { ...r, endedAt: now } : r)));
+      for (const step of this.endingSteps) await step(s.id, transaction);
     });
     this.io?.to(liveRooms.session(row.id)).emit('session:ended', { reason: 'The facilitator ended the live session' });
     this.broadcast(state);

@@ -201,6 +201,11 @@ export class VotingService {
   ) {
     // Another Cairn process on the same file voted, or changed a vote: read the votes afresh.
     ctx.db.onExternalChange(() => this.forgetVotes());
+    // A vote left open when the session ends is closed with it: no ballot can change any more, and the results take it whole.
+    live.onEnding(async (sessionId, transaction) => {
+      this.forgetVotes();
+      await ctx.db.models.Vote.update({ status: 'closed' }, { where: { sessionId, status: 'open' }, transaction });
+    });
   }
 
   /** Broadcasts through this socket.io server from now on. */
