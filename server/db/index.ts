@@ -252,6 +252,8 @@ export async function openDatabase(storage: string): Promise<Database> {
       externalListeners.push(fn);
     },
     close: async () => {
+      // Writes already queued finish first (their callers are waiting for the commit), for up to 5 s.
+      for (let waited = 0; (draining || pending.length > 0) && waited < 5_000; waited += 10) await new Promise((r) => setTimeout(r, 10));
       for (const st of statements.values()) await new Promise<void>((resolve) => st.finalize(() => resolve()));
       statements.clear();
       await sequelize.close();

@@ -100,4 +100,26 @@ describe('the writer queue', () => {
     expect(result).toBe('done');
     expect(await stored()).toEqual([1, 2]);
   });
+
+  it('lets the writes already queued commit before it closes', async () => {
+    const file = path.join(dir, 'closing.sqlite');
+    const closing = await openDatabase(file);
+    await closing.sequelize.query('CREATE TABLE scratch (n INTEGER NOT NULL)');
+    const slow = closing.writeTx(async (t) => {
+      await new Promise((r) => setTimeout(r, 50));
+      await closing.raw(t).run('INSERT INTO scratch (n) VALUES (?)', [1]);
+      return 'committed';
+    });
+    const queued = closing.batchTx(async (t) => {
+      await closing.raw(t).run('INSERT INTO scratch (n) VALUES (?)', [2]);
+      return 'committed too';
+    });
+    await closing.close();
+    expect(await slow).toBe('committed');
+    expect(await queued).toBe('committed too');
+    const reopened = await openDatabase(file);
+    const rows = await reopened.sequelize.query<{ n: number }>('SELECT n FROM scratch ORDER BY n', { type: QueryTypes.SELECT });
+    expect(rows.map((r) => r.n)).toEqual([1, 2]);
+    await reopened.close();
+  });
 });
