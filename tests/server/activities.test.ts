@@ -112,12 +112,14 @@ describe('rotating pairs for interviews and icebreakers', () => {
     expect(await command(facilitator, 'rounds:get', { itemId: itemIds[INSIGHTS] })).toMatchObject({ error: { code: 'bad_request' } });
   });
 
-  it('files interview notes under says, thinks, does or feels about the partner, and refuses other parts', async () => {
+  it('files interview notes under says, thinks, does or feels about the partner, and refuses other parts and none', async () => {
     const itemId = itemIds[INTERVIEW]!;
     const ok = await note(0, { itemId, part: 'says', text: 'I never know which dock has space', fields: { partnerId: ids[1], round: '1' } });
     expect(ok).toMatchObject({ data: { duplicate: false } });
     const wrong = await note(0, { itemId, part: 'sees', text: 'Hmm' });
     expect(wrong).toMatchObject({ error: { code: 'bad_request', message: expect.stringContaining('Says, Thinks, Does, Feels') } });
+    const unfiled = await note(0, { itemId, text: 'Under no part', fields: { partnerId: ids[1], round: '1' } });
+    expect(unfiled).toMatchObject({ error: { code: 'bad_request', message: expect.stringContaining('Says, Thinks, Does, Feels') } });
     const self = await note(0, { itemId, part: 'feels', text: 'Me', fields: { partnerId: ids[0] } });
     expect(self).toMatchObject({ error: { code: 'bad_request' } });
     const stray = await note(0, { itemId, part: 'feels', text: 'Extra', fields: { colour: 'red' } });

@@ -1,3 +1,4 @@
+import { notePartsFor } from '../../shared/schemas/activities';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs/promises';
 import os from 'node:os';
@@ -87,10 +88,12 @@ describe('a hard kill of the server in the middle of the room', () => {
     const before = ((await command(facilitator, 'timer:start', {})) as { data: LiveState }).data;
     expect(before.timer.status).toBe('running');
     const itemId = before.item!.id;
+    // Filed under the activity's first part, as the phone files it.
+    const part = notePartsFor(before.item!.type, before.item!.settings)[0]?.id;
 
     // Every phone sends its notes; the server is killed once about half are acknowledged.
     const sent = phones.flatMap((p, i) =>
-      Array.from({ length: NOTES_EACH }, (_, k) => ({ phone: p, input: { clientId: `fault-${i}-${k}-${crypto.randomUUID()}`, itemId, kind: 'note', text: `Note ${k + 1} from rider ${i + 1}: the saddle was too high` } })),
+      Array.from({ length: NOTES_EACH }, (_, k) => ({ phone: p, input: { clientId: `fault-${i}-${k}-${crypto.randomUUID()}`, itemId, kind: 'note', text: `Note ${k + 1} from rider ${i + 1}: the saddle was too high`, ...(part ? { part } : {}) } })),
     );
     const acknowledged = new Set<string>();
     let killed: Promise<void> | null = null;

@@ -1,3 +1,4 @@
+import { notePartsFor } from '../../shared/schemas/activities';
 import fs from 'node:fs/promises';
 import os from 'node:os';
 import path from 'node:path';
@@ -64,6 +65,7 @@ describe('a live session survives a server restart', () => {
       clientId: 'restart-note-0001',
       itemId: running.item!.id,
       kind: 'note',
+      part: notePartsFor(running.item!.type, running.item!.settings)[0]?.id,
       text: 'She could not find the unlock button',
     });
     submissionId = note.id;
@@ -100,6 +102,7 @@ describe('a live session survives a server restart', () => {
       clientId: 'restart-note-0001',
       itemId: synced.item!.id,
       kind: 'note',
+      part: notePartsFor(synced.item!.type, synced.item!.settings)[0]?.id,
       text: 'She could not find the unlock button',
     });
     expect(retry).toEqual({ id: submissionId, duplicate: true });

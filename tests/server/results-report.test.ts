@@ -27,7 +27,7 @@ beforeAll(async () => {
       { type: 'insights', phone: 2, text: 'Ο σταθμός ήταν άδειος' },
       { type: 'insights', phone: 0, text: '<b>Not bold</b> & <i>not italic</i>' },
       { type: 'test_rounds', phone: 2, kind: 'feedback', part: 'ideas', text: 'Add a map on the dock', fields: (teams) => ({ hostTeamId: teams.get('Team Dock')! }) },
-      { type: 'closing', phone: 1, kind: 'reflection', text: 'Prototype the welcome ride card next week' },
+      { type: 'closing', phone: 1, kind: 'reflection', part: 'next_step', text: 'Prototype the welcome ride card next week' },
     ],
   });
   cofacilitator = await createStranger(t, 'cofacilitator');

@@ -43,7 +43,7 @@ beforeAll(async () => {
       // Team Route tests Team Dock's prototype.
       { type: 'test_rounds', phone: 2, kind: 'feedback', part: 'worked', text: 'The map card was clear', fields: (teams) => ({ hostTeamId: teams.get('Team Dock')! }) },
       { type: 'test_rounds', phone: 3, kind: 'feedback', part: 'questions', text: 'Where is the nearest dock?', fields: (teams) => ({ hostTeamId: teams.get('Team Dock')! }) },
-      { type: 'closing', phone: 3, kind: 'reflection', text: 'Prototype the welcome ride card next week' },
+      { type: 'closing', phone: 3, kind: 'reflection', part: 'next_step', text: 'Prototype the welcome ride card next week' },
     ],
   });
   cofacilitator = await createStranger(t, 'cofacilitator');

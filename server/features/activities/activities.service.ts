@@ -109,7 +109,8 @@ export class ActivitiesService {
     if (!item || !NOTE_TYPES.has(item.type)) return;
     const type = item.type as ActivityType;
     const parts = notePartsFor(type, item.settings);
-    if (input.part !== undefined && !parts.some((p) => p.id === input.part)) {
+    // An activity with parts files every note under one (the phone always offers them); one without takes none.
+    if ((parts.length > 0 && input.part === undefined) || (input.part !== undefined && !parts.some((p) => p.id === input.part))) {
       throw refuse(
         parts.length
           ? `File the note under one of: ${parts.map((p) => p.label).join(', ')}`
