@@ -21,7 +21,7 @@ import {
 import { borda, schulze } from '../../../shared/preference';
 import { sortIntoTeams } from '../../../shared/team-sort';
 import { fieldErrors, type ErrorCode } from '../../../shared/errors';
-import type { LiveItem, ParticipantView } from '../../../shared/schemas/live';
+import type { LiveItem, LiveState, ParticipantView } from '../../../shared/schemas/live';
 import {
   MAX_OPTION_TEXT,
   VoteKind,
@@ -315,8 +315,15 @@ export class VotingService {
     const db = this.ctx.db;
     const outcome = await db.batchTx(
       async (transaction): Promise<{ refused: AppError } | { answer: BallotAnswer; applied: boolean }> => {
-        // Read at the moment the write runs: a close, a lock or a move that came first has landed.
-        const state = await this.live.state(sessionId);
+        // Read at the moment the write runs: a close, a lock or a move that came first has landed. A refusal
+        // is answered to this dot alone (anything thrown here would roll back the whole batch).
+        let state: LiveState;
+        try {
+          state = await this.live.state(sessionId);
+        } catch (err) {
+          if (err instanceof AppError) return { refused: err };
+          throw err;
+        }
         if (state.status === 'ended') return { refused: new AppError(409, 'session_ended', 'This live session has ended') };
         if (state.locked) return { refused: new AppError(409, 'input_locked', 'The facilitator has locked input for now') };
         // One read of the live state a vote: the current item is the vote's item.
