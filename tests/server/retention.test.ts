@@ -175,13 +175,24 @@ describe('deleting personal data now', () => {
     expect(res.status).toBe(400);
   });
 
-  it('deletes names, photos (rows and files) and addresses, and keeps anonymous notes, teams and tallies', async () => {
+  it('deletes names, photos (rows and files), addresses and spent invitations, and keeps anonymous notes, teams and tallies', async () => {
     await t.agent.post(`/api/workshops/${day.workshopId}/live/stop`).set('Authorization', bearer(day.ownerToken));
     before = await results(day);
     const status = await t.agent.get(`/api/workshops/${day.workshopId}/retention`).set('Authorization', bearer(day.ownerToken));
     expect(status.body).toMatchObject({ retentionDays: null, dueAt: null, personalDataDeletedAt: null, liveNow: false, held: { names: 3, addresses: 1, photos: 3 } });
     expect((await photoFiles(photoIds)).length).toBeGreaterThanOrEqual(3);
     const storageKeys = (await t.cairn.ctx.db.models.Photo.findAll({ where: { id: photoIds } })).map((p) => p.storageKey);
+    // Three invitations to the workshop: accepted, expired and still pending.
+    const { Invitation } = t.cairn.ctx.db.models;
+    const invited = { workshopId: day.workshopId, role: 'observer' as const, invitedById: (await t.cairn.ctx.db.models.Workshop.findByPk(day.workshopId))!.ownerId };
+    const day0 = Date.now();
+    for (const [email, acceptedAt, expiresAt] of [
+      ['accepted@harbourlane.example', new Date(day0 - 86_400_000), new Date(day0 + 86_400_000)],
+      ['expired@harbourlane.example', null, new Date(day0 - 60_000)],
+      ['pending@harbourlane.example', null, new Date(day0 + 86_400_000)],
+    ] as const) {
+      await Invitation.create({ id: crypto.randomUUID(), ...invited, email, tokenHash: crypto.randomBytes(32).toString('hex'), acceptedAt, expiresAt });
+    }
 
     const res = await t.agent.post(`/api/workshops/${day.workshopId}/retention/delete-now`).set('Authorization', bearer(day.ownerToken)).send({ confirm: true });
     expect(res.status, JSON.stringify(res.body)).toBe(200);
@@ -196,6 +207,7 @@ describe('deleting personal data now', () => {
       ['Participant 3', null, true],
     ]);
     expect(await t.cairn.ctx.db.models.Photo.count({ where: { id: photoIds } })).toBe(0);
+    expect((await Invitation.findAll({ where: { workshopId: day.workshopId } })).map((i) => i.email)).toEqual(['pending@harbourlane.example']);
     const left = await fs.readdir(t.cairn.ctx.config.uploadDir).catch(() => [] as string[]);
     expect(left.filter((n) => storageKeys.some((k) => n.startsWith(k)))).toEqual([]);
 

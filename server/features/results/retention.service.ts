@@ -95,10 +95,10 @@ export class RetentionService {
   /**
    * Deletes a workshop's personal data now: every participant becomes "Participant N" (numbered in
    * order of joining, as the results number them), addresses and device ids go, photos leave the
-   * database and the disk. Notes, teams and tallies stay, anonymous. Refused while a session is live.
+   * database and the disk, and so do invitations already accepted or expired. Notes, teams and tallies stay, anonymous. Refused while a session is live.
    */
   async deleteNow(workshopId: string, now = Date.now()): Promise<RetentionStatus> {
-    const { Workshop, LiveSession, Participant } = this.ctx.db.models;
+    const { Workshop, LiveSession, Participant, Invitation } = this.ctx.db.models;
     const files = await this.ctx.db.writeTx(async (transaction) => {
       const w = await Workshop.findByPk(workshopId, { transaction });
       if (!w) throw errors.notFound('That workshop');
@@ -119,6 +119,8 @@ export class RetentionService {
       }
       const toRemove: string[] = [];
       for (const keeper of PHOTO_KEEPERS) toRemove.push(...(await keeper.erase(this.ctx, sessionIds, transaction)));
+      // Invitations that were accepted or ran out hold an address for nothing; pending ones still wait for an answer.
+      await Invitation.destroy({ where: { workshopId, [Op.or]: [{ acceptedAt: { [Op.ne]: null } }, { expiresAt: { [Op.lt]: new Date(now) } }] }, transaction });
       w.set({ personalDataDeletedAt: new Date(now) });
       await w.save({ transaction });
       return toRemove;
