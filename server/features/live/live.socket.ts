@@ -45,6 +45,9 @@ function parse<S extends z.ZodType>(schema: S, value: unknown): z.infer<S> {
   throw new AppError(400, 'validation_failed', message || 'The payload is not valid');
 }
 
+/** The commands each kind of socket may never run (filled as the first socket of the kind registers them). */
+const REFUSED: Partial<Record<SocketData['kind'], Set<string>>> = {};
+
 /** Registers a live command on one socket: authorise by need, run (which parses), answer through the ack. */
 export type LiveOn = <E extends Command>(
   event: E,
@@ -119,8 +122,9 @@ export function registerLiveSocket(socket: LiveSocket, ctx: AppContext, live: Li
   };
 
   /** Registers a command: authorise, then run (which parses), then answer through the ack. */
-  // Commands this socket's kind may never run, answered by one listener instead of one each.
-  const refused = new Set<string>();
+  // Commands this socket's kind may never run, answered by one listener instead of one each. The set
+  // is the same for every socket of a kind, so they share it.
+  const refused = (REFUSED[data.kind] ??= new Set<string>());
   socket.onAny((event: string, ...args: unknown[]) => {
     if (!refused.has(event)) return;
     const ack = args[args.length - 1];
