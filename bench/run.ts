@@ -22,7 +22,7 @@ const arg = (name: string, fallback: string) => {
 };
 const PHONES = Number(arg('phones', '1000'));
 const JSON_FILE = arg('json', path.join('bench', 'results', 'latest.json'));
-const FANOUT_ROUNDS = Number(arg('rounds', '10'));
+const FANOUT_ROUNDS = Number(arg('rounds', '30'));
 /** Rounds sent first and not counted, on both servers: the first changes run code that is not compiled yet. */
 const WARMUP_ROUNDS = 2;
 const DOTS_EACH = 5;
