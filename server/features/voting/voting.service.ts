@@ -382,18 +382,20 @@ export class VotingService {
   private async inSession(participantId: string, sessionId: string): Promise<boolean> {
     const known = this.sessionOfParticipant.get(participantId);
     if (known) return known === sessionId;
-    if (!this.participantsRead.has(sessionId)) {
-      const reading =
-        this.participantsRead.get(sessionId) ??
-        this.ctx.db.sequelize
-          .query<{ id: string }>('SELECT id FROM participants WHERE sessionId = ?', { replacements: [sessionId], type: QueryTypes.SELECT })
-          .then((rows) => {
-            for (const r of rows) this.sessionOfParticipant.set(r.id, sessionId);
-          });
+    let reading = this.participantsRead.get(sessionId);
+    if (!reading) {
+      reading = this.ctx.db.sequelize
+        .query<{ id: string }>('SELECT id FROM participants WHERE sessionId = ?', { replacements: [sessionId], type: QueryTypes.SELECT })
+        .then((rows) => {
+          for (const r of rows) this.sessionOfParticipant.set(r.id, sessionId);
+        });
       this.participantsRead.set(sessionId, reading);
-      await reading;
-      if (this.sessionOfParticipant.has(participantId)) return this.sessionOfParticipant.get(participantId) === sessionId;
-    } else await this.participantsRead.get(sessionId);
+      // A read that failed is tried again by the next dot.
+      reading.catch(() => this.participantsRead.delete(sessionId));
+    }
+    await reading;
+    const read = this.sessionOfParticipant.get(participantId);
+    if (read) return read === sessionId;
     // Joined after the session's participants were read, or in another session.
     const p = await this.ctx.db.models.Participant.findByPk(participantId, { attributes: ['id', 'sessionId'] });
     if (p) this.sessionOfParticipant.set(participantId, p.sessionId);
