@@ -185,10 +185,15 @@ test('activities on the phones, the console and the projector: pairs, a team map
 
   // Sketch: Ana photographs her sheet; the console's gallery and Ben's phone show it; Ben gives feedback.
   await consolePage.getByTestId('timeline-item').nth(AGENDA.sketch).click();
+  // She sends it with no network: it waits, and goes by itself once the phone is back online.
   await ana.getByTestId('photo-input').setInputFiles({ name: 'sketches.png', mimeType: 'image/png', buffer: sketchPng() });
   await ana.getByTestId('photo-caption').fill('Eight ways to show free docks');
+  await ana.context().setOffline(true);
   await ana.getByTestId('send-photo').click();
-  await expect(ana.getByTestId('photo-sent')).toHaveText('1 photo added');
+  await expect(ana.getByTestId('photo-waiting')).toBeVisible();
+  await ana.context().setOffline(false);
+  await expect(ana.getByTestId('photo-sent')).toHaveText('1 photo added', { timeout: 20_000 });
+  await expect(ana.getByTestId('photo-waiting')).toHaveCount(0);
   const galleryImage = consolePage.getByTestId('gallery-item').locator('img');
   await expect(galleryImage).toBeVisible();
   await expect.poll(() => galleryImage.evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth > 0)).toBe(true);
