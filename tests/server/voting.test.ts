@@ -245,11 +245,14 @@ describe('a dot vote with two criteria', () => {
     for (const s of twins.slice(1)) s.disconnect();
   });
 
-  it("tells a participant's other phone about their ballot", async () => {
+  it("tells a participant's other phone about their ballot, and not the phone that sent it (its answer has it)", async () => {
     const second = await t.connect(tokens[3]!);
     const heard = nextEvent(second, 'ballot:updated');
-    await commandData(phones[3]!, 'vote:dot', { clientId: cid(), optionId: opt.dock, criterionId: 'impact', delta: 1 });
+    const senderHeard = collect(phones[3]!, 'ballot:updated', 500);
+    const answer = await commandData(phones[3]!, 'vote:dot', { clientId: cid(), optionId: opt.dock, criterionId: 'impact', delta: 1 });
+    expect(answer.mine.dots).toEqual([{ optionId: opt.dock, criterionId: 'impact', count: 1 }]);
     expect((await heard).dots).toEqual([{ optionId: opt.dock, criterionId: 'impact', count: 1 }]);
+    expect(await senderHeard).toEqual([]);
     second.disconnect();
   });
 

@@ -310,7 +310,7 @@ export class VotingService {
    * for the end of its group commit, where the whole batch is stored as a few multi-row statements
    * (`storeDots`). The acknowledgement still comes only after that commit.
    */
-  async dot(participantId: string, sessionId: string, payload: DotPayload): Promise<BallotAnswer> {
+  async dot(participantId: string, sessionId: string, payload: DotPayload, fromSocket?: string): Promise<BallotAnswer> {
     if (!(await this.inSession(participantId, sessionId))) throw errors.forbidden('You are not in this session any more; join again');
     const db = this.ctx.db;
     const outcome = await db.batchTx(
@@ -371,7 +371,7 @@ export class VotingService {
       () => this.forgetVotes(),
     );
     if ('refused' in outcome) throw outcome.refused;
-    if (outcome.applied) this.afterBallot(sessionId, participantId, outcome.answer.mine);
+    if (outcome.applied) this.afterBallot(sessionId, participantId, outcome.answer.mine, fromSocket);
     return outcome.answer;
   }
 
@@ -459,7 +459,7 @@ export class VotingService {
   }
 
   /** Stores a participant's order of the options (replacing their earlier one), exactly once per `clientId`. */
-  async rank(participantId: string, sessionId: string, payload: RankPayload): Promise<BallotAnswer> {
+  async rank(participantId: string, sessionId: string, payload: RankPayload, fromSocket?: string): Promise<BallotAnswer> {
     const { VoteRanking } = this.ctx.db.models;
     const { answer, applied } = await this.ballot(participantId, sessionId, payload.clientId, ['preference_vote', 'team_sort'], async (vote, transaction) => {
       const known = new Set(vote.options.map((o) => o.id));
@@ -480,7 +480,7 @@ export class VotingService {
     });
     if (applied) {
       this.receiptsOfSession.get(sessionId)?.add(receiptKey(participantId, payload.clientId));
-      this.afterBallot(sessionId, participantId, answer.mine);
+      this.afterBallot(sessionId, participantId, answer.mine, fromSocket);
     }
     return answer;
   }
@@ -722,9 +722,13 @@ export class VotingService {
     }
   }
 
-  /** After a ballot's commit: the participant's other phones follow, and the console's tally is due. */
-  private afterBallot(sessionId: string, participantId: string, mine: MyBallot): void {
-    this.io?.to(liveRooms.participant(participantId)).emit('ballot:updated', mine);
+  /**
+   * After a ballot's commit: the participant's other phones follow (the phone that sent it has the
+   * ballot in its answer, so it is left out), and the console's tally is due.
+   */
+  private afterBallot(sessionId: string, participantId: string, mine: MyBallot, fromSocket?: string): void {
+    const others = this.io?.to(liveRooms.participant(participantId));
+    (fromSocket ? others?.except(fromSocket) : others)?.emit('ballot:updated', mine);
     this.scheduleTally(sessionId, mine.itemId);
   }
 

@@ -33,8 +33,8 @@ export function registerVotingSocket({ on, parse }: LiveCommands, voting: Voting
     empty(payload);
     return voting.closeVote(who.sessionId);
   });
-  on('vote:dot', 'participant', async (payload, who) => voting.dot(who.participantId!, who.sessionId, parse(DotPayload, payload)));
-  on('vote:rank', 'participant', async (payload, who) => voting.rank(who.participantId!, who.sessionId, parse(RankPayload, payload)));
+  on('vote:dot', 'participant', async (payload, who) => voting.dot(who.participantId!, who.sessionId, parse(DotPayload, payload), socket.id));
+  on('vote:rank', 'participant', async (payload, who) => voting.rank(who.participantId!, who.sessionId, parse(RankPayload, payload), socket.id));
   on('vote:results', 'screen', async (payload, who) => {
     empty(payload);
     // Phones, projectors and observers see results once revealed; the facilitators see them as they come in.
