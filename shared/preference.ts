@@ -10,7 +10,10 @@ export type Ballot = { ranking: string[]; weight?: number };
 /** An option's Borda count and its standard competition rank ("1224"). */
 export type BordaRow = { optionId: string; points: number; rank: number };
 
-/** An option's place in the Schulze order; `wins` counts the options it beats on strongest paths. */
+/**
+ * An option's place in the Schulze order: `rank` is 1 + the number of options that beat it on strongest
+ * paths, so rank 1 is the Schulze winner set; `wins` counts the options it beats.
+ */
 export type SchulzeRow = { optionId: string; rank: number; wins: number };
 
 /** Position of each option index on one ballot; missing options share the position after the last listed. */
@@ -84,9 +87,11 @@ export function borda(options: string[], ballots: Ballot[]): BordaRow[] {
 
 /**
  * Schulze method: the pairwise table, the strongest (widest) path strengths `p[i][j]`, and the order.
- * An option beats another when `p[i][j] > p[j][i]`; that relation is transitive, so ordering by the number
- * of options beaten (`wins`) puts every beaten option below its winner, and options with equal wins —
- * neither beating the other — share a rank.
+ * An option beats another when `p[i][j] > p[j][i]`. That relation is transitive but not complete, so
+ * counting the options an option beats would put one unbeaten option below another; instead an option's
+ * rank is 1 + the number of options that beat it. Rank 1 is then exactly the winner set (the options
+ * nobody beats, Schulze 2011 §2), and a beaten option always ranks below everything that beats it.
+ * Rows are ordered by rank, then by options beaten (most first), then by the given option order.
  * @example schulze(['a', 'b'], ballots).ranking // [{ optionId: 'b', rank: 1, wins: 1 }, …]
  */
 export function schulze(
@@ -108,7 +113,24 @@ export function schulze(
       }
     }
   }
-  const wins = options.map((_, i) => options.filter((_o, j) => p[i][j] > p[j][i]).length);
-  const ranking = ranked(options, wins).map(({ optionId, score, rank }) => ({ optionId, rank, wins: score }));
+  const beats = (i: number, j: number) => p[i][j] > p[j][i];
+  const ranking = options
+    .map((optionId, i) => ({
+      optionId,
+      i,
+      rank: 1 + options.filter((_o, j) => beats(j, i)).length,
+      wins: options.filter((_o, j) => beats(i, j)).length,
+    }))
+    .sort((a, b) => a.rank - b.rank || b.wins - a.wins || a.i - b.i)
+    .map(({ optionId, rank, wins }) => ({ optionId, rank, wins }));
   return { pairwise: d, strongest: p, ranking };
+}
+
+/**
+ * The options that share first place in a ranking, or an empty list when one option is first alone.
+ * @example sharedFirstPlace([{ optionId: 'b', rank: 1 }, { optionId: 'c', rank: 1 }, { optionId: 'a', rank: 3 }]) // ['b', 'c']
+ */
+export function sharedFirstPlace(rows: { optionId: string; rank: number }[]): string[] {
+  const first = rows.filter((r) => r.rank === 1).map((r) => r.optionId);
+  return first.length > 1 ? first : [];
 }

@@ -216,12 +216,21 @@ export function selectTopN(
   const ordered = [...rows].sort((a, b) => a.rank - b.rank);
   const groupSize = new Map<number, number>();
   for (const row of ordered) groupSize.set(row.rank, (groupSize.get(row.rank) ?? 0) + 1);
+  // Places are counted from the rows ahead, not read off the rank: a Schulze rank (1 + the options that
+  // beat it) can be smaller than the number of options ahead of it.
+  const ahead = new Map<number, number>();
+  let seen = 0;
+  for (const [rank, size] of groupSize) {
+    ahead.set(rank, seen);
+    seen += size;
+  }
   const selected: string[] = [];
   const tiedAtCutoff: string[] = [];
   for (const row of ordered) {
-    const lastPlace = row.rank - 1 + (groupSize.get(row.rank) ?? 1);
+    const before = ahead.get(row.rank) ?? 0;
+    const lastPlace = before + (groupSize.get(row.rank) ?? 1);
     if (lastPlace <= n) selected.push(row.optionId);
-    else if (row.rank <= n) tiedAtCutoff.push(row.optionId);
+    else if (before < n) tiedAtCutoff.push(row.optionId);
   }
   const places = Math.max(0, n);
   let policy =

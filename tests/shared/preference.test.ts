@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { Borda as VotesBorda, Schulze as VotesSchulze, utils as votesUtils, type Ballot as VotesBallot } from 'votes';
-import { type Ballot, borda, pairwiseMatrix, schulze } from '../../shared/preference';
+import { type Ballot, borda, pairwiseMatrix, schulze, sharedFirstPlace } from '../../shared/preference';
+import { selectTopN } from '../../shared/tally';
 import { mulberry32 } from './random';
 
 // Wikipedia, "Condorcet method" / "Borda count": the Tennessee capital example, weights as voters.
@@ -142,9 +143,118 @@ describe('schulze', () => {
     ]);
   });
 
+
+  // Two voters, b>a>c and a>c>b: a beats c 2:0; a–b and b–c are 1:1, so nobody beats b. The winner
+  // set (Schulze 2011, §2: the options a with p[a][b] ≥ p[b][a] for every b) is {a, b}.
+  it('ranks every unbeaten option first: b>a>c and a>c>b give a and b first together', () => {
+    const { ranking } = schulze(['a', 'b', 'c'], [{ ranking: ['b', 'a', 'c'] }, { ranking: ['a', 'c', 'b'] }]);
+    expect(ranking).toEqual([
+      { optionId: 'a', rank: 1, wins: 1 },
+      { optionId: 'b', rank: 1, wins: 0 },
+      { optionId: 'c', rank: 2, wins: 0 },
+    ]);
+    expect(sharedFirstPlace(ranking)).toEqual(['a', 'b']);
+    // Top 1 sees the tie at its cut-off instead of taking a alone.
+    const top = selectTopN(ranking.map((r) => ({ ...r, dots: 0, tied: false, nearTie: false })), 1);
+    expect(top.selected).toEqual([]);
+    expect(top.tiedAtCutoff).toEqual(['a', 'b']);
+    // Top 2 takes both, and not c, whose rank 2 is below two options.
+    expect(selectTopN(ranking.map((r) => ({ ...r, dots: 0, tied: false, nearTie: false })), 2)).toMatchObject({
+      selected: ['a', 'b'],
+      tiedAtCutoff: [],
+    });
+  });
+
+  it('finds the winner set b, c, d of five ballots b>d>a>c, c>d>a>b, a>c>b>d, d>c>a>b, b>d>a>c', () => {
+    const ballots = ['bdac', 'cdab', 'acbd', 'dcab', 'bdac'].map((o) => ({ ranking: o.split('') }));
+    const options = ['a', 'b', 'c', 'd'];
+    const { ranking, strongest } = schulze(options, ballots);
+    // Reference: the brute force below, written from the definition (Schulze 2011, §2).
+    const reference = referenceStrongest(pairwiseMatrix(options, ballots));
+    expect(strongest).toEqual(reference);
+    expect(referenceWinners(options, reference)).toEqual(['b', 'c', 'd']);
+    expect(ranking.filter((r) => r.rank === 1).map((r) => r.optionId).sort()).toEqual(['b', 'c', 'd']);
+    expect(sharedFirstPlace(ranking).sort()).toEqual(['b', 'c', 'd']);
+    const top = selectTopN(ranking.map((r) => ({ ...r, dots: 0, tied: false, nearTie: false })), 1);
+    expect(top.selected).toEqual([]);
+    expect([...top.tiedAtCutoff].sort()).toEqual(['b', 'c', 'd']);
+  });
+
+  it('says nobody shares first place when one option is first alone', () => {
+    expect(sharedFirstPlace(schulze(tennessee, tennesseeBallots).ranking)).toEqual([]);
+    expect(sharedFirstPlace([])).toEqual([]);
+  });
+
   it('handles no options and no ballots', () => {
     expect(schulze([], [])).toEqual({ pairwise: [], strongest: [], ranking: [] });
     expect(schulze(['a', 'b'], []).ranking.map((r) => r.rank)).toEqual([1, 1]);
+  });
+});
+
+/**
+ * Strongest path strengths by brute force, straight from the definition (M. Schulze, Social Choice and
+ * Welfare 36 (2011), §2.1–2.2, winning votes): a link x→y exists when d[x][y] > d[y][x] and has strength
+ * d[x][y]; a path's strength is its weakest link; p[a][b] is the strongest of every simple path from a to b,
+ * 0 when there is none. Deliberately slow: it walks every simple path instead of Floyd–Warshall.
+ */
+function referenceStrongest(d: number[][]): number[][] {
+  const n = d.length;
+  const p = d.map((row) => row.map(() => 0));
+  const visit = (start: number, at: number, weakest: number, used: boolean[]) => {
+    for (let next = 0; next < n; next++) {
+      if (used[next] || !(d[at][next] > d[next][at])) continue;
+      const strength = Math.min(weakest, d[at][next]);
+      p[start][next] = Math.max(p[start][next], strength);
+      used[next] = true;
+      visit(start, next, strength, used);
+      used[next] = false;
+    }
+  };
+  for (let a = 0; a < n; a++) {
+    const used = new Array<boolean>(n).fill(false);
+    used[a] = true;
+    visit(a, a, Infinity, used);
+    p[a][a] = 0;
+  }
+  return p;
+}
+
+/** The Schulze winners by the definition (Schulze 2011, §2): the options a with p[a][b] ≥ p[b][a] for every b. */
+function referenceWinners(options: string[], p: number[][]): string[] {
+  return options.filter((_o, a) => options.every((_q, b) => p[a][b] >= p[b][a]));
+}
+
+describe('schulze against a brute-force reference on seeded random rooms', () => {
+  it('gives the strongest paths of every simple path, rank 1 = the winner set, rank = 1 + options that beat it', () => {
+    const random = mulberry32(13_2011);
+    const pick = (n: number) => Math.floor(random() * n);
+    let sharedFirst = 0;
+    for (let room = 0; room < 150; room++) {
+      // 4–12 voters, 3–8 options, full rankings (the rooms of the issue that found the fault).
+      const options = Array.from({ length: 3 + pick(6) }, (_, i) => `o${i}`);
+      const ballots: Ballot[] = Array.from({ length: 4 + pick(9) }, () => {
+        const out = [...options];
+        for (let i = out.length - 1; i > 0; i--) {
+          const j = pick(i + 1);
+          [out[i], out[j]] = [out[j], out[i]];
+        }
+        return { ranking: out };
+      });
+      const ours = schulze(options, ballots);
+      const p = referenceStrongest(pairwiseMatrix(options, ballots));
+      expect(ours.strongest, `room ${room}`).toEqual(p);
+      const winners = referenceWinners(options, p);
+      expect(winners.length, `room ${room}`).toBeGreaterThan(0); // Schulze 2011, §4.1: a winner always exists
+      expect(ours.ranking.filter((r) => r.rank === 1).map((r) => r.optionId).sort(), `room ${room}`).toEqual(winners.sort());
+      for (const row of ours.ranking) {
+        const a = options.indexOf(row.optionId);
+        const beatenBy = options.filter((_o, b) => p[b][a] > p[a][b]).length;
+        expect(row.rank, `room ${room} ${row.optionId}`).toBe(1 + beatenBy);
+      }
+      if (winners.length > 1) sharedFirst++;
+    }
+    // The draw must include rooms whose first place is shared, the case that went wrong.
+    expect(sharedFirst).toBeGreaterThan(10);
   });
 });
 
@@ -163,7 +273,7 @@ describe('cross-check with the votes package on random ballots', () => {
     return [...byRank.entries()].sort((a, b) => a[0] - b[0]).map(([, ids]) => ids.sort());
   }
 
-  it('agrees on the pairwise table, Borda and Schulze for 60 seeded ballot sets', () => {
+  it('agrees on the pairwise table, Borda and Schulze’s options beaten for 60 seeded ballot sets', () => {
     const random = mulberry32(20261201);
     const pick = (n: number) => Math.floor(random() * n);
     const shuffle = (items: string[]) => {
@@ -196,11 +306,13 @@ describe('cross-check with the votes package on random ballots', () => {
         expect(row.points + totalWeight, `set ${set}`).toBeCloseTo(theirBorda[row.optionId], 9);
       }
 
+      // The package's Schulze scores count the options each one beats; its ranking orders by that count,
+      // the shortcut that misplaces unbeaten options, so only the counts are compared here.
       const theirSchulze = new VotesSchulze(matrix);
       const ours = schulze(options, ballots);
       const theirWins = theirSchulze.scores();
       for (const row of ours.ranking) expect(row.wins, `set ${set}`).toBe(theirWins[row.optionId]);
-      expect(groups(ours.ranking), `set ${set}`).toEqual(theirSchulze.ranking().map((g) => [...g].sort()));
+      expect(groups(ours.ranking).flat().sort(), `set ${set}`).toEqual([...options].sort());
       if (new Set(ours.ranking.map((r) => r.rank)).size < options.length) setsWithSharedRanks++;
     }
     // The draw must exercise ties too, not only clear orders.
