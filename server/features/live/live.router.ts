@@ -17,6 +17,14 @@ const JOIN_WINDOW_MS = 10 * 60_000;
 const FAILED_LOOKUPS_PER_DEVICE = 20;
 /** Failed lookups per window from a caller that names no device (scripts; Cairn's phones always send one), keyed by address. */
 const FAILED_LOOKUPS_WITHOUT_DEVICE = 100;
+/**
+ * Failed lookups per window from one address, whatever device ids it sends: room for a whole room's
+ * typos behind one address (a venue's NAT), and still about 29,000 guesses a day at most against
+ * ~2.75e10 codes (JOIN_CODE_LENGTH characters from JOIN_CODE_ALPHABET).
+ */
+const FAILED_LOOKUPS_PER_ADDRESS = 200;
+/** Joins of one code per window from one device: a phone reloads and rejoins now and then, never this often. */
+const JOINS_PER_CODE_AND_DEVICE = 60;
 
 /** The phone's own id: `deviceId` of the body, or the `X-Cairn-Device` header. */
 function deviceOf(req: Request): string | null {
@@ -59,17 +67,41 @@ export function liveRoutes(routes: ApiRoutes, ctx: AppContext, live: LiveService
     },
     handler: limited('Too many tries from this phone; wait a few minutes, then check the code on the big screen'),
   });
-  const perCode = rateLimit({
+  // A new device id with every guess must not escape the limit: the address holds whatever the device says.
+  const perAddress = rateLimit({
     windowMs: JOIN_WINDOW_MS,
-    // Joins per code per window (JOINS_PER_CODE, 2,000 by default): a room of up to 1,000 phones, each rejoining now and then.
+    limit: FAILED_LOOKUPS_PER_ADDRESS,
+    skipSuccessfulRequests: true,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    keyGenerator: (req) => `address:${ipKeyGenerator(req.ip ?? '')}`,
+    handler: limited('Too many tries from this network; wait a few minutes, then check the code on the big screen'),
+  });
+  const codeOf = (req: Request) => {
+    const code = JoinCode.safeParse(req.params.code ?? '');
+    return code.success ? code.data : String(req.params.code);
+  };
+  // Each address gets its own share of a code's joins (JOINS_PER_CODE, 2,000 by default: a room of up
+  // to 1,000 phones behind one venue address, each rejoining now and then), so one sender making up
+  // device ids uses up its own share only and phones on other addresses still join.
+  const perCodeAndAddress = rateLimit({
+    windowMs: JOIN_WINDOW_MS,
     limit: ctx.config.joinsPerCode,
     standardHeaders: 'draft-8',
     legacyHeaders: false,
-    keyGenerator: (req) => {
-      const code = JoinCode.safeParse(req.params.code ?? '');
-      return `code:${code.success ? code.data : String(req.params.code)}`;
-    },
+    keyGenerator: (req) => `code:${codeOf(req)}:address:${ipKeyGenerator(req.ip ?? '')}`,
     handler: limited('Too many people are joining this session right now; try again in a minute'),
+  });
+  // …and each device its own share, so rejoins from one phone cannot crowd its neighbours out either.
+  const perCodeAndDevice = rateLimit({
+    windowMs: JOIN_WINDOW_MS,
+    limit: Math.min(JOINS_PER_CODE_AND_DEVICE, ctx.config.joinsPerCode),
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    // A caller without a device id gets no device share; the address share holds it.
+    skip: (req) => deviceOf(req) === null,
+    keyGenerator: (req) => `code:${codeOf(req)}:device:${deviceOf(req) ?? ''}`,
+    handler: limited('This phone has joined too often; wait a few minutes and try again'),
   });
 
   // A projector holding the session's display token gets the QR code without an account; others go on to the role check.
@@ -151,7 +183,7 @@ export function liveRoutes(routes: ApiRoutes, ctx: AppContext, live: LiveService
     access: access.public,
     params: CodeParams,
     response: JoinInfo,
-    before: [perDevice],
+    before: [perAddress, perDevice],
     handler: ({ params }) => live.joinInfo(params.code),
   });
 
@@ -164,7 +196,7 @@ export function liveRoutes(routes: ApiRoutes, ctx: AppContext, live: LiveService
     params: CodeParams,
     body: JoinBody,
     response: JoinAnswer,
-    before: [perDevice, perCode],
+    before: [perAddress, perDevice, perCodeAndAddress, perCodeAndDevice],
     handler: ({ params, body }) => live.join(params.code, body),
   });
 }
