@@ -1,4 +1,5 @@
 import type { Criterion } from './schemas/agenda-item';
+import { countOf } from './words';
 
 /** The rules of one dot vote, e.g. `{ dotsPerVoter: 5, capPerOption: 2, allowStacking: true, criteria: [] }`. */
 export type DotVoteRules = {
@@ -101,7 +102,7 @@ export function checkBallot(rules: DotVoteRules, existingDotsOfVoter: Dot[], cha
     return {
       ok: false,
       code: 'cap_exceeded',
-      message: `At most ${rules.capPerOption} ${plural(rules.capPerOption, 'dot')} on one option${where}.`,
+      message: `At most ${countOf(rules.capPerOption, 'dot')} on one option${where}.`,
     };
   }
   if (spent + change.delta > rules.dotsPerVoter) {
@@ -109,14 +110,10 @@ export function checkBallot(rules: DotVoteRules, existingDotsOfVoter: Dot[], cha
     return {
       ok: false,
       code: 'budget_exceeded',
-      message: `You have ${rules.dotsPerVoter} ${plural(rules.dotsPerVoter, 'dot')}${where} and ${left} left.`,
+      message: `You have ${countOf(rules.dotsPerVoter, 'dot')}${where} and ${left} left.`,
     };
   }
   return { ok: true };
-}
-
-function plural(n: number, word: string): string {
-  return n === 1 ? word : `${word}s`;
 }
 
 /**

@@ -145,7 +145,7 @@ export const useLiveStore = defineStore('live', () => {
    */
   function connect(opts: { token: () => string | null; watch?: string; participantSessionId?: string; display?: boolean }): void {
     disconnect();
-    ended.value = false;
+    forget();
     if (opts.participantSessionId) loadOutbox(opts.participantSessionId);
     const s = connectSocket(opts.token);
     socket.value = s;
@@ -184,6 +184,20 @@ export const useLiveStore = defineStore('live', () => {
   }
   const connectError = ref<string | null>(null);
   let clockTimer: ReturnType<typeof setInterval> | undefined;
+
+  /** Forgets everything of the session this screen showed before, so nothing of it shows in the next one. */
+  function forget(): void {
+    state.value = null;
+    ended.value = false;
+    me.value = null;
+    participants.value = [];
+    submissions.value = [];
+    lastMessage.value = null;
+    outbox.value = [];
+    outboxKey = '';
+    rejected.value = null;
+    connectError.value = null;
+  }
 
   /** Closes the socket. */
   function disconnect(): void {

@@ -144,6 +144,7 @@ export const useVotingStore = defineStore('voting', () => {
     vote.value = null;
     results.value = null;
     proposal.value = null;
+    teams.value = [];
     itemId.value = null;
     outbox.length = 0;
   }
