@@ -61,7 +61,7 @@ export interface Config {
 function persistedSecret(dataDir: string): string {
   const file = path.join(dataDir, 'jwt-secret');
   if (fs.existsSync(file)) return fs.readFileSync(file, 'utf8').trim();
-  fs.mkdirSync(dataDir, { recursive: true });
+  fs.mkdirSync(dataDir, { recursive: true, mode: 0o700 });
   const secret = crypto.randomBytes(48).toString('base64url');
   fs.writeFileSync(file, secret, { mode: 0o600 });
   return secret;

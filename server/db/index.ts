@@ -1,6 +1,8 @@
 import { Sequelize, Transaction } from 'sequelize';
 import { Umzug, SequelizeStorage } from 'umzug';
 import sqlite3 from 'sqlite3';
+import fs from 'node:fs';
+import path from 'node:path';
 import { defineModels, type Models } from './models';
 import * as m0001 from './migrations/0001-initial';
 import * as m0002 from './migrations/0002-live';
@@ -65,6 +67,20 @@ export interface RawStatements {
   once(sql: string, params: unknown[]): Promise<void>;
 }
 
+/**
+ * Makes the database file readable by its owner only (mode 600, like the signing secret), creating it
+ * empty if needed. SQLite creates a new database 644, and gives its -wal and -shm files the database
+ * file's mode (os_unix.c, findCreateFileMode and unixOpenSharedMemory, from memory), so a 600 file
+ * first keeps all three private; files of an older install are narrowed too.
+ */
+function keepPrivate(storage: string): void {
+  fs.mkdirSync(path.dirname(storage), { recursive: true, mode: 0o700 });
+  fs.closeSync(fs.openSync(storage, 'a', 0o600));
+  for (const file of [storage, `${storage}-wal`, `${storage}-shm`, `${storage}-journal`]) {
+    if (fs.existsSync(file)) fs.chmodSync(file, 0o600);
+  }
+}
+
 /** The most writes one group commit carries. */
 const MAX_BATCH = 200;
 
@@ -73,6 +89,7 @@ const MAX_BATCH = 200;
  * @example const db = await openDatabase('data/cairn.sqlite')
  */
 export async function openDatabase(storage: string): Promise<Database> {
+  if (storage !== ':memory:' && !storage.startsWith('file:')) keepPrivate(storage);
   const sequelize = new Sequelize({
     dialect: 'sqlite',
     dialectModule: sqlite3,

@@ -19,8 +19,11 @@ export const ExportFile = z.enum(['notes.csv', 'teams.csv', 'participants.csv', 
 /** One export file's name, e.g. `'notes.csv'`. */
 export type ExportFile = z.infer<typeof ExportFile>;
 
-/** Query of a CSV export: `bom` starts the file with a UTF-8 byte-order mark and neutralises formulas, for spreadsheets. */
-export const ExportQuery = ResultsQuery.extend({ bom: QueryFlag });
+/**
+ * Query of a CSV export: `bom` starts the file with a UTF-8 byte-order mark, for spreadsheets;
+ * `raw` keeps text that a spreadsheet would run as a formula exactly as written (neutralised otherwise).
+ */
+export const ExportQuery = ResultsQuery.extend({ bom: QueryFlag, raw: QueryFlag });
 /** Query of a CSV export. */
 export type ExportQuery = z.infer<typeof ExportQuery>;
 

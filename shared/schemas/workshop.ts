@@ -11,8 +11,25 @@ export const DEFAULT_CONSENT_TEXT =
   'The facilitator can delete names and photos after the workshop; anonymous tallies and notes stay. ' +
   "Your organisation's data-protection policy applies.";
 
-/** A calendar date as `YYYY-MM-DD`. */
-export const IsoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date such as 2027-03-14');
+/**
+ * Whether `YYYY-MM-DD` names a day of the (proleptic Gregorian) calendar: month 01–12, and a day
+ * the month has (29 February only in a leap year).
+ * @example isCalendarDate('2027-02-30') // false
+ */
+export function isCalendarDate(value: string): boolean {
+  const m = /^(\d{4})-(\d{2})-(\d{2})$/.exec(value);
+  if (!m) return false;
+  const [y, mo, d] = [Number(m[1]), Number(m[2]), Number(m[3])];
+  const day = new Date(Date.UTC(y, mo - 1, d));
+  // Date.UTC rolls impossible dates over (2027-02-30 becomes 2027-03-02): a real date comes back unchanged.
+  return mo >= 1 && mo <= 12 && day.getUTCFullYear() === y && day.getUTCMonth() === mo - 1 && day.getUTCDate() === d;
+}
+
+/** A calendar date as `YYYY-MM-DD`, one that exists. */
+export const IsoDate = z
+  .string()
+  .regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date such as 2027-03-14')
+  .refine(isCalendarDate, 'That day does not exist; check the month and the day');
 
 /** The brief of a workshop: what the facilitator fills in before planning the agenda. */
 export const WorkshopBrief = z.object({

@@ -15,12 +15,15 @@ const w = (id: string) => `/workshops/${encodeURIComponent(id)}`;
 export interface DownloadOptions {
   anonymize?: boolean;
   bom?: boolean;
+  /** Keep text that starts like a formula exactly as written (neutralised otherwise). */
+  raw?: boolean;
 }
 
 function query(o: DownloadOptions): string {
   const q = new URLSearchParams();
   if (o.anonymize) q.set('anonymize', 'true');
   if (o.bom) q.set('bom', 'true');
+  if (o.raw) q.set('raw', 'true');
   const s = q.toString();
   return s ? `?${s}` : '';
 }

@@ -12,22 +12,24 @@ export interface CsvTable {
 
 /** Options of a CSV export. */
 export interface CsvOptions {
-  /**
-   * For spreadsheet users: start with a UTF-8 byte-order mark (so accented and non-Latin text opens
-   * right) and put an apostrophe before text that a spreadsheet would run as a formula.
-   */
+  /** For spreadsheet users: start with a UTF-8 byte-order mark (so accented and non-Latin text opens right). */
   bom: boolean;
+  /**
+   * Keep text that a spreadsheet would run as a formula exactly as written; by default an apostrophe
+   * goes before it, since participants' notes end up in spreadsheets whatever the file was meant for.
+   */
+  raw?: boolean;
 }
 
 /** Text cells that spreadsheets would read as a formula (OWASP, "CSV Injection"): = + - @, tab and carriage return first. */
 const FORMULA_START = /^[=+\-@\t\r]/;
 
-/** A cell as text: numbers as written, yes/no for booleans, empty for nothing; formulas neutralised for spreadsheets. */
-function cellText(value: Cell, spreadsheet: boolean): string {
+/** A cell as text: numbers as written, yes/no for booleans, empty for nothing; formulas neutralised unless `raw`. */
+function cellText(value: Cell, raw: boolean): string {
   if (value === null) return '';
   if (typeof value === 'boolean') return value ? 'yes' : 'no';
   if (typeof value === 'number') return String(value);
-  return spreadsheet && FORMULA_START.test(value) ? `'${value}` : value;
+  return !raw && FORMULA_START.test(value) ? `'${value}` : value;
 }
 
 /**
@@ -39,7 +41,7 @@ export function toCsv(table: CsvTable, options: CsvOptions): string {
   for (const row of table.rows) {
     if (row.length !== table.header.length) throw new Error(`A CSV record has ${row.length} fields; the header has ${table.header.length}`);
   }
-  return stringify([table.header, ...table.rows.map((r) => r.map((c) => cellText(c, options.bom)))], {
+  return stringify([table.header, ...table.rows.map((r) => r.map((c) => cellText(c, options.raw ?? false)))], {
     record_delimiter: '\r\n',
     // csv-stringify quotes a field holding the record delimiter (CRLF) only; RFC 4180 wants any line break quoted.
     quoted_match: /[\r\n]/,

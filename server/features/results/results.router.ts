@@ -59,7 +59,7 @@ export function resultsRoutes(
     method: 'get',
     path: '/workshops/:workshopId/exports/:file',
     summary:
-      'Download one export: a CSV per table (RFC 4180; `?bom=true` for spreadsheets) or the complete results as JSON; `?anonymize=true` removes names',
+      'Download one export: a CSV per table (RFC 4180; text that starts like a formula gets an apostrophe unless `?raw=true`; `?bom=true` for spreadsheets) or the complete results as JSON; `?anonymize=true` removes names',
     tag,
     access: access.workshop(READ_ROLES),
     params: WorkshopParams.extend({ file: ExportFile }),
@@ -67,7 +67,7 @@ export function resultsRoutes(
     produces: 'text/csv',
     handler: async ({ params, query, res }) => {
       const r = await results.results(params.workshopId, query.anonymize);
-      const file = exportFile(r, params.file, { bom: query.bom });
+      const file = exportFile(r, params.file, { bom: query.bom, raw: query.raw });
       download(res, file.body, file.contentType, file.fileName);
       return undefined;
     },
