@@ -36,7 +36,9 @@ function step(type: ActivityType, overrides: ItemOverrides = {}): Omit<AgendaIte
   };
 }
 
-// Both templates use the Harbour Lane Bike Co-op demo scenario: a new member's first ride.
+// Both templates speak in neutral words: "{topic}" and "{people}" are filled from the brief when a
+// workshop is made (fillTemplateText), "{dots}" from the vote's own budget whenever the prompt is shown
+// (showPrompt), so a prompt never names a number the facilitator has since changed.
 const FULL_DAY: AgendaTemplate = {
   id: 'full-day',
   name: 'Full day',
@@ -47,52 +49,48 @@ const FULL_DAY: AgendaTemplate = {
   items: [
     step('welcome', {
       title: 'Welcome and plan for the day',
-      prompt:
-        "Welcome! Today we look at a new member's first ride with Harbour Lane Bike Co-op. " +
-        'Here is the plan, and how we look after what you share.',
+      prompt: 'Welcome! Today we work on “{topic}”. Here is the plan, and how we look after what you share.',
     }),
     step('icebreaker', {
-      title: 'First bikes',
+      title: 'Warm-up pairs',
       timeboxMin: 10,
       settings: { rounds: 2, roundMinutes: 3 },
-      prompt: 'Find your partner on your screen and tell each other about the first bike you remember riding.',
+      prompt: 'Find your partner on your screen and tell each other about something you learned to do recently.',
     }),
     step('interview', {
-      title: 'Interviews: a first ride',
+      title: 'Interviews',
       prompt:
-        'Ask your partner about a time they rode somewhere new for the first time. What was easy, ' +
+        'Ask your partner about a recent experience close to “{topic}”. What was easy, ' +
         'what got in the way? Note what they say, think, do and feel.',
     }),
     step('empathy_map', {
-      title: "A new member's empathy map",
+      title: 'Empathy map',
       timeboxMin: 20,
       prompt:
-        "Add your interview notes to your team's map of a new member on their first ride: " +
+        "Add your interview notes to your team's map of {people}: " +
         'what they see, hear, say and do, think and feel.',
     }),
     step('break', { title: 'Morning break' }),
     step('insights', {
       title: 'What we learned',
-      prompt: 'What surprised you about first rides? Write one thing you learned per note.',
+      prompt: 'What surprised you in the interviews? Write one thing you learned per note.',
     }),
     step('point_of_view', {
       title: 'Point of view',
-      prompt: 'Finish the sentence: a new member needs [to do what] because [what we learned].',
+      prompt: 'Finish the sentence about {people}: [who] needs [to do what] because [what we learned].',
     }),
     step('how_might_we', {
       title: 'How might we questions',
-      prompt:
-        'Turn a need into a question: How might we [do something] for a new member ' +
-        'so that their first ride [goes how]?',
+      prompt: 'Turn a need into a question: How might we [do something] for {people} so that [outcome]?',
     }),
     step('lunch'),
     step('dot_vote', {
       title: 'Pick the challenges',
-      prompt: 'Spend your three dots on the questions you most want to work on this afternoon.',
+      prompt: 'Spend your {dots} dots on the questions you most want to work on.',
     }),
     step('team_sort', {
       title: 'Form the teams',
-      prompt: 'Rank the three challenges, the one you most want first. Cairn will form even teams.',
+      prompt: 'Rank the challenges, the one you most want first. Cairn will form even teams.',
     }),
     step('sketch', {
       title: 'Eight ideas in eight minutes',
@@ -103,23 +101,23 @@ const FULL_DAY: AgendaTemplate = {
     }),
     step('break', { title: 'Afternoon break' }),
     step('storyboard', {
-      title: "Storyboard a new member's first ride",
+      title: 'Storyboard the idea',
       prompt:
-        "Tell your team's idea as a story, frame by frame: the new member signs up, finds a bike, " +
-        'rides, and comes back.',
+        "Tell your team's idea as a story, frame by frame, through the eyes of {people}: " +
+        'how it starts, what happens, how it ends.',
     }),
     step('break', { title: 'Afternoon break' }),
     step('test_rounds', {
       title: 'Test rounds',
       timeboxMin: 25,
       prompt:
-        "Visit the team on your screen and walk through their storyboard as a new member. " +
+        'Visit the team on your screen and walk through their storyboard as {people} would. ' +
         "Note what worked, what didn't, your questions and your ideas.",
     }),
     step('closing', {
       title: 'Closing and next steps',
       timeboxMin: 10,
-      prompt: 'Before you go: which idea should the co-op try first, and what will you do next?',
+      prompt: 'Before you go: which idea should we try first, and what will you do next?',
     }),
   ],
 };
@@ -134,36 +132,32 @@ const HALF_DAY: AgendaTemplate = {
   items: [
     step('welcome', {
       title: 'Welcome and plan for the afternoon',
-      prompt:
-        "Welcome! This afternoon we look at a new member's first ride with Harbour Lane Bike Co-op. " +
-        'Here is the plan, and how we look after what you share.',
+      prompt: 'Welcome! This afternoon we work on “{topic}”. Here is the plan, and how we look after what you share.',
     }),
     step('icebreaker', {
-      title: 'First bikes',
+      title: 'Warm-up pairs',
       timeboxMin: 10,
       settings: { rounds: 2, roundMinutes: 3 },
-      prompt: 'Find your partner on your screen and tell each other about the first bike you remember riding.',
+      prompt: 'Find your partner on your screen and tell each other about something you learned to do recently.',
     }),
     step('interview', {
-      title: 'Interviews: a first ride',
+      title: 'Interviews',
       prompt:
-        'Ask your partner about a time they rode somewhere new for the first time. What was easy, ' +
+        'Ask your partner about a recent experience close to “{topic}”. What was easy, ' +
         'what got in the way? Note what they say, think, do and feel.',
     }),
     step('insights', {
       title: 'What we learned',
-      prompt: 'What surprised you about first rides? Write one thing you learned per note.',
+      prompt: 'What surprised you in the interviews? Write one thing you learned per note.',
     }),
     step('break'),
     step('how_might_we', {
       title: 'How might we questions',
-      prompt:
-        'Turn what you learned into a question: How might we [do something] for a new member ' +
-        'so that their first ride [goes how]?',
+      prompt: 'Turn what you learned into a question: How might we [do something] for {people} so that [outcome]?',
     }),
     step('dot_vote', {
       title: 'Pick the challenges',
-      prompt: 'Spend your three dots on the questions you most want to work on.',
+      prompt: 'Spend your {dots} dots on the questions you most want to work on.',
     }),
     step('team_sort', {
       title: 'Form the teams',
@@ -179,21 +173,21 @@ const HALF_DAY: AgendaTemplate = {
     }),
     step('break'),
     step('storyboard', {
-      title: "Storyboard a new member's first ride",
+      title: 'Storyboard the idea',
       timeboxMin: 25,
-      prompt: "Tell your team's best idea as a story, frame by frame, from sign-up to the end of the ride.",
+      prompt: "Tell your team's best idea as a story, frame by frame, through the eyes of {people}.",
     }),
     step('test_rounds', {
       title: 'Test rounds',
       timeboxMin: 20,
       prompt:
-        "Visit the team on your screen and walk through their storyboard as a new member. " +
+        'Visit the team on your screen and walk through their storyboard as {people} would. ' +
         "Note what worked, what didn't, your questions and your ideas.",
     }),
     step('closing', {
       title: 'Closing and next steps',
       timeboxMin: 10,
-      prompt: 'Before you go: which idea should the co-op try first, and what will you do next?',
+      prompt: 'Before you go: which idea should we try first, and what will you do next?',
     }),
   ],
 };
@@ -201,18 +195,67 @@ const HALF_DAY: AgendaTemplate = {
 /** Cairn's agenda templates, to start a plan from. */
 export const TEMPLATES: readonly AgendaTemplate[] = [FULL_DAY, HALF_DAY];
 
+/** What a template's placeholders are filled with: the brief's topic and the people it is for. */
+export interface TemplateFill {
+  topic: string;
+  people: string;
+}
+
+/** The words "{people}" takes when the brief names no short persona. */
+export const DEFAULT_PEOPLE = 'the people we design for';
+
+// A persona longer than this reads badly inside a sentence; the prompt then says DEFAULT_PEOPLE.
+const MAX_PEOPLE_CHARS = 60;
+
 /**
- * A fresh copy of a template's window and items, each item with a new id.
+ * The fill of a template from a brief: its title as the topic, and the persona's first sentence as
+ * the people when that is short (a long description would not fit inside a prompt).
+ * @example templateFill({ title: 'Borrowing a book', persona: 'First-time library visitors' }).people // 'First-time library visitors'
+ */
+export function templateFill(brief: { title: string; persona?: string | null }): TemplateFill {
+  const first = (brief.persona ?? '').trim().split(/[.;!?\n]/)[0]!.trim();
+  const fits = first.length > 0 && first.length <= MAX_PEOPLE_CHARS;
+  return { topic: brief.title.trim(), people: fits ? first : DEFAULT_PEOPLE };
+}
+
+/**
+ * A template's text with "{topic}" and "{people}" filled in; "{dots}" stays for showPrompt.
+ * @example fillTemplateText('Map of {people}', { topic: 'x', people: 'new visitors' }) // 'Map of new visitors'
+ */
+export function fillTemplateText(text: string, fill: TemplateFill): string {
+  return text.replaceAll('{topic}', fill.topic).replaceAll('{people}', fill.people);
+}
+
+/**
+ * The prompt as phones, the projector, the results and the report show it: "{dots}" becomes the
+ * vote's current dots per voter, so the words follow the budget.
+ * @example showPrompt({ type: 'dot_vote', prompt: 'Spend your {dots} dots', settings: { dotsPerVoter: 5 } }) // 'Spend your 5 dots'
+ */
+export function showPrompt(item: Pick<AgendaItem, 'type' | 'prompt' | 'settings'>): string {
+  if (!item.prompt.includes('{dots}')) return item.prompt;
+  const dots = item.settings.dotsPerVoter ?? ACTIVITY_LIBRARY[item.type].defaultSettings.dotsPerVoter ?? 3;
+  return item.prompt.replaceAll('{dots}', String(dots));
+}
+
+/**
+ * A fresh copy of a template's window and items, each item with a new id, its titles and prompts
+ * filled from the brief.
  * @example instantiateTemplate('half-day', () => crypto.randomUUID()).items.length // 13
  */
 export function instantiateTemplate(
   id: TemplateId,
   makeId: () => string,
+  fill: TemplateFill = { topic: 'this workshop', people: DEFAULT_PEOPLE },
 ): { window: DayWindow; items: AgendaItem[] } {
   const template = TEMPLATES.find((t) => t.id === id);
   if (!template) throw new RangeError(`No template with id ${id}`);
   return {
     window: { ...template.window },
-    items: template.items.map((item) => ({ ...structuredClone(item), id: makeId() })),
+    items: template.items.map((item) => ({
+      ...structuredClone(item),
+      id: makeId(),
+      title: fillTemplateText(item.title, fill),
+      prompt: fillTemplateText(item.prompt, fill),
+    })),
   };
 }

@@ -1,7 +1,7 @@
 import crypto from 'node:crypto';
 import type { Database } from './index';
 import { hashPassword } from '../features/auth/auth.service';
-import { instantiateTemplate } from '../../shared/templates';
+import { demoAgenda } from './demo-agenda';
 import { RuleSettings } from '../../shared/schemas/day-window';
 import { DEFAULT_CONSENT_TEXT } from '../../shared/schemas/workshop';
 
@@ -33,7 +33,7 @@ export async function seedDemo(db: Database): Promise<boolean> {
       await User.create({ id, email: a.email, name: a.name, role: a.role, passwordHash: hashes[i++] }, { transaction });
     }
     const workshopId = crypto.randomUUID();
-    const { window, items } = instantiateTemplate('full-day', () => crypto.randomUUID());
+    const { window, items } = demoAgenda(() => crypto.randomUUID());
     await Workshop.create(
       {
         id: workshopId,

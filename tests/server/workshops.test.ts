@@ -101,6 +101,10 @@ describe('creating a workshop', () => {
     expect(res.status).toBe(201);
     expect(res.body).toMatchObject({ title: 'Docking without the fuss', myRole: 'owner', window: half.window, teamCount: 3, packed: [] });
     expect(res.body.agenda.map((i: AgendaItem) => i.title)).toEqual(half.items.map((i) => i.title));
+    // The template's placeholders are filled from the brief: its title is the topic.
+    const prompts = res.body.agenda.map((i: AgendaItem) => i.prompt).join(' ');
+    expect(prompts).toContain('“Docking without the fuss”');
+    expect(prompts).not.toMatch(/\{topic\}|\{people\}/);
     const demoIds = new Set((await demoWorkshop(t)).itemIds);
     expect(res.body.agenda.every((i: AgendaItem) => !demoIds.has(i.id))).toBe(true);
     expect((await as(owner).get(`/api/workshops/${res.body.id}/plan`)).body.schedule.fullDay).toBe(false);

@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { ACTIVITY_LIBRARY, defaultMinTimebox, isBreakItem, newAgendaItem } from '../../shared/activities';
 import { computeSchedule, toMinutes } from '../../shared/schedule';
-import { instantiateTemplate, TEMPLATES } from '../../shared/templates';
+import { DEFAULT_PEOPLE, instantiateTemplate, showPrompt, templateFill, TEMPLATES } from '../../shared/templates';
+import { demoAgenda } from '../../server/db/demo-agenda';
 import { ActivityType, AgendaItem } from '../../shared/schemas/agenda-item';
 import { DayWindow, RuleSettings } from '../../shared/schemas/day-window';
 
@@ -154,13 +155,55 @@ describe('templates', () => {
     expect(s.fullDay).toBe(false);
   });
 
-  it('prompts are set in the demo scenario', () => {
+  it('speaks in neutral words: a workshop from each template names nothing of the demo', () => {
+    // The demo scenario's own words (Harbour Lane Bike Co-op, a new member's first ride, PRODUCT.md).
+    const demoWords = /harbour|lane|co-?op|\bbikes?\b|\bcycl|\bride|\brides\b|\briding\b|\bmembers?\b|\bdocks?\b|priya/i;
+    const fill = templateFill({ title: 'Borrowing a book for the first time', persona: 'Library visitors' });
     for (const t of TEMPLATES) {
-      const text = t.items.map((i) => i.prompt).join(' ');
-      expect(text).toMatch(/Harbour Lane Bike Co-op/);
-      expect(text).toMatch(/first ride/);
-      for (const i of t.items) expect(i.prompt.length).toBeGreaterThan(0);
+      const { items } = instantiateTemplate(t.id, counter(), fill);
+      for (const i of items) {
+        expect(i.title, `${t.id}: ${i.title}`).not.toMatch(demoWords);
+        expect(i.prompt, `${t.id}: ${i.prompt}`).not.toMatch(demoWords);
+        expect(showPrompt(i)).not.toMatch(demoWords);
+        expect(`${i.title} ${i.prompt}`).not.toMatch(/\{topic\}|\{people\}/);
+        expect(i.prompt.length).toBeGreaterThan(0);
+      }
+      const text = items.map((i) => i.prompt).join(' ');
+      expect(text).toContain('“Borrowing a book for the first time”');
+      expect(text).toContain('for Library visitors so that');
+      // A vote's prompt names neither a fixed number of dots nor a time of day: both can move.
+      const vote = items.find((i) => i.type === 'dot_vote')!;
+      expect(vote.prompt).not.toMatch(/\b(three|four|five)\b|morning|afternoon/i);
     }
+  });
+
+  it('fills the people from a short persona, and says so plainly for a long or empty one', () => {
+    expect(templateFill({ title: ' Topic ', persona: 'First-time visitors. They come on Saturdays.' })).toEqual({
+      topic: 'Topic',
+      people: 'First-time visitors',
+    });
+    expect(templateFill({ title: 'T', persona: '' }).people).toBe(DEFAULT_PEOPLE);
+    expect(templateFill({ title: 'T', persona: 'x'.repeat(61) }).people).toBe(DEFAULT_PEOPLE);
+    expect(templateFill({ title: 'T' }).people).toBe(DEFAULT_PEOPLE);
+  });
+
+  it('names the dots of a vote from its budget whenever the prompt is shown', () => {
+    const { items } = instantiateTemplate('full-day', counter());
+    const vote = items.find((i) => i.type === 'dot_vote')!;
+    expect(showPrompt(vote)).toMatch(/^Spend your 3 dots /);
+    vote.settings.dotsPerVoter = 5;
+    expect(showPrompt(vote)).toMatch(/^Spend your 5 dots /);
+    // A prompt without the placeholder is shown as written.
+    expect(showPrompt({ ...vote, prompt: 'Vote now' })).toBe('Vote now');
+  });
+
+  it('keeps the demo workshop in its own words, on the full day’s timing', () => {
+    const demo = demoAgenda(counter());
+    const { items } = instantiateTemplate('full-day', counter());
+    expect(demo.items.map((i) => [i.type, i.timeboxMin])).toEqual(items.map((i) => [i.type, i.timeboxMin]));
+    const text = demo.items.map((i) => i.prompt).join(' ');
+    expect(text).toMatch(/Harbour Lane Bike Co-op/);
+    expect(text).toMatch(/first ride/);
   });
 
   it('instantiates with fresh ids and a copy the caller may change', () => {

@@ -8,6 +8,7 @@ import { competitionRanks, OVERALL_CRITERION } from '../../../shared/tally';
 import type { AgendaItem } from '../../../shared/schemas/agenda-item';
 import { FEEDBACK_GRID_PARTS, PHOTO_TYPES } from '../../../shared/schemas/activities';
 import { VoteKind, type VoteResults } from '../../../shared/schemas/voting';
+import { showPrompt } from '../../../shared/templates';
 import type {
   ActivityResult,
   AgendaRunRow,
@@ -539,7 +540,7 @@ export class ResultsService {
     for (const [i, item] of input.agenda.entries()) {
       const sections: ResultSection[] = [];
       for (const provide of ACTIVITY_PROVIDERS) sections.push(...(await provide(item, input)));
-      activities.push({ itemId: item.id, position: i + 1, title: item.title, type: item.type, phase: item.phase, prompt: item.prompt, sections });
+      activities.push({ itemId: item.id, position: i + 1, title: item.title, type: item.type, phase: item.phase, prompt: showPrompt(item), sections });
     }
     const votes: VoteRecord[] = [];
     for (const provide of VOTE_RECORD_PROVIDERS) votes.push(...(await provide(input)));

@@ -5,7 +5,7 @@ import type { Database } from '../../db';
 import type { AgendaItemRow, UserRow, WorkshopRow } from '../../db/models';
 import { errors } from '../../common/errors';
 import type { WorkshopAccessRole } from '../../common/access';
-import { instantiateTemplate } from '../../../shared/templates';
+import { instantiateTemplate, templateFill } from '../../../shared/templates';
 import { newAgendaItem } from '../../../shared/activities';
 import { RuleSettings } from '../../../shared/schemas/day-window';
 import {
@@ -118,7 +118,7 @@ export class WorkshopsService {
   /** Creates a workshop for its owner, from a template or with an empty agenda. */
   async create(owner: UserRow, body: CreateWorkshopBody): Promise<string> {
     const id = crypto.randomUUID();
-    const fromTemplate = body.templateId ? instantiateTemplate(body.templateId, () => crypto.randomUUID()) : null;
+    const fromTemplate = body.templateId ? instantiateTemplate(body.templateId, () => crypto.randomUUID(), templateFill(body)) : null;
     await this.db.writeTx(async (transaction) => {
       await this.db.models.Workshop.create(
         {
