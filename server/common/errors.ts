@@ -30,6 +30,18 @@ export const notFoundHandler: RequestHandler = (_req, res) => {
   res.status(404).json({ error: { code: 'not_found', message: 'No such API route' } });
 };
 
+/** The one error format for a request body that body-parser refused, by its status and type. */
+function clientError(status: number, type: string | undefined): { code: ErrorCode; message: string } {
+  if (status === 415) {
+    return {
+      code: 'unsupported_media',
+      message: type === 'charset.unsupported' ? 'The body uses a character set Cairn does not read' : 'The body uses a content encoding Cairn does not read',
+    };
+  }
+  if (status === 413) return { code: 'payload_too_large', message: 'That is too large to send' };
+  return { code: 'bad_request', message: 'The body could not be read' };
+}
+
 /** Turns anything thrown into `{ error: { code, message } }` with the right status. */
 export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   if (err instanceof AppError) {
@@ -49,6 +61,16 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
     res.status(400).json({ error: { code: 'bad_request', message: 'The body is not valid JSON' } });
     return;
   }
-  (req as { log?: { error: (o: unknown, m: string) => void } }).log?.error({ err }, 'unhandled error');
+  const log = (req as { log?: { error: (o: unknown, m: string) => void; info: (o: unknown, m: string) => void } }).log;
+  // body-parser's own refusals (an unknown Content-Encoding or charset, a broken gzip body, an aborted
+  // upload) carry their 4xx status and `expose`: the client's mistake, answered as such and logged
+  // below error level.
+  const status = typeof e.status === 'number' ? e.status : 0;
+  if (status >= 400 && status < 500 && (err as { expose?: boolean }).expose) {
+    log?.info({ type: e.type, status }, 'refused a malformed request');
+    res.status(status).json({ error: clientError(status, e.type) });
+    return;
+  }
+  log?.error({ err }, 'unhandled error');
   res.status(500).json({ error: { code: 'internal', message: 'Something went wrong on the server' } });
 };
