@@ -151,6 +151,9 @@ export async function createApp(config: Config): Promise<CairnApp> {
   votingRoutes(routes, voting);
   const results = new ResultsService(ctx, { votes: voting });
   const retention = new RetentionService(ctx);
+  retention.afterRemoval = (sessionId) => {
+    activities.everythingChanged(sessionId).catch((err: unknown) => ctx.logger.error({ err }, 'could not announce removed notes'));
+  };
   resultsRoutes(routes, ctx, { results, report: new ReportService(ctx, results), retention });
   // Deletes personal data whose retention time has passed, checked periodically while Cairn runs.
   retention.start();

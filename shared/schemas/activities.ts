@@ -40,6 +40,15 @@ export const FEEDBACK_GRID_PARTS: readonly NotePart[] = [
   { id: 'ideas', label: 'Ideas', hint: 'What it sparked' },
 ];
 
+/**
+ * A tester's feedback of one round of test rounds (0-based, as the phone files it in `fields.round`;
+ * feedback without a round counts as the first): each round starts a fresh grid.
+ * @example feedbackOfRound(notes, 1) // only what was sent in round 2
+ */
+export function feedbackOfRound<N extends { kind: string; fields: Record<string, string> | null }>(notes: readonly N[], round: number): N[] {
+  return notes.filter((n) => n.kind === 'feedback' && (n.fields?.round ?? '0') === String(round));
+}
+
 /** What the closing asks of everyone: a reflection on the day and a next step. */
 export const CLOSING_PARTS: readonly NotePart[] = [
   { id: 'reflection', label: 'Reflection', hint: 'What stays with you from today' },

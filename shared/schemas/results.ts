@@ -170,6 +170,16 @@ export const ResultSection = z.discriminatedUnion('kind', [
 /** One section of an activity's results. */
 export type ResultSection = z.infer<typeof ResultSection>;
 
+/**
+ * What a vote table's score column counts: a Borda table counts points and a Schulze table wins,
+ * whichever of the two carries the options forward (`tableId` is a further table's id; none for the main one).
+ * @example voteScoreLabel('schulze', 'borda') // 'Points'
+ */
+export function voteScoreLabel(method: 'dots' | 'borda' | 'schulze' | 'first_choices', tableId?: string): string {
+  const by = tableId === 'borda' || tableId === 'schulze' ? tableId : method;
+  return { dots: 'Dots', borda: 'Points', schulze: 'Wins', first_choices: 'First choices' }[by];
+}
+
 /** One agenda item with its results, in agenda order. */
 export const ActivityResult = z.object({
   itemId: z.string(),

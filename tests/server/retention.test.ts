@@ -308,7 +308,7 @@ describe('what a participant does about their own data from the phone', () => {
     expect((await t.agent.get('/api/participant/data').set('Authorization', bearer(ana))).body.notes).toBe(2);
     const res = await t.agent.delete('/api/participant/notes').set('Authorization', bearer(ana));
     expect(res.status).toBe(200);
-    expect(res.body).toEqual({ removed: 2 });
+    expect(res.body).toEqual({ removed: 2, photos: 0 });
     const r = await results(day);
     expect(r.notes.map((n) => [n.text, n.author])).toEqual([['Ben keeps this one', 'Ben Okafor']]);
     expect((await t.agent.get('/api/participant/data').set('Authorization', bearer(ana))).body.notes).toBe(0);

@@ -79,6 +79,11 @@ export class ActivitiesService {
     private live: LiveService,
   ) {
     live.addSubmissionCheck((input, participant, transaction) => this.checkSubmission(input, participant, transaction));
+    live.onConsentChanged((sessionId, participantId) => {
+      this.photosOfChanged(sessionId, participantId).catch((err: unknown) => {
+        if (!this.closed) this.ctx.logger.error({ err }, 'could not announce a change of photo consent');
+      });
+    });
     live.onSubmissionCreated((view) => {
       this.afterSubmission(view).catch((err: unknown) => {
         if (!this.closed) this.ctx.logger.error({ err }, 'could not announce a new note');
@@ -204,6 +209,22 @@ export class ActivitiesService {
     this.changed(sessionId, row.itemId, rooms);
   }
 
+  /**
+   * Tells every screen to read again the boards that show a participant's photos (their consent
+   * changed, so the photos are blurred or shown): the projector and the other phones follow at once.
+   */
+  private async photosOfChanged(sessionId: string, participantId: string): Promise<void> {
+    const rows = await this.ctx.db.models.Photo.findAll({ where: { sessionId, participantId }, attributes: ['itemId'] });
+    for (const itemId of new Set(rows.map((r) => r.itemId))) this.changed(sessionId, itemId, this.everyone(sessionId));
+  }
+
+  /** Tells every screen to read every board of the session again (a participant removed all they wrote). */
+  async everythingChanged(sessionId: string): Promise<void> {
+    const workshopId = await this.live.workshopOf(sessionId);
+    const items = await this.ctx.db.models.AgendaItem.findAll({ where: { workshopId }, attributes: ['id'] });
+    for (const { id } of items) this.changed(sessionId, id, this.everyone(sessionId));
+  }
+
   /** What a screen shows of an item: the console everything; the room what is visible, without names; a phone its own and its team's. */
   async board(sessionId: string, itemId: string, viewer: Viewer): Promise<ActivityBoard> {
     const item = await this.itemOf(sessionId, itemId);
@@ -223,8 +244,9 @@ export class ActivitiesService {
       const byId = new Map(rows.map((r) => [r.id, r]));
       const sameTeam = (r: SubmissionRow) => myTeam !== null && r.teamId === myTeam;
       shown = rows.filter((r) => {
-        if (r.mergedIntoId) return false;
+        // A merged duplicate stays on its writer's phone (marked as merged there); the others see the kept note.
         if (r.participantId === me) return true;
+        if (r.mergedIntoId) return false;
         if (r.hidden) return false;
         if (LIVE_TEAM_TYPES.has(item.type)) return sameTeam(r);
         if (r.kind === 'sketch') return true;

@@ -168,6 +168,7 @@ export class LiveService {
   private closed = false;
   private submissionChecks: SubmissionCheck[] = [];
   private submissionListeners: ((submission: SubmissionView) => void)[] = [];
+  private consentListeners: ((sessionId: string, participantId: string) => void)[] = [];
   private endingSteps: ((sessionId: string, transaction: Transaction) => Promise<void>)[] = [];
 
   constructor(private ctx: AppContext) {
@@ -190,6 +191,11 @@ export class LiveService {
   /** Calls `listener` with every new submission after its commit (activities that tell more rooms than the facilitators). */
   onSubmissionCreated(listener: (submission: SubmissionView) => void): void {
     this.submissionListeners.push(listener);
+  }
+
+  /** Calls `listener` after a participant's photo consent changed (after the commit), so their photos can be shown or blurred at once. */
+  onConsentChanged(listener: (sessionId: string, participantId: string) => void): void {
+    this.consentListeners.push(listener);
   }
 
   /** Broadcasts through this socket.io server from now on. */
@@ -397,6 +403,7 @@ export class LiveService {
       return row;
     });
     this.scheduleTick(sessionId);
+    for (const listener of this.consentListeners) listener(sessionId, participantId);
     return toMe(p);
   }
 

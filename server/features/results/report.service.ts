@@ -10,6 +10,7 @@ import { AppError, errors } from '../../common/errors';
 import type { ResultsService } from './results.service';
 import { exportFileName } from './export.service';
 import { ACTIVITY_LIBRARY, PHASE_LABELS } from '../../../shared/activities';
+import { voteScoreLabel } from '../../../shared/schemas/results';
 import type {
   ActivityResult,
   NoteGroup,
@@ -244,7 +245,8 @@ class ReportWriter {
 /** Writes notes in groups, each group's label in bold. */
 function writeGroups(w: ReportWriter, groups: NoteGroup[]): void {
   for (const g of groups) {
-    w.heading(`${g.label} (${g.notes.length})`, 3);
+    // A group without a label (notes of an activity without teams) needs no heading.
+    if (g.label) w.heading(`${g.label} (${g.notes.length})`, 3);
     for (const n of g.notes) w.bullet(noteText(n), n.author);
   }
 }
@@ -292,8 +294,8 @@ function writeSection(w: ReportWriter, s: ResultSection): void {
     case 'votes': {
       const method = { dots: 'Dot vote', borda: 'Preference vote', schulze: 'Preference vote', first_choices: 'Team sort' }[s.method];
       w.write(`${method}: ${s.voted} of ${s.voters} voted${s.open ? ' (the vote was still open)' : ''}.`, { size: 9.5, color: INK.muted, gap: 2 });
-      const score = s.method === 'dots' ? 'Dots' : s.method === 'first_choices' ? 'First choices' : s.method === 'borda' ? 'Points' : 'Wins';
-      for (const block of [{ label: s.rankedBy, rows: s.overall }, ...s.tables]) {
+      for (const block of [{ id: undefined as string | undefined, label: s.rankedBy, rows: s.overall }, ...s.tables]) {
+        const score = voteScoreLabel(s.method, block.id);
         w.heading(block.label, 3);
         w.table(
           [
@@ -433,7 +435,7 @@ export function renderReportPdf(r: WorkshopResults, photos: Map<string, Buffer> 
   }
 
   w.heading('Next steps');
-  if (r.nextSteps.length === 0) w.write('No closing reflections were noted.', { color: INK.muted });
+  if (r.nextSteps.length === 0) w.write('No next steps were noted.', { color: INK.muted });
   for (const n of r.nextSteps) w.bullet(n.text, n.author);
 
   w.rule();

@@ -180,10 +180,10 @@ export function resultsRoutes(
   routes.add({
     method: 'delete',
     path: '/participant/notes',
-    summary: 'A participant removes every note they wrote in the session',
+    summary: 'A participant removes every note they wrote and every photo they took in the session',
     tag,
     access: access.participant,
-    response: z.object({ removed: z.number().int() }),
+    response: z.object({ removed: z.number().int(), photos: z.number().int() }),
     handler: ({ caller }) => {
       if (caller.kind !== 'participant') throw errors.unauthenticated('Join the session first');
       return retention.removeMyNotes(caller.participantId, caller.sessionId);

@@ -106,10 +106,10 @@ export const notesProvider: ActivityProvider = (item, input) => {
       byTheme: themed
         ? groupNotes(notes, (n) => n.themeId, (key) => (key === null ? 'Not in a theme' : (notes.find((n) => n.themeId === key)?.themeName ?? 'Theme')), themeOrder)
         : [],
-      byTeam: groupNotes(notes, (n) => n.teamId, (key) => (key === null ? 'No team' : (input.teamNames.get(key) ?? 'Team')), [
-        ...input.teams.map((t) => t.id),
-        null,
-      ]),
+      // Without teams in this activity the notes are one group with no heading, not a "No team" group.
+      byTeam: notes.some((n) => n.teamId !== null)
+        ? groupNotes(notes, (n) => n.teamId, (key) => (key === null ? 'No team' : (input.teamNames.get(key) ?? 'Team')), [...input.teams.map((t) => t.id), null])
+        : [{ key: 'all', label: '', notes }],
     },
   ];
 };
@@ -121,7 +121,8 @@ function testedTeamOf(n: NoteResult): string | null {
 
 /** Feedback capture grids of test rounds: one per team tested, four parts each. */
 export const feedbackProvider: ActivityProvider = (item, input) => {
-  const notes = input.notes.filter((n) => n.itemId === item.id && n.kind === 'feedback');
+  // Feedback on a sketch belongs to the sketch (the photos section shows it), not to a grid.
+  const notes = input.notes.filter((n) => n.itemId === item.id && n.kind === 'feedback' && !n.fields?.sketchId);
   if (notes.length === 0) return [];
   const teamIds = [...input.teams.map((t) => t.id as string | null), null].filter((id) => notes.some((n) => testedTeamOf(n) === id));
   for (const n of notes) if (!teamIds.includes(testedTeamOf(n))) teamIds.push(testedTeamOf(n));
@@ -241,8 +242,9 @@ export function voteSection(v: VoteResults): Extract<ResultSection, { kind: 'vot
   const base = { open: v.status !== 'closed', voters: v.participation.voters, voted: v.participation.voted, pairwise: null, matrix: null };
   if (v.kind === 'dot_vote') {
     const selected = new Set(v.chosen ?? v.top.selected);
-    const dots = (rows: { optionId: string; dots: number; rank: number; tied: boolean; nearTie: boolean }[]) =>
-      voteRows(v, rows.map((r) => ({ ...r, score: r.dots })), selected);
+    // "Carried forward" marks the options in the ranking they were carried forward from, not in the other tables.
+    const dots = (rows: { optionId: string; dots: number; rank: number; tied: boolean; nearTie: boolean }[], chosenHere = new Set<string>()) =>
+      voteRows(v, rows.map((r) => ({ ...r, score: r.dots })), chosenHere);
     const byCriterion = v.rules.rankBy !== OVERALL_CRITERION;
     const criteria = v.rules.criteria;
     const rankedBy = byCriterion ? (criteria.find((c) => c.id === v.rules.rankBy)?.label ?? v.rules.rankBy) : criteria.length ? 'All criteria' : 'Dots';
@@ -258,7 +260,7 @@ export function voteSection(v: VoteResults): Extract<ResultSection, { kind: 'vot
       kind: 'votes',
       method: 'dots',
       rankedBy,
-      overall: dots(byCriterion ? (v.perCriterion[v.rules.rankBy] ?? v.overall) : v.overall),
+      overall: dots(byCriterion ? (v.perCriterion[v.rules.rankBy] ?? v.overall) : v.overall, selected),
       tables,
       topN: v.rules.topN,
       tiePolicy: v.top.policy,
@@ -269,8 +271,9 @@ export function voteSection(v: VoteResults): Extract<ResultSection, { kind: 'vot
   }
   if (v.kind === 'preference_vote') {
     const selected = new Set(v.chosen ?? v.top.selected);
-    const borda = { id: 'borda', label: 'Borda count', rows: voteRows(v, v.borda.map((r) => ({ ...r, score: r.points })), selected) };
-    const schulze = { id: 'schulze', label: 'Schulze method', rows: voteRows(v, v.schulze.ranking.map((r) => ({ ...r, score: r.wins })), selected) };
+    const mark = (method: string) => (v.rules.method === method ? selected : new Set<string>());
+    const borda = { id: 'borda', label: 'Borda count', rows: voteRows(v, v.borda.map((r) => ({ ...r, score: r.points })), mark('borda')) };
+    const schulze = { id: 'schulze', label: 'Schulze method', rows: voteRows(v, v.schulze.ranking.map((r) => ({ ...r, score: r.wins })), mark('schulze')) };
     const [main, other] = v.rules.method === 'borda' ? [borda, schulze] : [schulze, borda];
     return {
       kind: 'votes',
@@ -421,15 +424,17 @@ function participantResults(input: ResultsInput): ParticipantResult[] {
 }
 
 /** Participation: who joined, consented and left an address, and who contributed to each activity. */
-function participationOf(input: ResultsInput): Participation {
+function participationOf(input: ResultsInput, votes: VoteResults[]): Participation {
   const joined = input.participants.length;
   const perActivity = input.agenda
     .map((item) => {
       const notes = input.notes.filter((n) => n.itemId === item.id);
-      const contributors = new Set(notes.map((n) => n.participantId)).size;
-      return { itemId: item.id, title: item.title, contributors, notes: notes.length, rate: joined === 0 ? 0 : contributors / joined };
+      // A vote's contributors are those who voted (as its own "N of M voted" counts them).
+      const voted = votes.filter((v) => v.itemId === item.id).reduce((sum, v) => sum + v.participation.voted, 0);
+      const contributors = Math.max(voted, new Set(notes.map((n) => n.participantId)).size);
+      return { itemId: item.id, title: item.title, contributors, notes: notes.length, rate: joined === 0 ? 0 : Math.min(1, contributors / joined) };
     })
-    .filter((a) => a.notes > 0);
+    .filter((a) => a.notes > 0 || a.contributors > 0);
   return {
     joined,
     withPhotoConsent: input.participants.filter((p) => p.photoConsent).length,
@@ -563,9 +568,9 @@ export class ResultsService {
       notes: input.notes,
       teams: teamResults(input),
       participants: participantResults(input),
-      participation: participationOf(input),
+      participation: participationOf(input, await voteResultsOf(input)),
       votes,
-      nextSteps: input.notes.filter((n) => n.kind === 'reflection'),
+      nextSteps: input.notes.filter((n) => n.kind === 'reflection' && n.part === 'next_step'),
       personalDataDeletedAt: workshop.personalDataDeletedAt?.getTime() ?? null,
     };
   }

@@ -21,10 +21,13 @@ const DAY_MS = 86_400_000;
  * counted for the retention status and erased with the names. Features add theirs to {@link PHOTO_KEEPERS}.
  */
 export interface PhotoKeeper {
-  /** How many photos the sessions still hold. */
-  count(ctx: AppContext, sessionIds: string[]): Promise<number>;
-  /** Deletes the photos' rows inside the transaction and returns the files to remove from disk after the commit. */
-  erase(ctx: AppContext, sessionIds: string[], transaction: Transaction): Promise<string[]>;
+  /** How many photos the sessions still hold (only one participant's when `participantId` is given). */
+  count(ctx: AppContext, sessionIds: string[], participantId?: string): Promise<number>;
+  /**
+   * Deletes the photos' rows inside the transaction (only one participant's when `participantId` is
+   * given) and returns the files to remove from disk after the commit.
+   */
+  erase(ctx: AppContext, sessionIds: string[], transaction: Transaction, participantId?: string): Promise<string[]>;
 }
 
 /**
@@ -32,9 +35,11 @@ export interface PhotoKeeper {
  * upload folder named after the photo's random storage key (the full picture, its thumbnail and blurred copy).
  */
 export const activityPhotos: PhotoKeeper = {
-  count: (ctx, sessionIds) => ctx.db.models.Photo.count({ where: { sessionId: sessionIds } }),
-  async erase(ctx, sessionIds, transaction) {
-    const rows = await ctx.db.models.Photo.findAll({ where: { sessionId: sessionIds }, attributes: ['id', 'storageKey'], transaction });
+  count: (ctx, sessionIds, participantId) =>
+    ctx.db.models.Photo.count({ where: participantId === undefined ? { sessionId: sessionIds } : { sessionId: sessionIds, participantId } }),
+  async erase(ctx, sessionIds, transaction, participantId) {
+    const where = participantId === undefined ? { sessionId: sessionIds } : { sessionId: sessionIds, participantId };
+    const rows = await ctx.db.models.Photo.findAll({ where, attributes: ['id', 'storageKey'], transaction });
     if (rows.length === 0) return [];
     await ctx.db.models.Photo.destroy({ where: { id: rows.map((r) => r.id) }, transaction });
     const keys = rows.map((r) => r.storageKey).filter((k) => /^[0-9a-f]{16,64}$/.test(k));
@@ -76,7 +81,11 @@ export class RetentionService {
     ]);
     return {
       retentionDays: w.retentionDays ?? null,
-      dueAt: w.retentionDays === null || w.retentionDays === undefined || lastEnd === 0 ? null : lastEnd + w.retentionDays * DAY_MS,
+      // Nothing is due once the data was deleted after the last session ended (a later session brings a new date).
+      dueAt:
+        w.retentionDays === null || w.retentionDays === undefined || lastEnd === 0 || (w.personalDataDeletedAt?.getTime() ?? 0) >= lastEnd
+          ? null
+          : lastEnd + w.retentionDays * DAY_MS,
       personalDataDeletedAt: w.personalDataDeletedAt?.getTime() ?? null,
       liveNow,
       held: { names, addresses, photos },
@@ -125,10 +134,7 @@ export class RetentionService {
       await w.save({ transaction });
       return toRemove;
     });
-    // After the commit: a file that cannot be removed now is logged, never left referenced by the database.
-    for (const file of files) {
-      await fs.rm(file, { force: true }).catch((err: unknown) => this.ctx.logger.error({ err, file }, 'could not remove a photo file'));
-    }
+    await this.removeFiles(files);
     this.ctx.logger.info({ workshopId, photos: files.length }, 'deleted the personal data of a workshop');
     return this.status(workshopId);
   }
@@ -192,14 +198,34 @@ export class RetentionService {
     return this.myData(participantId, sessionId);
   }
 
-  /** Deletes every note a participant wrote in the session, at their request; answers how many went. */
-  async removeMyNotes(participantId: string, sessionId: string): Promise<{ removed: number }> {
-    const removed = await this.ctx.db.writeTx(async (transaction) => {
+  /**
+   * Deletes every note a participant wrote in the session and every photo they took (rows and files),
+   * at their request; answers how many of each went.
+   */
+  async removeMyNotes(participantId: string, sessionId: string): Promise<{ removed: number; photos: number }> {
+    let photos = 0;
+    for (const keeper of PHOTO_KEEPERS) photos += await keeper.count(this.ctx, [sessionId], participantId);
+    const { removed, files } = await this.ctx.db.writeTx(async (transaction) => {
       const p = await this.ctx.db.models.Participant.findByPk(participantId, { transaction });
       if (!p || p.sessionId !== sessionId) throw errors.forbidden('You are not in this session any more; join again');
-      return this.ctx.db.models.Submission.destroy({ where: { participantId, sessionId }, transaction });
+      const count = await this.ctx.db.models.Submission.destroy({ where: { participantId, sessionId }, transaction });
+      const gone: string[] = [];
+      for (const keeper of PHOTO_KEEPERS) gone.push(...(await keeper.erase(this.ctx, [sessionId], transaction, participantId)));
+      return { removed: count, files: gone };
     });
-    return { removed };
+    await this.removeFiles(files);
+    this.afterRemoval?.(sessionId);
+    return { removed, photos };
+  }
+
+  /** Called after a participant removed their contributions, so the live screens can read their boards again. */
+  afterRemoval: ((sessionId: string) => void) | null = null;
+
+  /** Removes photo files after a commit: a file that cannot be removed now is logged, never left referenced by the database. */
+  private async removeFiles(files: string[]): Promise<void> {
+    for (const file of files) {
+      await fs.rm(file, { force: true }).catch((err: unknown) => this.ctx.logger.error({ err, file }, 'could not remove a photo file'));
+    }
   }
 
   private async participant(participantId: string, sessionId: string) {
