@@ -7,6 +7,7 @@ import type {
   ChoosePayload,
   DotPayload,
   MyBallot,
+  ProposeTeamsPayload,
   RankPayload,
   TeamProposal,
   VoteResults,
@@ -101,7 +102,7 @@ export interface ClientToServerEvents {
   /** Console: what may become options: earlier notes and earlier votes' chosen options. */
   'vote:sources': (payload: Record<string, never>, ack: AckFn<VoteSources>) => void;
   /** Console: Cairn's teams from the current team sort, to adjust and confirm with `teams:set`. */
-  'teams:propose': (payload: Record<string, never>, ack: AckFn<TeamProposal>) => void;
+  'teams:propose': (payload: z.input<typeof ProposeTeamsPayload>, ack: AckFn<TeamProposal>) => void;
   /** Any screen: what an activity shows of an item (a phone: its own and its team's notes; others: the room's, no names, nothing hidden). */
   'activity:board': (payload: z.input<typeof ActivityPayloads.item>, ack: AckFn<ActivityBoard>) => void;
   /** Console: every note of an item with names, hidden and merged ones, themes and promotions, to moderate. */

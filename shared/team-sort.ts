@@ -89,6 +89,8 @@ export function hungarian(cost: number[][]): { assignment: number[]; total: numb
  * @example teamSizes(18, 4) // [5, 5, 4, 4]
  */
 export function teamSizes(people: number, teams: number): number[] {
+  if (!Number.isInteger(people) || people < 0) throw new RangeError(`People must be a whole number of 0 or more, not ${people}`);
+  if (!Number.isInteger(teams)) throw new RangeError(`Teams must be a whole number, not ${teams}`);
   if (teams <= 0) return [];
   const base = Math.floor(people / teams);
   const larger = people % teams;
@@ -96,20 +98,62 @@ export function teamSizes(people: number, teams: number): number[] {
 }
 
 /**
- * Sorts participants into one team per challenge: team sizes from {@link teamSizes}, least total
- * preference cost (the challenge's place in the participant's ranking, 0 for a first choice; a challenge
- * they did not rank costs the number of challenges), solved with {@link hungarian} over team slots.
- * The larger teams go to the most-wanted challenges: lowest total preference cost over all participants,
- * then the given challenge order. Teams list their members in the order participants were given.
+ * Which team sizes a team sort may use: by default sizes that differ by at most one (which team is larger is
+ * left to the room's preferences); `sizes` fixes every team's size (in challenge order); `maxTeamSize` caps
+ * every team and lets the most wanted challenges take the people left over, no team falling below
+ * `minTeamSize` (by default the even share, ⌊people ÷ teams⌋, or the cap if smaller).
+ */
+export type TeamLayout = { sizes: number[] } | { maxTeamSize: number; minTeamSize?: number };
+
+/**
+ * The smallest and largest size each team may take under a layout, checked: a RangeError says what does not fit.
+ * @example teamBounds(7, 3) // [{ min: 2, max: 3 }, { min: 2, max: 3 }, { min: 2, max: 3 }]
+ */
+export function teamBounds(people: number, teams: number, layout?: TeamLayout): { min: number; max: number }[] {
+  if (!Number.isInteger(people) || people < 0) throw new RangeError(`People must be a whole number of 0 or more, not ${people}`);
+  if (!Number.isInteger(teams) || teams <= 0) throw new RangeError(`A team sort needs a whole number of teams, 1 or more, not ${teams}`);
+  const whole = (n: number) => Number.isInteger(n) && n >= 0;
+  if (layout && 'sizes' in layout) {
+    if (layout.sizes.length !== teams) throw new RangeError(`Give one size for each of the ${teams} teams`);
+    if (!layout.sizes.every(whole)) throw new RangeError(`Team sizes must be whole numbers of 0 or more: ${layout.sizes.join(', ')}`);
+    const sum = layout.sizes.reduce((a, b) => a + b, 0);
+    if (sum !== people) throw new RangeError(`The team sizes add up to ${sum}, not the ${people} people to sort`);
+    return layout.sizes.map((size) => ({ min: size, max: size }));
+  }
+  if (layout && 'maxTeamSize' in layout) {
+    const { maxTeamSize: max } = layout;
+    if (!whole(max) || max === 0) throw new RangeError(`The largest team size must be a whole number of 1 or more, not ${max}`);
+    const min = layout.minTeamSize ?? Math.min(max, Math.floor(people / teams));
+    if (!whole(min) || min > max) throw new RangeError(`The smallest team size must be a whole number from 0 to ${max}, not ${min}`);
+    if (max * teams < people) throw new RangeError(`${people} people do not fit in ${teams} teams of at most ${max}`);
+    if (min * teams > people) throw new RangeError(`${people} people cannot fill ${teams} teams of at least ${min}`);
+    return Array.from({ length: teams }, () => ({ min, max }));
+  }
+  const base = Math.floor(people / teams);
+  return Array.from({ length: teams }, () => ({ min: base, max: people % teams === 0 ? base : base + 1 }));
+}
+
+/**
+ * Sorts participants into one team per challenge with the least total preference cost over every layout
+ * the {@link TeamLayout} allows (by default sizes that differ by at most one). The cost of a challenge is
+ * its place in the participant's ranking (0 for a first choice); a challenge they did not rank costs the
+ * number of challenges.
+ *
+ * One assignment solves it exactly: each team has `min` required seats and `max − min` optional seats;
+ * dummy rows fill the seats nobody takes and may sit only in optional seats (0 there, a cost above any
+ * real total in a required seat), so {@link hungarian} chooses the sizes and the members together.
+ * Teams list their members in the order participants were given.
  * @example sortIntoTeams([{ id: 'p1', ranking: ['c2', 'c1'] }], ['c1', 'c2']).teams // { c1: [], c2: ['p1'] }
  */
-export function sortIntoTeams(participants: TeamSortParticipant[], challengeIds: string[]): TeamSortResult {
+export function sortIntoTeams(participants: TeamSortParticipant[], challengeIds: string[], layout?: TeamLayout): TeamSortResult {
   if (challengeIds.length === 0) throw new RangeError('A team sort needs at least one challenge');
-  const unranked = challengeIds.length;
+  const k = challengeIds.length;
+  const n = participants.length;
+  const unranked = k;
   // preference[p][c]: cost of challenge c (index into challengeIds) for participant p.
   const challengeIndex = new Map(challengeIds.map((c, i) => [c, i]));
   const preference = participants.map(({ ranking }) => {
-    const row = new Array<number>(challengeIds.length).fill(unranked);
+    const row = new Array<number>(k).fill(unranked);
     // Places count only the challenges on offer (unknown ids and repeats are skipped).
     let place = 0;
     for (const challengeId of ranking) {
@@ -119,22 +163,32 @@ export function sortIntoTeams(participants: TeamSortParticipant[], challengeIds:
     return row;
   });
 
-  const demand = challengeIds.map((_, c) => preference.reduce((sum, row) => sum + row[c], 0));
-  const mostWanted = challengeIds.map((_, c) => c).sort((x, y) => demand[x] - demand[y] || x - y);
-  const sizes = teamSizes(participants.length, challengeIds.length);
-  const slotChallenge: number[] = [];
-  mostWanted.forEach((c, i) => {
-    for (let s = 0; s < sizes[i]; s++) slotChallenge.push(c);
+  const bounds = teamBounds(n, k, layout);
+  const sumMin = bounds.reduce((sum, b) => sum + b.min, 0);
+  // No team can take more than the people the other teams' required seats leave over.
+  const seats: { challenge: number; required: boolean }[] = [];
+  bounds.forEach(({ min, max }, c) => {
+    const most = Math.min(max, n - (sumMin - min));
+    for (let s = 0; s < most; s++) seats.push({ challenge: c, required: s < min });
   });
+  const dummies = seats.length - n;
+  // Above any real total (every participant at the highest cost), so no optimum seats a dummy in a required seat.
+  const forbidden = unranked * n + 1;
+  const matrix = [
+    ...preference.map((row) => seats.map((seat) => row[seat.challenge])),
+    ...Array.from({ length: dummies }, () => seats.map((seat) => (seat.required ? forbidden : 0))),
+  ];
+  const { assignment } = hungarian(matrix);
 
-  const { assignment, total } = hungarian(preference.map((row) => slotChallenge.map((c) => row[c])));
   const teams: Record<string, string[]> = Object.fromEntries(challengeIds.map((c) => [c, [] as string[]]));
+  let cost = 0;
   const outcome = participants.map(({ id }, p) => {
-    const c = slotChallenge[assignment[p]];
+    const c = seats[assignment[p]].challenge;
     const challengeId = challengeIds[c];
     teams[challengeId].push(id);
     const place = preference[p][c];
+    cost += place;
     return { participantId: id, challengeId, choice: place === unranked ? 0 : place + 1 };
   });
-  return { teams, cost: total, outcome };
+  return { teams, cost, outcome };
 }

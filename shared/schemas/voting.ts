@@ -125,6 +125,11 @@ export const ChoosePayload = z.object({ optionIds: z.array(z.string().min(1).max
 /** Payload of `vote:choose`. */
 export type ChoosePayload = z.infer<typeof ChoosePayload>;
 
+/** Payload of `teams:propose`: optionally the largest team the facilitator allows (otherwise sizes differ by at most one). */
+export const ProposeTeamsPayload = z.object({ maxTeamSize: z.number().int().min(1).max(200).optional() }).strict();
+/** Payload of `teams:propose`. */
+export type ProposeTeamsPayload = z.infer<typeof ProposeTeamsPayload>;
+
 /** One participant's dots on one option for one criterion. */
 export const MyDot = z.object({ optionId: z.string(), criterionId: z.string(), count: z.number().int() });
 /** One participant's dots on one option for one criterion. */

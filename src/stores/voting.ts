@@ -244,9 +244,9 @@ export const useVotingStore = defineStore('voting', () => {
     return ask<VoteSources>('vote:sources');
   }
 
-  /** Cairn's proposal of teams from the current team sort. */
-  async function propose(): Promise<TeamProposal> {
-    proposal.value = await ask<TeamProposal>('teams:propose');
+  /** Cairn's proposal of teams from the current team sort, with teams of at most `maxTeamSize` when given. */
+  async function propose(maxTeamSize?: number): Promise<TeamProposal> {
+    proposal.value = await ask<TeamProposal>('teams:propose', maxTeamSize === undefined ? {} : { maxTeamSize });
     return proposal.value;
   }
 

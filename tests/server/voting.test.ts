@@ -521,6 +521,16 @@ describe('a team sort', () => {
     expect(proposal.outcome.find((o) => o.participantId === ids[4])).toMatchObject({ optionId: unlock, choice: 1 });
     expect(proposal.outcome.filter((o) => o.choice === 2)).toHaveLength(1);
 
+    // The facilitator's largest team size holds; one too small for the room is refused in words.
+    const capped = await commandData(facilitator, 'teams:propose', { maxTeamSize: 3 });
+    expect(Math.max(...capped.teams.map((team) => team.memberIds.length))).toBe(3);
+    expect(capped.cost).toBe(1);
+    const tooSmall = await command(facilitator, 'teams:propose', { maxTeamSize: 2 });
+    expect(errorCode(tooSmall)).toBe('bad_request');
+    expect(JSON.stringify(tooSmall)).toContain('5 people do not fit in 2 teams of at most 2');
+    expect(errorCode(await command(facilitator, 'teams:propose', { maxTeamSize: 0 }))).toBe('validation_failed');
+    expect(errorCode(await command(facilitator, 'teams:propose', { maxTeamSize: Number.NaN }))).toBe('validation_failed');
+
     const heard = Promise.all(phones.map((p) => nextEvent(p, 'teams:updated')));
     await commandData(facilitator, 'teams:set', {
       teams: proposal.teams.map((team, i) => ({ name: `Team ${i + 1}`, challenge: team.challenge, memberIds: team.memberIds })),

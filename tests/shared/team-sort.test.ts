@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import munkres from 'munkres-js';
-import { type TeamSortParticipant, hungarian, sortIntoTeams, teamSizes } from '../../shared/team-sort';
+import { type TeamLayout, type TeamSortParticipant, hungarian, sortIntoTeams, teamBounds, teamSizes } from '../../shared/team-sort';
 import { mulberry32 } from './random';
 
 /** The total of the munkres-js package's assignment (an independent implementation). */
@@ -23,6 +23,51 @@ function bruteForce(cost: number[][]): number {
       used[c] = true;
       min = Math.min(min, cost[row][c] + best(row + 1));
       used[c] = false;
+    }
+    return min;
+  };
+  return best(0);
+}
+
+/** Cost of a challenge for a participant: its place in their ranking, or the number of challenges if unranked. */
+function costOf(p: TeamSortParticipant, challengeIds: string[], c: string): number {
+  return p.ranking.includes(c) ? p.ranking.indexOf(c) : challengeIds.length;
+}
+
+/** Participants with shuffled rankings; some rank only their favourites. */
+function randomRoom(random: () => number, challengeIds: string[], people: number): TeamSortParticipant[] {
+  const pick = (n: number) => Math.floor(random() * n);
+  return Array.from({ length: people }, (_, i) => {
+    const ranking = [...challengeIds];
+    for (let j = ranking.length - 1; j > 0; j--) {
+      const s = pick(j + 1);
+      [ranking[j], ranking[s]] = [ranking[s], ranking[j]];
+    }
+    return { id: `p${i}`, ranking: random() < 0.25 ? ranking.slice(0, pick(ranking.length + 1)) : ranking };
+  });
+}
+
+/**
+ * The least total cost of a team sort by trying every way to put each participant in a team, kept when the
+ * sizes fit the layout: by default sizes within one of each other (the product brief's rule); with a
+ * largest size, every team between its smallest and largest size; with fixed sizes, exactly those.
+ */
+function exhaustive(participants: TeamSortParticipant[], challengeIds: string[], layout?: TeamLayout): number {
+  const k = challengeIds.length;
+  const sizes = new Array<number>(k).fill(0);
+  const fits = () => {
+    if (!layout) return Math.max(...sizes) - Math.min(...sizes) <= 1;
+    if ('sizes' in layout) return sizes.every((s, c) => s === layout.sizes[c]);
+    const min = layout.minTeamSize ?? Math.min(layout.maxTeamSize, Math.floor(participants.length / k));
+    return sizes.every((s) => s >= min && s <= layout.maxTeamSize);
+  };
+  const best = (p: number): number => {
+    if (p === participants.length) return fits() ? 0 : Infinity;
+    let min = Infinity;
+    for (let c = 0; c < k; c++) {
+      sizes[c]++;
+      min = Math.min(min, costOf(participants[p], challengeIds, challengeIds[c]) + best(p + 1));
+      sizes[c]--;
     }
     return min;
   };
@@ -190,6 +235,114 @@ describe('sortIntoTeams', () => {
     expect(() => sortIntoTeams([{ id: 'p', ranking: [] }], [])).toThrow(RangeError);
   });
 
+  // Issue 13, first room: sizes handed out by total preference gave x a team of one and cost 2, with p3 on
+  // a last choice; giving x the team of two costs 1 and nobody is worse than a second choice.
+  it('finds the best balanced split: x, y, z with p0 y>z>x, p1 y>x>z, p2 x>y>z, p3 x>y>z costs 1', () => {
+    const participants = [
+      { id: 'p0', ranking: ['y', 'z', 'x'] },
+      { id: 'p1', ranking: ['y', 'x', 'z'] },
+      { id: 'p2', ranking: ['x', 'y', 'z'] },
+      { id: 'p3', ranking: ['x', 'y', 'z'] },
+    ];
+    const result = sortIntoTeams(participants, ['x', 'y', 'z']);
+    expect(result.cost).toBe(exhaustive(participants, ['x', 'y', 'z']));
+    expect(result.cost).toBe(1);
+    expect(result.teams).toEqual({ x: ['p2', 'p3'], y: ['p1'], z: ['p0'] });
+    expect(Math.max(...result.outcome.map((o) => o.choice))).toBe(2);
+  });
+
+  // Issue 13, second room: p2 ranks only x; everyone can have a first choice.
+  it('costs 0 for x, y with p0 y>x, p1 y>x and p2 ranking only x', () => {
+    const participants = [
+      { id: 'p0', ranking: ['y', 'x'] },
+      { id: 'p1', ranking: ['y', 'x'] },
+      { id: 'p2', ranking: ['x'] },
+    ];
+    const result = sortIntoTeams(participants, ['x', 'y']);
+    expect(result.cost).toBe(0);
+    expect(result.teams).toEqual({ x: ['p2'], y: ['p0', 'p1'] });
+  });
+
+  it('keeps the sizes the facilitator sets', () => {
+    const participants = ['a', 'b', 'c', 'd', 'e'].map((id) => ({ id, ranking: ['x', 'y', 'z'] }));
+    const result = sortIntoTeams(participants, ['x', 'y', 'z'], { sizes: [1, 1, 3] });
+    expect([result.teams.x.length, result.teams.y.length, result.teams.z.length]).toEqual([1, 1, 3]);
+    expect(result.cost).toBe(0 + 1 + 3 * 2);
+  });
+
+  it('holds the facilitator’s largest team size and lets the wanted challenge take the people left over', () => {
+    // 10 people, 3 challenges, everyone wants x first: even sizes give x 4; a largest team of 5 lets x take
+    // the one person left over beyond the even share of 3 (never more than 5).
+    const participants = Array.from({ length: 10 }, (_, i) => ({ id: `p${i}`, ranking: ['x', 'y', 'z'] }));
+    const even = sortIntoTeams(participants, ['x', 'y', 'z']);
+    expect(even.teams.x).toHaveLength(4);
+    const capped = sortIntoTeams(participants, ['x', 'y', 'z'], { maxTeamSize: 5 });
+    expect(capped.teams.x).toHaveLength(4); // the even share 3 for y and z leaves 4
+    const loose = sortIntoTeams(participants, ['x', 'y', 'z'], { maxTeamSize: 5, minTeamSize: 2 });
+    expect(loose.teams.x).toHaveLength(5);
+    expect(Math.max(...Object.values(loose.teams).map((t) => t.length))).toBeLessThanOrEqual(5);
+    expect(loose.cost).toBe(exhaustive(participants.slice(0, 10), ['x', 'y', 'z'], { maxTeamSize: 5, minTeamSize: 2 }));
+  });
+
+  it('refuses layouts that do not fit the room, saying why', () => {
+    const five = ['a', 'b', 'c', 'd', 'e'].map((id) => ({ id, ranking: ['x'] }));
+    expect(() => sortIntoTeams(five, ['x', 'y'], { maxTeamSize: 2 })).toThrow('5 people do not fit in 2 teams of at most 2');
+    expect(() => sortIntoTeams(five, ['x', 'y'], { sizes: [2, 2] })).toThrow('add up to 4, not the 5 people');
+    expect(() => sortIntoTeams(five, ['x', 'y'], { sizes: [2, Number.NaN] })).toThrow(RangeError);
+    expect(() => sortIntoTeams(five, ['x', 'y'], { maxTeamSize: Number.NaN })).toThrow('largest team size');
+    expect(() => sortIntoTeams(five, ['x', 'y'], { maxTeamSize: 4, minTeamSize: 3 })).toThrow('cannot fill 2 teams of at least 3');
+  });
+
+  it('gives the least cost of every allowed layout on seeded random small rooms (exhaustive search)', () => {
+    const random = mulberry32(13_0002);
+    const pick = (n: number) => Math.floor(random() * n);
+    let unevenBest = 0;
+    for (let room = 0; room < 150; room++) {
+      const challengeIds = Array.from({ length: 1 + pick(4) }, (_, i) => `c${i}`);
+      const participants = randomRoom(random, challengeIds, pick(8));
+      const layouts: (TeamLayout | undefined)[] = [undefined, { maxTeamSize: Math.ceil(participants.length / challengeIds.length) + pick(3), minTeamSize: pick(2) }];
+      for (const layout of layouts) {
+        let bounds: { min: number; max: number }[];
+        try {
+          bounds = teamBounds(participants.length, challengeIds.length, layout);
+        } catch {
+          continue;
+        }
+        const result = sortIntoTeams(participants, challengeIds, layout);
+        const sizes = challengeIds.map((c) => result.teams[c].length);
+        sizes.forEach((size, c) => {
+          expect(size).toBeGreaterThanOrEqual(bounds[c].min);
+          expect(size).toBeLessThanOrEqual(bounds[c].max);
+        });
+        expect(result.cost, `room ${room} ${JSON.stringify(layout)}`).toBe(exhaustive(participants, challengeIds, layout));
+        if (layout && Math.max(...sizes) - Math.min(...sizes) > 1) unevenBest++;
+      }
+    }
+    expect(unevenBest).toBeGreaterThan(5); // the draw reaches layouts beyond "within one"
+  });
+
+  it('matches munkres-js on the same expanded matrix for a 40 × 6 room', () => {
+    const random = mulberry32(40_06);
+    const challengeIds = Array.from({ length: 6 }, (_, i) => `c${i}`);
+    for (const layout of [undefined, { maxTeamSize: 9 }] as (TeamLayout | undefined)[]) {
+      const participants = randomRoom(random, challengeIds, 40);
+      const result = sortIntoTeams(participants, challengeIds, layout);
+      // The expanded matrix written from the issue's description: each team ⌊n/k⌋ required seats (or its
+      // smallest size), optional seats up to its largest size; dummy rows only in optional seats.
+      const bounds = teamBounds(40, 6, layout);
+      const seats = bounds.flatMap(({ min, max }, c) => Array.from({ length: max }, (_, s) => ({ c, required: s < min })));
+      const big = 6 * 40 + 1;
+      const matrix = [
+        ...participants.map((p) => seats.map((seat) => costOf(p, challengeIds, challengeIds[seat.c]))),
+        ...Array.from({ length: seats.length - 40 }, () => seats.map((seat) => (seat.required ? big : 0))),
+      ];
+      expect(result.cost).toBe(munkresTotal(matrix));
+      expect(result.outcome.reduce((sum, o, i) => sum + costOf(participants[i], challengeIds, o.challengeId), 0)).toBe(result.cost);
+      const sizes = challengeIds.map((c) => result.teams[c].length);
+      expect(Math.max(...sizes)).toBeLessThanOrEqual(layout ? 9 : 7);
+    }
+  });
+
   it('agrees with munkres-js on random rooms up to 40 people × 6 teams, with sizes within one', () => {
     const random = mulberry32(2026);
     const pick = (n: number) => Math.floor(random() * n);
@@ -211,18 +364,15 @@ describe('sortIntoTeams', () => {
       expect(Math.max(...sizes) - Math.min(...sizes)).toBeLessThanOrEqual(1);
       expect(new Set(Object.values(result.teams).flat()).size).toBe(participants.length);
 
-      // Cost of challenge c for a participant: its place in their ranking, or the number of challenges.
-      const costOf = (p: TeamSortParticipant, c: string) =>
-        p.ranking.includes(c) ? p.ranking.indexOf(c) : challengeIds.length;
       const choiceCost = (choice: number) => (choice === 0 ? challengeIds.length : choice - 1);
       expect(result.outcome.reduce((sum, o) => sum + choiceCost(o.choice), 0)).toBe(result.cost);
       if (participants.length === 0) continue;
 
-      // Expand the same team sizes into slots and let munkres-js find the least total on its own.
+      // For the sizes Cairn chose, munkres-js finds no cheaper assignment on its own.
       const slots = challengeIds.flatMap((c, i) => new Array<string>(sizes[i]).fill(c));
-      const cost = participants.map((p) => slots.map((c) => costOf(p, c)));
+      const cost = participants.map((p) => slots.map((c) => costOf(p, challengeIds, c)));
       expect(result.cost, `instance ${k}`).toBe(munkresTotal(cost));
-      const ours = result.outcome.reduce((sum, o, i) => sum + costOf(participants[i], o.challengeId), 0);
+      const ours = result.outcome.reduce((sum, o, i) => sum + costOf(participants[i], challengeIds, o.challengeId), 0);
       expect(ours).toBe(result.cost);
     }
   });

@@ -32,6 +32,7 @@ import {
   type MyBallot,
   type Participation,
   type PreferenceResults,
+  type ProposeTeamsPayload,
   type RankPayload,
   type TeamProposal,
   type TeamSortResults,
@@ -558,9 +559,10 @@ export class VotingService {
   /**
    * Cairn's teams for the current team sort: one team per challenge, everyone who ranked the challenges or
    * is online now, sizes differing by at most one and the least total preference cost (shared/team-sort.ts).
-   * The proposal is kept with the vote; the facilitator adjusts it and confirms it with `teams:set`.
+   * With a largest team size, teams hold at most that many and the most wanted challenges take the people
+   * left over. The proposal is kept with the vote; the facilitator adjusts it and confirms it with `teams:set`.
    */
-  async propose(sessionId: string): Promise<TeamProposal> {
+  async propose(sessionId: string, given: ProposeTeamsPayload = {}): Promise<TeamProposal> {
     const { VoteRanking, Vote } = this.ctx.db.models;
     const item = await this.currentVoteItem(sessionId);
     const row = await this.readyVote(sessionId, item.id);
@@ -573,9 +575,14 @@ export class VotingService {
     const placed = people.filter((p) => p.online || rankingOf.has(p.id));
     if (placed.length === 0) throw errors.conflict('Nobody is in the room to sort into teams yet');
     const optionIds = row.options.map((o) => o.id);
+    const { maxTeamSize } = given;
+    if (maxTeamSize !== undefined && maxTeamSize * optionIds.length < placed.length) {
+      throw errors.badRequest(`${placed.length} people do not fit in ${optionIds.length} teams of at most ${maxTeamSize}`);
+    }
     const result = sortIntoTeams(
       placed.map((p) => ({ id: p.id, ranking: rankingOf.get(p.id) ?? [] })),
       optionIds,
+      maxTeamSize === undefined ? undefined : { maxTeamSize },
     );
     const name = new Map(placed.map((p) => [p.id, p.displayName]));
     const proposal: TeamProposal = {

@@ -3,7 +3,7 @@ import { EDIT_ROLES } from '../../common/access';
 import type { LiveCommands, LiveSocket } from '../live/live.socket';
 import type { VotingService } from './voting.service';
 import { LivePayloads } from '../../../shared/events';
-import { ChoosePayload, DotPayload, RankPayload, VoteSetupPayload } from '../../../shared/schemas/voting';
+import { ChoosePayload, DotPayload, ProposeTeamsPayload, RankPayload, VoteSetupPayload } from '../../../shared/schemas/voting';
 
 /**
  * Voting commands on a live socket: the facilitators set up, open, close and carry forward; phones
@@ -46,8 +46,5 @@ export function registerVotingSocket({ on, parse }: LiveCommands, voting: Voting
     empty(payload);
     return voting.sources(who.sessionId);
   });
-  on('teams:propose', 'runner', async (payload, who) => {
-    empty(payload);
-    return voting.propose(who.sessionId);
-  });
+  on('teams:propose', 'runner', async (payload, who) => voting.propose(who.sessionId, parse(ProposeTeamsPayload, payload ?? {})));
 }
