@@ -4,6 +4,7 @@ import path from 'node:path';
 import fs from 'node:fs';
 import helmet from 'helmet';
 import cookieParser from 'cookie-parser';
+import compression from 'compression';
 import { pino } from 'pino';
 import { pinoHttp } from 'pino-http';
 import { Server } from 'socket.io';
@@ -13,6 +14,7 @@ import { seedDemo } from './db/seed';
 import { TokenService } from './common/tokens';
 import { ApiRoutes } from './common/route';
 import { errorHandler, notFoundHandler } from './common/errors';
+import { serveClient } from './common/client-assets';
 import type { AppContext } from './context';
 import { Mailer } from './features/mail/mail.service';
 import { AuthService } from './features/auth/auth.service';
@@ -134,6 +136,8 @@ export async function createApp(config: Config): Promise<CairnApp> {
     }),
   );
   app.use(pinoHttp({ logger, autoLogging: config.nodeEnv !== 'test' }));
+  // Dynamic answers (JSON, CSV, the report); the built client is compressed at build time (serveClient).
+  app.use(compression());
   app.use(cookieParser());
   app.use('/api', express.json({ limit: '100kb' }));
 
@@ -161,8 +165,7 @@ export async function createApp(config: Config): Promise<CairnApp> {
   app.use('/api', notFoundHandler);
 
   if (fs.existsSync(path.join(DIST_DIR, 'index.html'))) {
-    app.use(express.static(DIST_DIR, { index: false, maxAge: '1h' }));
-    app.get(/^\/(?!api\/|socket\.io\/).*/, (_req, res) => res.sendFile(path.join(DIST_DIR, 'index.html')));
+    serveClient(app, DIST_DIR);
   }
   app.use(errorHandler);
 

@@ -1,11 +1,15 @@
 import { createRouter, createWebHistory, type RouteRecordRaw } from 'vue-router';
 import { useSessionStore } from '../stores/session';
 
-/** Route meta: `public` routes need no sign-in; `admin` routes need the admin role. */
+/**
+ * Route meta: `public` routes need no sign-in; `admin` routes need the admin role; `phone` routes are a
+ * participant's, who has no account, so they never ask for the sign-in cookie.
+ */
 declare module 'vue-router' {
   interface RouteMeta {
     public?: boolean;
     admin?: boolean;
+    phone?: boolean;
   }
 }
 
@@ -25,7 +29,7 @@ const routes: RouteRecordRaw[] = [
       { path: 'workshops/:workshopId/results', name: 'workshop-results', component: () => import('../pages/workshop-results.vue'), props: true },
       { path: 'workshops/:workshopId/report', name: 'workshop-report', component: () => import('../pages/workshop-report.vue'), props: true },
       // A phone's own data (address for the report, removing its notes); public: the phone holds its participant token.
-      { path: 'phone/:sessionId/my-data', name: 'phone-data', component: () => import('../pages/phone-data.vue'), props: true, meta: { public: true } },
+      { path: 'phone/:sessionId/my-data', name: 'phone-data', component: () => import('../pages/phone-data.vue'), props: true, meta: { public: true, phone: true } },
       { path: 'invitations/accept', name: 'invitation-accept', component: () => import('../pages/invitation-accept.vue'), meta: { public: true } },
       { path: 'account', name: 'account', component: () => import('../pages/account.vue') },
       { path: 'admin/accounts', name: 'admin-accounts', component: () => import('../pages/admin-accounts.vue'), meta: { admin: true } },
@@ -47,13 +51,13 @@ const routes: RouteRecordRaw[] = [
     path: '/join',
     component: () => import('../layouts/PhoneLayout.vue'),
     children: [
-      { path: ':code?', name: 'join', component: () => import('../pages/join.vue'), meta: { public: true } },
+      { path: ':code?', name: 'join', component: () => import('../pages/join.vue'), meta: { public: true, phone: true } },
     ],
   },
   {
     path: '/phone/:sessionId',
     component: () => import('../layouts/PhoneLayout.vue'),
-    children: [{ path: '', name: 'phone', component: () => import('../pages/phone.vue'), props: true, meta: { public: true } }],
+    children: [{ path: '', name: 'phone', component: () => import('../pages/phone.vue'), props: true, meta: { public: true, phone: true } }],
   },
   {
     path: '/:pathMatch(.*)*',
@@ -66,9 +70,15 @@ const routes: RouteRecordRaw[] = [
 export function createCairnRouter() {
   const router = createRouter({ history: createWebHistory(), routes });
   router.beforeEach(async (to) => {
+    // A phone has no account: asking for the sign-in cookie would only cost it a round trip and a 401.
+    if (to.meta.phone) return true;
     const session = useSessionStore();
+    // Public pages render at once and show the account when the sign-in cookie has been read.
+    if (to.meta.public) {
+      void session.restore();
+      return true;
+    }
     await session.restore();
-    if (to.meta.public) return true;
     if (!session.signedIn) return { name: 'sign-in', query: { next: to.fullPath } };
     if (to.meta.admin && !session.isAdmin) return { name: 'workshops' };
     return true;

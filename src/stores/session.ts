@@ -21,6 +21,7 @@ export const useSessionStore = defineStore('session', () => {
 
   /** Renews the access token from the refresh cookie (one request at a time). */
   function renew(): Promise<boolean> {
+    const before = accessToken.value;
     renewing ??= authApi
       .refresh()
       .then((a) => {
@@ -28,6 +29,8 @@ export const useSessionStore = defineStore('session', () => {
         return true;
       })
       .catch(() => {
+        // A sign-in that finished meanwhile (public pages restore in the background) keeps its tokens.
+        if (accessToken.value !== before) return true;
         user.value = null;
         accessToken.value = null;
         return false;
