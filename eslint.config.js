@@ -31,4 +31,33 @@ export default tseslint.config(
       'vue/no-v-html': 'error',
     },
   },
+  // The architecture's "nevers" (DEVELOPERS.md): shared/ imports neither the server, the client
+  // nor Node; the client never imports the server; a service never imports a handler.
+  {
+    files: ['shared/**/*.ts'],
+    rules: {
+      'no-restricted-imports': ['error', {
+        patterns: [
+          { group: ['**/server/**', '../server', '**/src/**', '../src', '@/*'], message: 'shared/ is imported by the client and the server; it imports neither.' },
+          { group: ['node:*', 'fs', 'path', 'crypto', 'os', 'vue', 'quasar', 'pinia'], message: 'shared/ runs in the browser and in Node: no runtime-specific modules.' },
+        ],
+      }],
+    },
+  },
+  {
+    files: ['src/**/*.ts', 'src/**/*.vue'],
+    rules: {
+      'no-restricted-imports': ['error', {
+        patterns: [{ group: ['**/server/**', '../server'], message: 'The client talks to the server over HTTP and sockets, never by import.' }],
+      }],
+    },
+  },
+  {
+    files: ['server/**/*.service.ts'],
+    rules: {
+      'no-restricted-imports': ['error', {
+        patterns: [{ group: ['**/*.socket', '**/*.socket.js', '**/*.router', '**/*.router.js'], message: 'A service holds the rules; handlers call services, never the other way round.' }],
+      }],
+    },
+  },
 );
