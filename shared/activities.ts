@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import type { ActivitySettings, ActivityType, AgendaItem, Criterion, Phase } from './schemas/agenda-item';
+import type { SubmissionInput } from './schemas/live';
 
 /** Everything Cairn can put on a packing list. */
 export const MaterialKey = z.enum([
@@ -93,6 +94,8 @@ export interface ActivityDefinition {
   isBreak: boolean;
   /** Asks people to move about the room. */
   movement: boolean;
+  /** The kinds of note phones may send to it; none for a talk, a break or a vote (votes go as ballots). */
+  noteKinds: readonly SubmissionInput['kind'][];
   materials: MaterialRule[];
   description: string;
 }
@@ -148,13 +151,14 @@ const refreshments = (snackSource: string, waterSource: string): MaterialRule[] 
 ];
 
 function activity(
-  def: Omit<ActivityDefinition, 'minTimeboxMin' | 'talkOnly' | 'isBreak' | 'movement'> &
-    Partial<Pick<ActivityDefinition, 'minTimeboxMin' | 'talkOnly' | 'isBreak' | 'movement'>>,
+  def: Omit<ActivityDefinition, 'minTimeboxMin' | 'talkOnly' | 'isBreak' | 'movement' | 'noteKinds'> &
+    Partial<Pick<ActivityDefinition, 'minTimeboxMin' | 'talkOnly' | 'isBreak' | 'movement' | 'noteKinds'>>,
 ): ActivityDefinition {
   return {
     talkOnly: false,
     isBreak: false,
     movement: false,
+    noteKinds: [],
     minTimeboxMin: defaultMinTimebox(def.defaultTimeboxMin),
     ...def,
   };
@@ -190,6 +194,7 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
   }),
   interview: activity({
     type: 'interview',
+    noteKinds: ['note'],
     label: 'Interview',
     phase: 'empathize',
     defaultTimeboxMin: 25,
@@ -207,6 +212,7 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
   }),
   empathy_map: activity({
     type: 'empathy_map',
+    noteKinds: ['note'],
     label: 'Empathy map',
     phase: 'empathize',
     defaultTimeboxMin: 25,
@@ -222,6 +228,7 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
   }),
   insights: activity({
     type: 'insights',
+    noteKinds: ['note'],
     label: 'Insights',
     phase: 'define',
     defaultTimeboxMin: 15,
@@ -241,6 +248,7 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
   }),
   point_of_view: activity({
     type: 'point_of_view',
+    noteKinds: ['point_of_view'],
     label: 'Point of view',
     phase: 'define',
     defaultTimeboxMin: 10,
@@ -253,6 +261,7 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
   }),
   how_might_we: activity({
     type: 'how_might_we',
+    noteKinds: ['how_might_we'],
     label: 'How might we',
     phase: 'define',
     defaultTimeboxMin: 15,
@@ -301,6 +310,7 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
   }),
   sketch: activity({
     type: 'sketch',
+    noteKinds: ['sketch', 'feedback'],
     label: 'Sketch',
     phase: 'ideate',
     defaultTimeboxMin: 25,
@@ -321,6 +331,7 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
   }),
   storyboard: activity({
     type: 'storyboard',
+    noteKinds: ['frame'],
     label: 'Storyboard',
     phase: 'prototype',
     defaultTimeboxMin: 30,
@@ -336,6 +347,7 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
   }),
   test_rounds: activity({
     type: 'test_rounds',
+    noteKinds: ['feedback'],
     label: 'Test rounds',
     phase: 'test',
     defaultTimeboxMin: 30,
@@ -405,6 +417,7 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
   }),
   closing: activity({
     type: 'closing',
+    noteKinds: ['reflection'],
     label: 'Closing',
     phase: 'closing',
     defaultTimeboxMin: 15,
@@ -417,6 +430,17 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
     description: 'What happens next, and a short reflection from everyone.',
   }),
 };
+
+/**
+ * Why a phone's note of a kind cannot go to an activity of a type, or `null` when it can: a talk, a
+ * break or a vote takes no notes, and each other activity only its own kinds.
+ * @example noteRefusal('break', 'note') // 'This activity takes no notes'
+ */
+export function noteRefusal(type: ActivityType, kind: SubmissionInput['kind']): string | null {
+  const kinds = ACTIVITY_LIBRARY[type].noteKinds;
+  if (kinds.includes(kind)) return null;
+  return kinds.length === 0 ? 'This activity takes no notes' : 'This activity takes other kinds of notes';
+}
 
 /**
  * Whether an agenda item is a break (a break or lunch, or any item placed in the break phase).

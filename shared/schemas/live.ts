@@ -138,6 +138,9 @@ export const LiveSessionInfo = z.object({
 /** What the facilitator gets when starting a live session. */
 export type LiveSessionInfo = z.infer<typeof LiveSessionInfo>;
 
+/** Fields one note may carry: a guided sentence has three, a test round's feedback two (common practice: headroom of twice that). */
+export const NOTE_FIELDS_MAX = 8;
+
 /** A submission from a phone; `clientId` makes a retried submission land once. */
 export const SubmissionInput = z.object({
   clientId: z.string().min(8).max(64),
@@ -148,7 +151,10 @@ export const SubmissionInput = z.object({
   part: z.string().max(30).optional(),
   text: z.string().trim().min(1, 'Write something first').max(500, 'Keep a note under 500 characters'),
   /** Structured fields of guided sentences (user, need, insight …). */
-  fields: z.record(z.string().max(30), z.string().max(300)).optional(),
+  fields: z
+    .record(z.string().max(30), z.string().max(300))
+    .refine((f) => Object.keys(f).length <= NOTE_FIELDS_MAX, `A note carries at most ${NOTE_FIELDS_MAX} fields`)
+    .optional(),
 });
 /** A submission from a phone. */
 export type SubmissionInput = z.infer<typeof SubmissionInput>;

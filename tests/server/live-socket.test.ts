@@ -465,7 +465,8 @@ describe('submissions', () => {
   });
 
   it('lists the submissions of an item for the facilitator, with guided-sentence fields', async () => {
-    const state = await commandData(facilitator, 'session:sync');
+    // The demo's point-of-view activity (a guided sentence is what it takes).
+    const state = await goto(6);
     const itemId = state.item!.id;
     await commandData(phoneB, 'submission:create', {
       clientId: 'pov-0001',

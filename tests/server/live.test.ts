@@ -9,6 +9,7 @@ import {
   addMember,
   bearer,
   command,
+  commandData,
   createStranger,
   demoWorkshop,
   joinLive,
@@ -290,6 +291,11 @@ describe('stopping a live session', () => {
     const info = await startLive(t, owner, workshopId);
     const phone = await joinLive(t, info.joinCode, { displayName: 'Ada', photoConsent: true });
     const socket = await t.connect(phone.token);
+    // The first activity that takes plain notes.
+    const runner = await t.connect(owner);
+    await commandData(runner, 'session:watch', { sessionId: info.sessionId });
+    const agenda = await t.cairn.ctx.db.models.AgendaItem.findAll({ where: { workshopId }, order: [['position', 'ASC']] });
+    await commandData(runner, 'session:goto', { index: agenda.findIndex((i) => i.type === 'insights') });
     const state = await command(socket, 'session:sync');
     if (!('data' in state)) throw new Error('sync was refused');
     const itemId = state.data.item!.id;

@@ -7,6 +7,7 @@ import { liveRooms, type LiveIo, type LiveService } from '../live/live.service';
 import { photoCleared } from './photos.service';
 import { pairsForRound, roundRobinLength, testRotation } from '../../../shared/rotations';
 import { fieldErrors } from '../../../shared/errors';
+import { noteRefusal } from '../../../shared/activities';
 import type { ActivityType } from '../../../shared/schemas/agenda-item';
 import type { SubmissionInput, SubmissionView } from '../../../shared/schemas/live';
 import {
@@ -111,7 +112,11 @@ export class ActivitiesService {
   async checkSubmission(input: SubmissionInput, participant: ParticipantRow, transaction: Transaction): Promise<void> {
     const { AgendaItem, Submission, Team, Participant, Photo } = this.ctx.db.models;
     const item = await AgendaItem.findByPk(input.itemId, { transaction });
-    if (!item || !NOTE_TYPES.has(item.type)) return;
+    if (!item) throw errors.notFound('That activity');
+    // A talk, a break or a vote takes no notes at all; every other activity only its own kinds.
+    const refusal = noteRefusal(item.type as ActivityType, input.kind);
+    if (refusal) throw refuse(refusal);
+    if (!NOTE_TYPES.has(item.type)) return;
     const type = item.type as ActivityType;
     const parts = notePartsFor(type, item.settings);
     // An activity with parts files every note under one (the phone always offers them); one without takes none.
