@@ -50,6 +50,10 @@ const THUMB_SIDE = 480;
 /** The blurred copy is made from a picture this small, so no face can be read back out of it. */
 const BLUR_SOURCE_SIDE = 24;
 
+/** How long a retry that lost the race waits for the first copy's note: up to 40 × 50 ms. */
+const RACE_WAIT_TRIES = 40;
+const RACE_WAIT_MS = 50;
+
 const unsupported = () =>
   new AppError(415, 'unsupported_media', 'That file is not a photo Cairn can take: send a PNG, JPEG or WebP picture');
 
@@ -60,6 +64,9 @@ const unsupported = () =>
  * and serves them only to screens of the photo's session, blurred where consent is not on record.
  */
 export class PhotosService {
+  /** Uploads being stored now, by participant and clientId. */
+  private inFlight = new Map<string, Promise<PhotoUploadAnswer>>();
+
   constructor(
     private ctx: AppContext,
     private live: LiveService,
@@ -81,6 +88,24 @@ export class PhotosService {
    * passed, and removed again when the note is refused.
    */
   async upload(participantId: string, sessionId: string, fields: PhotoUploadFields, file: Buffer | undefined): Promise<PhotoUploadAnswer> {
+    const key = `${participantId}\n${fields.clientId}`;
+    // A retry sent while the first copy is still being stored waits for it and gets what it stored;
+    // if the first failed, the next one tries on its own.
+    for (let running = this.inFlight.get(key); running; running = this.inFlight.get(key)) {
+      const first = await running.catch(() => null);
+      if (first) return { ...first, duplicate: true };
+    }
+    const attempt = this.store(participantId, sessionId, fields, file);
+    this.inFlight.set(key, attempt);
+    try {
+      return await attempt;
+    } finally {
+      if (this.inFlight.get(key) === attempt) this.inFlight.delete(key);
+    }
+  }
+
+  /** Stores one upload (see `upload`, which keeps copies of one upload from racing each other). */
+  private async store(participantId: string, sessionId: string, fields: PhotoUploadFields, file: Buffer | undefined): Promise<PhotoUploadAnswer> {
     const { Submission, Photo, AgendaItem, LiveSession } = this.ctx.db.models;
     const first = await Submission.findOne({ where: { participantId, clientId: fields.clientId }, attributes: ['id', 'fields'] });
     if (first) return { submissionId: first.id, photoId: first.fields?.photoId ?? '', duplicate: true };
@@ -97,10 +122,10 @@ export class PhotosService {
     if (session.locked) throw new AppError(409, 'input_locked', 'The facilitator has locked input for now');
     if (!item || item.workshopId !== session.workshopId) throw errors.notFound('That agenda item');
     if (!PHOTO_TYPES.has(item.type as ActivityType)) throw errors.badRequest('This activity does not take photos');
+    const tooMany = (mine: number) =>
+      errors.badRequest(`You have added ${mine} photos to this activity, the most one person can; ask the facilitator to hide some`);
     const mine = await Photo.count({ where: { participantId, itemId: item.id } });
-    if (mine >= ACTIVITY_LIMITS.photosPerPersonPerItem) {
-      throw errors.badRequest(`You have added ${mine} photos to this activity, the most one person can; ask the facilitator to hide some`);
-    }
+    if (mine >= ACTIVITY_LIMITS.photosPerPersonPerItem) throw tooMany(mine);
 
     const type = sniffImageType(file);
     if (!type) throw unsupported();
@@ -117,8 +142,11 @@ export class PhotosService {
         await fs.writeFile(files[key], data, { flag: 'wx', mode: 0o600 });
         written.push(files[key]);
       }
-      photo = await this.ctx.db.writeTx((transaction) =>
-        Photo.create(
+      photo = await this.ctx.db.writeTx(async (transaction) => {
+        // Counted again inside the writer, so uploads that passed the first count together cannot pass the limit.
+        const stored = await Photo.count({ where: { participantId, itemId: item.id }, transaction });
+        if (stored >= ACTIVITY_LIMITS.photosPerPersonPerItem) throw tooMany(stored);
+        return Photo.create(
           {
             id: crypto.randomUUID(),
             sessionId,
@@ -135,8 +163,8 @@ export class PhotosService {
             createdAt: new Date(),
           },
           { transaction },
-        ),
-      );
+        );
+      });
       const made = await this.live.createSubmission(participantId, sessionId, {
         clientId: fields.clientId,
         itemId: item.id,
@@ -149,10 +177,15 @@ export class PhotosService {
       const madePhoto = photo as PhotoRow | null;
       if (madePhoto) await this.ctx.db.writeTx((transaction) => madePhoto.destroy({ transaction })).catch(() => undefined);
       await removeFiles();
-      // A retry that raced this one past the first lookup: answer with what it stored.
+      // A copy that raced this one past the first lookup (in another process): answer with what it stored,
+      // once its note is there too.
       if (err instanceof UniqueConstraintError) {
-        const again = await Submission.findOne({ where: { participantId, clientId: fields.clientId }, attributes: ['id', 'fields'] });
-        if (again) return { submissionId: again.id, photoId: again.fields?.photoId ?? '', duplicate: true };
+        for (let i = 0; i < RACE_WAIT_TRIES; i++) {
+          const again = await Submission.findOne({ where: { participantId, clientId: fields.clientId }, attributes: ['id', 'fields'] });
+          if (again) return { submissionId: again.id, photoId: again.fields?.photoId ?? '', duplicate: true };
+          await new Promise((resolve) => setTimeout(resolve, RACE_WAIT_MS));
+        }
+        throw errors.conflict('This photo is still being stored; try again in a moment');
       }
       throw err;
     }
