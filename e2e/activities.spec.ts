@@ -1,6 +1,6 @@
 import { test, expect, type Locator, type Page } from '@playwright/test';
 import { PNG } from 'pngjs';
-import { DEMO, expectAccessible, joinPhone, shot, signIn } from './fixtures';
+import { DEMO, expectAccessible, joinPhone, runLive, shot, signIn } from './fixtures';
 
 // The full-day template's agenda, by position (see shared/templates.ts).
 const AGENDA = { interview: 2, empathyMap: 3, howMightWe: 7, sketch: 11, testRounds: 15 };
@@ -62,7 +62,7 @@ test('activities on the phones, the console and the projector: pairs, a team map
 
   await signIn(consolePage, DEMO.facilitator);
   await consolePage.getByRole('link', { name: title }).click();
-  await consolePage.getByTestId('run-live').click();
+  await runLive(consolePage);
   await expect(consolePage.getByTestId('console-activity')).toBeVisible();
   const code = (await consolePage.getByTestId('console-code').textContent())!.trim();
   const projectorUrl = await consolePage.getByTestId('open-projector').getAttribute('href');

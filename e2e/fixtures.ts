@@ -46,3 +46,10 @@ export async function joinPhone(browser: Browser, joinUrl: string, name: string,
   await expect(page.getByTestId('connection')).toHaveText('Connected');
   return page;
 }
+
+/** Presses "Run live" on a workshop's plan page and starts the session as a rehearsal or the day. */
+export async function runLive(page: Page, kind: 'rehearsal' | 'day' = 'day'): Promise<void> {
+  await page.getByTestId('run-live').click();
+  await page.getByRole('radio', { name: kind === 'day' ? 'The day itself' : 'A rehearsal' }).click();
+  await page.getByRole('button', { name: 'Start the session' }).click();
+}

@@ -1,7 +1,7 @@
 import { test, expect, type Browser, type Page } from '@playwright/test';
 import { PNG } from 'pngjs';
 import jsQR from 'jsqr';
-import { DEMO, expectAccessible, shot, signIn } from './fixtures';
+import { DEMO, expectAccessible, runLive, shot, signIn } from './fixtures';
 
 /** Parses a countdown label (MM:SS or H:MM:SS) into seconds. */
 function seconds(label: string): number {
@@ -32,7 +32,7 @@ test('a live run: QR join, two phones, advancing, countdowns that agree, and a p
   const consolePage = await consoleContext.newPage();
   await signIn(consolePage, DEMO.facilitator);
   await consolePage.getByRole('link', { name: "A new member's first ride" }).click();
-  await consolePage.getByTestId('run-live').click();
+  await runLive(consolePage);
   await expect(consolePage.getByTestId('console-activity')).toBeVisible();
   const code = (await consolePage.getByTestId('console-code').textContent())!.trim();
   expect(code).toMatch(/^[23456789ABCDEFGHJKMNPQRSTUVWXYZ]{7}$/);

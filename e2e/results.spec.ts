@@ -3,7 +3,7 @@ import path from 'node:path';
 import { test, expect, type Page } from '@playwright/test';
 import { parse } from 'csv-parse/sync';
 import * as pdfjs from 'pdfjs-dist/legacy/build/pdf.mjs';
-import { DEMO, expectAccessible, joinPhone, shot, signIn } from './fixtures';
+import { DEMO, expectAccessible, joinPhone, runLive, shot, signIn } from './fixtures';
 
 /** Clicks a button that downloads a file and returns the file's bytes (kept under the test output too). */
 async function download(page: Page, testId: string, keepAs?: string): Promise<Buffer> {
@@ -35,7 +35,7 @@ test('after a short live run: the results page, the notes and tallies CSV as the
   const consolePage = await consoleContext.newPage();
   await signIn(consolePage, DEMO.facilitator);
   await consolePage.getByRole('link', { name: TITLE }).click();
-  await consolePage.getByTestId('run-live').click();
+  await runLive(consolePage);
   await expect(consolePage.getByTestId('console-activity')).toBeVisible();
   const code = (await consolePage.getByTestId('console-code').textContent())!.trim();
   const ana = await joinPhone(browser, `${new URL(consolePage.url()).origin}/join/${code}`, 'Ana Lima');

@@ -1,5 +1,5 @@
 import { test, expect, type Page } from '@playwright/test';
-import { DEMO, expectAccessible, joinPhone, shot, signIn } from './fixtures';
+import { DEMO, expectAccessible, joinPhone, runLive, shot, signIn } from './fixtures';
 
 /** Clicks the add-a-dot button of an option under one criterion on a phone. */
 async function addDot(page: Page, criterionId: string, option: string): Promise<void> {
@@ -21,7 +21,7 @@ test('a dot vote with two criteria tallied live, revealed, carried forward into 
   const consolePage = await consoleContext.newPage();
   await signIn(consolePage, DEMO.facilitator);
   await consolePage.getByRole('link', { name: "A new member's first ride" }).click();
-  await consolePage.getByTestId('run-live').click();
+  await runLive(consolePage);
   await expect(consolePage.getByTestId('console-activity')).toBeVisible();
   const code = (await consolePage.getByTestId('console-code').textContent())!.trim();
 

@@ -32,6 +32,8 @@ import { limitSocketEvents } from './common/socket-rate-limit';
 import { shareBroadcasts } from './common/scale-out';
 import { LiveService } from './features/live/live.service';
 import { liveRoutes } from './features/live/live.router';
+import { sessionsRoutes } from './features/live/sessions.router';
+import { SessionsService } from './features/live/sessions.service';
 import { registerLiveSocket } from './features/live/live.socket';
 import { TeamsService } from './features/teams/teams.service';
 import { registerTeamsSocket } from './features/teams/teams.socket';
@@ -149,6 +151,7 @@ export async function createApp(config: Config): Promise<CairnApp> {
   membersRoutes(routes, ctx, new MembersService(db, mail), auth);
   const live = new LiveService(ctx);
   liveRoutes(routes, ctx, live);
+  sessionsRoutes(routes, new SessionsService(ctx));
   const activities = new ActivitiesService(ctx, live);
   uploadsRoutes(routes, ctx, new PhotosService(ctx, live));
   const voting = new VotingService(ctx, live);

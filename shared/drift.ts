@@ -16,6 +16,11 @@ export interface DriftInput {
   nowMin: number;
   /** How long the finished items actually took, to show where the time went. */
   completed?: { id: string; actualMin: number }[];
+  /**
+   * Where the plan starts when not at the window's start (see {@link driftAnchor}); the window's end
+   * moves with it, so the session keeps the day's length. Times may then pass midnight (> 1440).
+   */
+  anchorMin?: number;
 }
 
 /** The live day against the plan. */
@@ -47,7 +52,8 @@ export function computeDrift(input: DriftInput): Drift {
   if (!Number.isInteger(currentIndex) || currentIndex < 0 || currentIndex >= items.length) {
     throw new RangeError(`No agenda item at index ${currentIndex}`);
   }
-  const startMin = toMinutes(window.start);
+  const shiftMin = input.anchorMin === undefined ? 0 : input.anchorMin - toMinutes(window.start);
+  const startMin = toMinutes(window.start) + shiftMin;
   let plannedStartMin = startMin;
   for (let i = 0; i < currentIndex; i++) plannedStartMin += items[i]!.timeboxMin;
   let laterMin = 0;
@@ -70,7 +76,7 @@ export function computeDrift(input: DriftInput): Drift {
     plannedEndMin,
     projectedEndMin,
     projectedEnd: toClock(projectedEndMin),
-    overrunMin: projectedEndMin - toMinutes(window.end),
+    overrunMin: projectedEndMin - (toMinutes(window.end) + shiftMin),
     completedOverMin,
   };
 }
@@ -123,4 +129,90 @@ export function suggestShortening(items: AgendaItem[], fromIndex: number, minute
     .filter((s) => s.cut > 0)
     .map((s) => ({ itemId: s.item.id, fromMin: s.item.timeboxMin, toMin: s.item.timeboxMin - s.cut }));
   return { cuts, recoveredMin: target, shortfallMin: wanted - target };
+}
+
+/** A live run's own timeboxes (agenda item id → minutes) and those before its last cut, for the undo. */
+export interface RunTimeboxes {
+  timeboxes: Record<string, number>;
+  /** The timeboxes before the last cut; `null` when there is nothing to undo. */
+  before: Record<string, number> | null;
+}
+
+/**
+ * The agenda as the live run has it: each item's timebox replaced by the run's own where cuts set one.
+ * @example withRunTimeboxes(items, { [items[3].id]: 15 })
+ */
+export function withRunTimeboxes<T extends Pick<AgendaItem, 'id' | 'timeboxMin'>>(items: T[], timeboxes: Record<string, number>): T[] {
+  return items.map((i) => (timeboxes[i.id] === undefined ? i : { ...i, timeboxMin: timeboxes[i.id]! }));
+}
+
+/**
+ * Applies cuts to a live run's timeboxes only (the stored plan is untouched), never below an item's
+ * shortest timebox; what the run had before is kept so the cut can be undone in one step.
+ * @example cutRunTimeboxes({ timeboxes: {}, before: null }, items, [{ itemId: 'sketch', toMin: 15 }])
+ */
+export function cutRunTimeboxes(
+  run: RunTimeboxes,
+  items: Pick<AgendaItem, 'id' | 'timeboxMin' | 'minTimeboxMin'>[],
+  cuts: { itemId: string; toMin: number }[],
+): RunTimeboxes {
+  const planned = new Map(items.map((i) => [i.id, i]));
+  const next = { ...run.timeboxes };
+  for (const cut of cuts) {
+    const item = planned.get(cut.itemId);
+    if (!item) continue;
+    const toMin = Math.max(item.minTimeboxMin, Math.round(cut.toMin));
+    if (toMin === item.timeboxMin) delete next[item.id];
+    else next[item.id] = toMin;
+  }
+  return { timeboxes: next, before: { ...run.timeboxes } };
+}
+
+/**
+ * Undoes the last cut: the run's timeboxes go back to what they were before it; a second undo has
+ * nothing left to undo and changes nothing.
+ * @example undoRunCut({ timeboxes: { a: 10 }, before: {} }) // { timeboxes: {}, before: null }
+ */
+export function undoRunCut(run: RunTimeboxes): RunTimeboxes {
+  if (run.before === null) return run;
+  return { timeboxes: { ...run.before }, before: null };
+}
+
+/** Why the live drift is measured from where it is. */
+export type DriftAnchorReason = 'plan' | 'other_date' | 'late';
+
+/** Where the planned times of a live session start. */
+export interface DriftAnchor {
+  /** The planned start of the first item, in minutes since midnight of the day the session started. */
+  anchorMin: number;
+  reason: DriftAnchorReason;
+  /** How late the first item started against the plan (0 unless `reason` is `'late'`). */
+  lateMin: number;
+}
+
+/**
+ * Where the planned times of a live session are anchored: at the plan's own start (the day window)
+ * when the session runs on the workshop's date and its first item started on time or early; at the
+ * moment the first item actually started when the session runs on another date (a rehearsal the
+ * evening before) or started late, so drift measures the session against its own clock, never
+ * against the time of day on another date.
+ * @example driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-14', startedMin: 612 })
+ *   // { anchorMin: 612, reason: 'late', lateMin: 12 }
+ */
+export function driftAnchor(input: {
+  workshopDate: string;
+  /** The plan's start (the day window's start), minutes since midnight. */
+  windowStartMin: number;
+  /** The local date on which the session's first item started (YYYY-MM-DD). */
+  startedDate: string;
+  /** When the first item started, minutes since midnight of `startedDate`. */
+  startedMin: number;
+  /** Lateness below this many minutes counts as on time (default 1). */
+  graceMin?: number;
+}): DriftAnchor {
+  const grace = input.graceMin ?? 1;
+  if (input.startedDate !== input.workshopDate) return { anchorMin: input.startedMin, reason: 'other_date', lateMin: 0 };
+  const late = input.startedMin - input.windowStartMin;
+  if (late >= grace) return { anchorMin: input.startedMin, reason: 'late', lateMin: late };
+  return { anchorMin: input.windowStartMin, reason: 'plan', lateMin: 0 };
 }

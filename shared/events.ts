@@ -65,8 +65,12 @@ export interface ClientToServerEvents {
   'session:lock': (payload: z.input<typeof LivePayloads.lock>, ack: AckFn<LiveState>) => void;
   'session:reveal': (payload: z.input<typeof LivePayloads.reveal>, ack: AckFn<LiveState>) => void;
   'session:message': (payload: z.input<typeof LivePayloads.message>, ack: AckFn<LiveState>) => void;
-  /** Apply a shortening suggestion to the remaining items. */
+  /** Apply a shortening suggestion to the remaining items of this live run (the stored plan stays). */
   'agenda:shorten': (payload: z.input<typeof LivePayloads.shorten>, ack: AckFn<LiveState>) => void;
+  /** Undo the last cut to this live run's timeboxes. */
+  'agenda:undo-cuts': (payload: Record<string, never>, ack: AckFn<LiveState>) => void;
+  /** Write this live run's cut timeboxes into the stored plan. */
+  'agenda:keep-cuts': (payload: Record<string, never>, ack: AckFn<LiveState>) => void;
   /** Console: who is in the room. */
   'participants:list': (payload: Record<string, never>, ack: AckFn<ParticipantView[]>) => void;
   /** Phone: who am I (after a reload). */

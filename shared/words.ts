@@ -9,16 +9,17 @@ export function countOf(n: number, word: string, pluralWord = `${word}s`): strin
 /** Number words a prompt may use for a count of dots ("Spend your three dots …"). */
 const NUMBER_WORDS = ['zero', 'one', 'two', 'three', 'four', 'five', 'six', 'seven', 'eight', 'nine', 'ten', 'eleven', 'twelve'];
 
-/** `{dots}`, or a count of dots written as digits or a number word ("3 dots", "three dots", "one dot"). */
-const DOT_COUNT = new RegExp(`\\{dots\\}|\\b(?:\\d+|${NUMBER_WORDS.join('|')})\\s+dots?\\b`, 'gi');
+/** A count of dots written as the `{dots}` placeholder, digits or a number word ("{dots} dots", "3 dots", "three dots", "one dot"). */
+const DOT_COUNT = new RegExp(`(?:\\{dots\\}|\\b(?:\\d+|${NUMBER_WORDS.join('|')}))\\s+dots?\\b`, 'gi');
 
 /**
  * A dot vote's prompt with every count of dots it names taken from the vote's budget, so a prompt
- * written for three dots reads right when the vote gives four; `{dots}` is a placeholder for the same.
+ * written for three dots reads right when the vote gives four; `{dots}` is the number alone (as in
+ * shared/templates.ts showPrompt), and "{dots} dots" agrees in number ("1 dot").
  * "a dot" is left alone: it names a single dot to place, not the budget.
  * @example fillDots('Spend your three dots on the best ideas.', 4) // 'Spend your 4 dots on the best ideas.'
  */
 export function fillDots(prompt: string, dots: number | null | undefined): string {
-  if (dots === null || dots === undefined || !Number.isInteger(dots) || dots < 1) return prompt.replace(/\{dots\}/gi, 'dots');
-  return prompt.replace(DOT_COUNT, () => countOf(dots, 'dot'));
+  if (dots === null || dots === undefined || !Number.isInteger(dots) || dots < 1) return prompt;
+  return prompt.replace(DOT_COUNT, () => countOf(dots, 'dot')).replace(/\{dots\}/gi, String(dots));
 }

@@ -10,7 +10,7 @@ import {
 import type { GlobalRole } from '../../shared/schemas/user';
 import type { ActivitySettings } from '../../shared/schemas/agenda-item';
 import type { DayWindow, RuleSettings } from '../../shared/schemas/day-window';
-import type { ItemRun, SubmissionInput, TimerState } from '../../shared/schemas/live';
+import type { ItemRun, SessionKind, SubmissionInput, TimerState } from '../../shared/schemas/live';
 import type { TeamProposal, VoteKind, VoteOption, VoteRules, VoteStatus } from '../../shared/schemas/voting';
 
 const timestamps = {
@@ -120,6 +120,12 @@ export interface LiveSessionRow extends Model<InferAttributes<LiveSessionRow>, I
   workshopId: string;
   joinCode: string;
   status: 'live' | 'ended';
+  /** A rehearsal or the day itself: results cover the day's sessions unless asked otherwise. */
+  kind: CreationOptional<SessionKind>;
+  /** The run's own timeboxes (agenda item id → minutes) where cuts shortened items for this session only. */
+  timeboxes: CreationOptional<Record<string, number>>;
+  /** The run's timeboxes before the last cut, to undo it; `null` when there is nothing to undo. */
+  timeboxesBefore: CreationOptional<Record<string, number> | null>;
   currentIndex: number;
   timer: TimerState;
   locked: boolean;
@@ -398,6 +404,9 @@ export function defineModels(sequelize: Sequelize): Models {
       workshopId: str(36),
       joinCode: str(16),
       status: str(10),
+      kind: { type: DataTypes.STRING(10), allowNull: false, defaultValue: 'day' },
+      timeboxes: { type: DataTypes.JSON, allowNull: false, defaultValue: {} },
+      timeboxesBefore: { type: DataTypes.JSON, allowNull: true, defaultValue: null },
       currentIndex: { type: DataTypes.INTEGER, allowNull: false },
       timer: { type: DataTypes.JSON, allowNull: false },
       locked: { type: DataTypes.BOOLEAN, allowNull: false },

@@ -41,6 +41,43 @@ export const LiveItem = z.object({
 /** The current activity as every screen may see it. */
 export type LiveItem = z.infer<typeof LiveItem>;
 
+/** Whether a live session is a rehearsal or the workshop's day itself (results cover the day unless asked otherwise). */
+export const SessionKind = z.enum(['rehearsal', 'day']);
+/** `'rehearsal'` or `'day'`. */
+export type SessionKind = z.infer<typeof SessionKind>;
+
+/** Body of starting a live session: what kind of session it is (the day, when not said). */
+export const StartLiveBody = z.object({ kind: SessionKind.default('day') });
+/** Body of starting a live session. */
+export type StartLiveBody = z.infer<typeof StartLiveBody>;
+
+/** Body of marking a session as a rehearsal or the day. */
+export const SessionKindBody = z.object({ kind: SessionKind });
+/** Body of marking a session as a rehearsal or the day. */
+export type SessionKindBody = z.infer<typeof SessionKindBody>;
+
+/** Body of discarding a session: the facilitator confirms on purpose. */
+export const DiscardSessionBody = z.object({
+  confirm: z.literal(true, { error: "Confirm that the session's participants, notes, photos and votes are to be deleted" }),
+});
+
+/** A live session of a workshop as the plan lists it. */
+export const SessionSummary = z.object({
+  id: z.string(),
+  kind: SessionKind,
+  status: z.enum(['live', 'ended']),
+  startedAt: z.number(),
+  endedAt: z.number().nullable(),
+  /** Participants who joined it. */
+  joined: z.number().int(),
+  /** Notes, sentences, feedback and frames submitted in it. */
+  notes: z.number().int(),
+  /** Ballots cast in its votes (one per voter and vote). */
+  votes: z.number().int(),
+});
+/** A live session as the plan lists it. */
+export type SessionSummary = z.infer<typeof SessionSummary>;
+
 /** When an agenda item actually ran (epoch ms), for drift against the plan. */
 export const ItemRun = z.object({ itemId: z.string(), startedAt: z.number(), endedAt: z.number().nullable() });
 /** When an agenda item actually ran. */
@@ -54,6 +91,11 @@ export const LiveState = z.object({
   joinCode: z.string(),
   joinUrl: z.string(),
   status: z.enum(['live', 'ended']),
+  kind: SessionKind,
+  /** The run's own timeboxes where cuts shortened items for this session only (agenda item id → minutes). */
+  timeboxes: z.record(z.string(), z.number()),
+  /** The last cut can be undone. */
+  canUndoCuts: z.boolean(),
   /** Index of the current agenda item. */
   currentIndex: z.number().int(),
   itemCount: z.number().int(),
@@ -134,6 +176,7 @@ export const LiveSessionInfo = z.object({
   /** A link that opens the projector screen without signing in (read-only). */
   displayUrl: z.string(),
   status: z.enum(['live', 'ended']),
+  kind: SessionKind,
 });
 /** What the facilitator gets when starting a live session. */
 export type LiveSessionInfo = z.infer<typeof LiveSessionInfo>;

@@ -9,8 +9,18 @@ export const QueryFlag = z
   .optional()
   .transform((v) => v === 'true' || v === '1' || v === 'yes');
 
-/** Query of the results, the exports and the report: `anonymize` replaces every name with "Participant N". */
-export const ResultsQuery = z.object({ anonymize: QueryFlag });
+/** Which sessions results cover: `day` (the default: the day's sessions, not rehearsals), `all`, or session ids separated by commas. */
+export const SessionsQuery = z
+  .string()
+  .max(2000)
+  .regex(/^(day|all|[A-Za-z0-9-]{1,64}(,[A-Za-z0-9-]{1,64})*)$/, 'Name the sessions as day, all, or session ids separated by commas')
+  .optional();
+
+/**
+ * Query of the results, the exports and the report: `anonymize` replaces every name with "Participant N";
+ * `sessions` chooses the live sessions (the day's by default).
+ */
+export const ResultsQuery = z.object({ anonymize: QueryFlag, sessions: SessionsQuery });
 /** Query of the results, the exports and the report. */
 export type ResultsQuery = z.infer<typeof ResultsQuery>;
 
@@ -54,6 +64,9 @@ export type AgendaRunRow = z.infer<typeof AgendaRunRow>;
 /** A note (or guided sentence, feedback, reflection, frame) as the results show it. */
 export const NoteResult = z.object({
   id: z.string(),
+  /** The live session it was written in, and that session's name ("Rehearsal · 2026-05-13 23:04"). */
+  sessionId: z.string(),
+  session: z.string(),
   itemId: z.string(),
   participantId: z.string(),
   /** The author's display name, or "Participant N" when names are removed. */
@@ -94,15 +107,20 @@ export type VoteRow = z.infer<typeof VoteRow>;
 /** A point of the criteria matrix: one option's dots under two criteria. */
 export const MatrixPoint = z.object({ optionId: z.string(), label: z.string(), x: z.number(), y: z.number() });
 
+/** The live session a results section comes from (set once the providers have built it). */
+const FromSession = { sessionId: z.string().optional(), session: z.string().optional() };
+
 /** The sections an activity's results can have; each comes from one provider on the server. */
 export const ResultSection = z.discriminatedUnion('kind', [
   z.object({
+    ...FromSession,
     kind: z.literal('notes'),
     total: z.number().int(),
     byTheme: z.array(NoteGroup),
     byTeam: z.array(NoteGroup),
   }),
   z.object({
+    ...FromSession,
     kind: z.literal('feedback'),
     /** The feedback capture grid of each team tested: four parts, each a list of notes. */
     grids: z.array(
@@ -114,6 +132,7 @@ export const ResultSection = z.discriminatedUnion('kind', [
     ),
   }),
   z.object({
+    ...FromSession,
     kind: z.literal('storyboards'),
     boards: z.array(
       z.object({
@@ -124,6 +143,7 @@ export const ResultSection = z.discriminatedUnion('kind', [
     ),
   }),
   z.object({
+    ...FromSession,
     kind: z.literal('photos'),
     photos: z.array(
       z.object({
@@ -143,6 +163,7 @@ export const ResultSection = z.discriminatedUnion('kind', [
     withheld: z.number().int(),
   }),
   z.object({
+    ...FromSession,
     kind: z.literal('votes'),
     /** How the scores were counted: dots, a preference method, or first choices of a team sort. */
     method: z.enum(['dots', 'borda', 'schulze', 'first_choices']),
@@ -165,7 +186,7 @@ export const ResultSection = z.discriminatedUnion('kind', [
     voters: z.number().int(),
     voted: z.number().int(),
   }),
-  z.object({ kind: z.literal('reflections'), notes: z.array(NoteResult) }),
+  z.object({ ...FromSession, kind: z.literal('reflections'), notes: z.array(NoteResult) }),
 ]);
 /** One section of an activity's results. */
 export type ResultSection = z.infer<typeof ResultSection>;
@@ -196,6 +217,8 @@ export type ActivityResult = z.infer<typeof ActivityResult>;
 /** A team with its challenge and members. */
 export const TeamResult = z.object({
   id: z.string(),
+  /** The name of the live session the team was formed in. */
+  session: z.string(),
   name: z.string(),
   challenge: z.string().nullable(),
   members: z.array(z.object({ participantId: z.string(), name: z.string() })),
@@ -227,6 +250,8 @@ export type Participation = z.infer<typeof Participation>;
 /** A participant as the exports list them (no address: only whether one was left). */
 export const ParticipantResult = z.object({
   id: z.string(),
+  /** The name of the live session they joined. */
+  session: z.string(),
   /** 1-based, in order of joining over the workshop's sessions: "Participant N" uses it. */
   number: z.number().int(),
   name: z.string(),
@@ -242,6 +267,8 @@ export type ParticipantResult = z.infer<typeof ParticipantResult>;
 /** A dot placed (or a ballot's position) as the votes export lists it. */
 export const VoteRecord = z.object({
   itemId: z.string(),
+  /** The name of the live session the vote was cast in. */
+  session: z.string(),
   activity: z.string(),
   voter: z.string(),
   option: z.string(),
@@ -267,8 +294,24 @@ export const WorkshopResults = z.object({
     ownerName: z.string(),
     headcount: z.number().int(),
   }),
-  /** The live sessions the results come from, oldest first. */
-  sessions: z.array(z.object({ id: z.string(), status: z.enum(['live', 'ended']), startedAt: z.number(), endedAt: z.number().nullable() })),
+  /** Every live session of the workshop, oldest first; `included` marks the ones these results cover, each with its own agenda as run. */
+  sessions: z.array(
+    z.object({
+      id: z.string(),
+      kind: z.enum(['rehearsal', 'day']),
+      /** How the results name it, e.g. "The day · 2026-05-14 09:58". */
+      name: z.string(),
+      status: z.enum(['live', 'ended']),
+      startedAt: z.number(),
+      endedAt: z.number().nullable(),
+      included: z.boolean(),
+      /** The agenda as this session ran it (empty for a session the results do not cover). */
+      agenda: z.array(AgendaRunRow),
+    }),
+  ),
+  /** Which sessions were asked for: `day`, `all`, or the ids. */
+  sessionSelector: z.union([z.enum(['day', 'all']), z.array(z.string())]),
+  /** The planned agenda; its actual times are those of the one session covered, or empty when several are. */
   agenda: z.array(AgendaRunRow),
   activities: z.array(ActivityResult),
   /** Every note the facilitators kept (hidden ones left out), oldest first; the sections group the same notes. */

@@ -1,11 +1,17 @@
 import { http, ApiError } from './http';
-import type { JoinAnswer, JoinBody, JoinInfo, LiveSessionInfo } from '../../shared/schemas/live';
+import type { JoinAnswer, JoinBody, JoinInfo, LiveSessionInfo, SessionKind, SessionSummary } from '../../shared/schemas/live';
 
 const w = (id: string) => `/workshops/${encodeURIComponent(id)}`;
 
 /** Live-session calls: start, look up, stop, join. */
 export const liveApi = {
-  start: (workshopId: string) => http.post<LiveSessionInfo>(`${w(workshopId)}/live`),
+  start: (workshopId: string, kind: SessionKind) => http.post<LiveSessionInfo>(`${w(workshopId)}/live`, { kind }),
+  /** The workshop's sessions, oldest first, with what each holds. */
+  sessions: (workshopId: string) => http.get<SessionSummary[]>(`${w(workshopId)}/sessions`),
+  setKind: (workshopId: string, sessionId: string, kind: SessionKind) =>
+    http.put<SessionSummary>(`${w(workshopId)}/sessions/${encodeURIComponent(sessionId)}`, { kind }),
+  discard: (workshopId: string, sessionId: string) =>
+    http.post<void>(`${w(workshopId)}/sessions/${encodeURIComponent(sessionId)}/discard`, { confirm: true }),
   current: (workshopId: string) => http.get<LiveSessionInfo | null>(`${w(workshopId)}/live`),
   stop: (workshopId: string) => http.post<void>(`${w(workshopId)}/live/stop`),
   // The device id lets the server limit wrong codes per phone, not per room (a room shares one address).

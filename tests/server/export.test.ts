@@ -98,13 +98,16 @@ describe('CSV exports (RFC 4180)', () => {
     // Without the spreadsheet option there is no byte-order mark; text that starts like a formula gets an apostrophe.
     expect([...raw.subarray(0, 3)]).not.toEqual([0xef, 0xbb, 0xbf]);
     const [header, ...rows] = rfc4180(text);
-    expect(header).toEqual(['Activity number', 'Activity', 'Activity type', 'Author', 'Team', 'Theme', 'Kind', 'Part', 'Note', 'Details', 'Written at']);
+    expect(header).toEqual(['Session', 'Activity number', 'Activity', 'Activity type', 'Author', 'Team', 'Theme', 'Kind', 'Part', 'Note', 'Details', 'Written at']);
     const r = await results();
     const insights = r.agenda.find((a) => a.type === 'insights')!;
     expect(rows).toHaveLength(HARD.length);
+    // Every row names the session it comes from.
+    expect(r.sessions.filter((s) => s.included)).toHaveLength(1);
     rows.forEach((row, i) => {
       const note = r.notes[i]!;
       expect(row).toEqual([
+        r.sessions[0]!.name,
         String(insights.position),
         insights.title,
         'insights',
@@ -118,21 +121,21 @@ describe('CSV exports (RFC 4180)', () => {
         new Date(note.createdAt).toISOString(),
       ]);
     });
-    expect(rows.map((row) => row[3])).toEqual(HARD.map((_, i) => ['Ana Lima', 'Ben "Benji" Okafor', 'Ólafur, Jr.'][i % 3]));
+    expect(rows.map((row) => row[4])).toEqual(HARD.map((_, i) => ['Ana Lima', 'Ben "Benji" Okafor', 'Ólafur, Jr.'][i % 3]));
   });
 
   it('offers a byte-order mark for spreadsheets, and text exactly as written on request', async () => {
     const { raw, text } = await download('notes.csv', '?bom=true');
     expect([...raw.subarray(0, 3)]).toEqual([0xef, 0xbb, 0xbf]);
     const [, ...rows] = rfc4180(text);
-    expect(rows.map((row) => row[8])).toEqual(HARD.map(neutralised));
+    expect(rows.map((row) => row[9])).toEqual(HARD.map(neutralised));
     const [, ...rawRows] = rfc4180((await download('notes.csv', '?raw=true')).text);
-    expect(rawRows.map((row) => row[8])).toEqual(HARD);
+    expect(rawRows.map((row) => row[9])).toEqual(HARD);
   });
 
   it('removes names on request: authors and members become "Participant N"', async () => {
     const notes = rfc4180((await download('notes.csv', '?anonymize=true')).text);
-    expect(new Set(notes.slice(1).map((row) => row[3]))).toEqual(new Set(['Participant 1', 'Participant 2', 'Participant 3']));
+    expect(new Set(notes.slice(1).map((row) => row[4]))).toEqual(new Set(['Participant 1', 'Participant 2', 'Participant 3']));
     const everything = ['notes.csv', 'teams.csv', 'participants.csv', 'tallies.csv', 'votes.csv', 'results.json'];
     for (const file of everything) {
       const { text } = await download(file, '?anonymize=true');
@@ -142,10 +145,11 @@ describe('CSV exports (RFC 4180)', () => {
 
   it('writes the teams table with challenges and members', async () => {
     const rows = rfc4180((await download('teams.csv')).text);
+    const session = (await results()).sessions[0]!.name;
     expect(rows).toEqual([
-      ['Team', 'Challenge', 'Size', 'Members'],
-      ['Team Dock', 'Make unlocking obvious, fast', '2', 'Ana Lima; Ben "Benji" Okafor'],
-      ['Team "Route"', 'A calm\nfirst route', '1', 'Ólafur, Jr.'],
+      ['Session', 'Team', 'Challenge', 'Size', 'Members'],
+      [session, 'Team Dock', 'Make unlocking obvious, fast', '2', 'Ana Lima; Ben "Benji" Okafor'],
+      [session, 'Team "Route"', 'A calm\nfirst route', '1', 'Ólafur, Jr.'],
     ]);
   });
 
@@ -155,11 +159,11 @@ describe('CSV exports (RFC 4180)', () => {
     expect(text).not.toContain('@harbourlane.example');
     const rows = rfc4180(text);
     const r = await results();
-    expect(rows[0]).toEqual(['Number', 'Name', 'Team', 'Photo consent', 'Left an address for the report', 'Joined at', 'Notes']);
+    expect(rows[0]).toEqual(['Session', 'Number', 'Name', 'Team', 'Photo consent', 'Left an address for the report', 'Joined at', 'Notes']);
     expect(rows.slice(1)).toEqual(
-      r.participants.map((p) => [String(p.number), p.name, p.teamName ?? '', p.photoConsent ? 'yes' : 'no', p.leftAddress ? 'yes' : 'no', new Date(p.joinedAt).toISOString(), String(p.notes)]),
+      r.participants.map((p) => [p.session, String(p.number), p.name, p.teamName ?? '', p.photoConsent ? 'yes' : 'no', p.leftAddress ? 'yes' : 'no', new Date(p.joinedAt).toISOString(), String(p.notes)]),
     );
-    expect(rows.slice(1).map((row) => [row[1], row[3], row[4]])).toEqual([
+    expect(rows.slice(1).map((row) => [row[2], row[4], row[5]])).toEqual([
       ['Ana Lima', 'yes', 'yes'],
       ['Ben "Benji" Okafor', 'no', 'no'],
       ['Ólafur, Jr.', 'yes', 'no'],
@@ -168,9 +172,9 @@ describe('CSV exports (RFC 4180)', () => {
 
   it('writes the tallies and votes tables with their headers even before any vote', async () => {
     const tallies = rfc4180((await download('tallies.csv')).text);
-    expect(tallies[0]).toEqual(['Activity number', 'Activity', 'Method', 'Ranked by', 'Option', 'Score', 'Rank', 'Tied', 'Near tie', 'Selected']);
+    expect(tallies[0]).toEqual(['Session', 'Activity number', 'Activity', 'Method', 'Ranked by', 'Option', 'Score', 'Rank', 'Tied', 'Near tie', 'Selected']);
     const votes = rfc4180((await download('votes.csv')).text);
-    expect(votes[0]).toEqual(['Activity number', 'Activity', 'Voter', 'Option', 'Criterion', 'Value']);
+    expect(votes[0]).toEqual(['Session', 'Activity number', 'Activity', 'Voter', 'Option', 'Criterion', 'Value']);
   });
 
   it('gives the complete results as JSON that matches the results schema and the notes exactly', async () => {

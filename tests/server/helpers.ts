@@ -217,9 +217,12 @@ export function newDeviceId(): string {
   return `device-${crypto.randomUUID()}`;
 }
 
-/** Starts (or reopens) the live session of a workshop as the holder of a token. */
-export async function startLive(t: TestApp, token: string, workshopId: string): Promise<LiveSessionInfo> {
-  const res = await t.agent.post(`/api/workshops/${workshopId}/live`).set('Authorization', bearer(token));
+/** Starts (or reopens) the live session of a workshop as the holder of a token (a rehearsal or the day; the day when not said). */
+export async function startLive(t: TestApp, token: string, workshopId: string, kind?: 'rehearsal' | 'day'): Promise<LiveSessionInfo> {
+  const res = await t.agent
+    .post(`/api/workshops/${workshopId}/live`)
+    .set('Authorization', bearer(token))
+    .send(kind ? { kind } : {});
   if (res.status !== 201 && res.status !== 200) throw new Error(`starting live answered ${res.status}: ${JSON.stringify(res.body)}`);
   return res.body as LiveSessionInfo;
 }

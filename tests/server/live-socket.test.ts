@@ -338,10 +338,26 @@ describe('shortening the rest of the agenda', () => {
     expect(shortened.timer).toEqual(running.timer);
     expect(shortened.currentIndex).toBe(at.currentIndex);
     expect(shortened.version).toBe(running.version + 1);
+    // The live run's timeboxes change; the stored plan does not.
+    expect(shortened.timeboxes).toEqual({ [sketch.id]: 15, [storyboard.id]: storyboard.minTimeboxMin });
+    expect(shortened.canUndoCuts).toBe(true);
     await sketch.reload();
     await storyboard.reload();
+    expect(sketch.timeboxMin).toBe(20);
+    expect(storyboard.timeboxMin).toBeGreaterThan(storyboard.minTimeboxMin);
+
+    // Undo gives the run its timeboxes back; a second undo has nothing to undo.
+    const undone = await commandData(facilitator, 'agenda:undo-cuts');
+    expect(undone.timeboxes).toEqual({});
+    expect(undone.canUndoCuts).toBe(false);
+    expect(await command(facilitator, 'agenda:undo-cuts')).toMatchObject({ error: { code: 'conflict' } });
+
+    // Writing the cuts into the plan is its own choice.
+    await commandData(facilitator, 'agenda:shorten', { cuts: [{ itemId: sketch.id, toMin: 15 }] });
+    const kept = await commandData(facilitator, 'agenda:keep-cuts');
+    expect(kept.timeboxes).toEqual({});
+    await sketch.reload();
     expect(sketch.timeboxMin).toBe(15);
-    expect(storyboard.timeboxMin).toBe(storyboard.minTimeboxMin);
 
     // The current item and earlier ones are not for cutting.
     for (const index of [9, 2]) {

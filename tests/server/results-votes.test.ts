@@ -148,20 +148,23 @@ describe('vote results on the results page', () => {
 describe('vote exports', () => {
   it('writes every ranking line to the tallies CSV, read back field by field with csv-parse', async () => {
     const [header, ...rows] = await csv('tallies.csv');
-    expect(header).toEqual(['Activity number', 'Activity', 'Method', 'Ranked by', 'Option', 'Score', 'Rank', 'Tied', 'Near tie', 'Selected']);
+    expect(header).toEqual(['Session', 'Activity number', 'Activity', 'Method', 'Ranked by', 'Option', 'Score', 'Rank', 'Tied', 'Near tie', 'Selected']);
     const expected = (['dot_vote', 'preference_vote'] as const).flatMap((type) => {
       const v = votes(type);
       const a = r.activities.find((x) => x.type === type)!;
       return [{ label: v.rankedBy, rows: v.overall }, ...v.tables].flatMap((block) =>
-        block.rows.map((o) => [String(a.position), a.title, v.method, block.label, o.label, String(o.score), String(o.rank), o.tied ? 'yes' : 'no', o.nearTie ? 'yes' : 'no', o.selected ? 'yes' : 'no']),
+        block.rows.map((o) => [v.session!, String(a.position), a.title, v.method, block.label, o.label, String(o.score), String(o.rank), o.tied ? 'yes' : 'no', o.nearTie ? 'yes' : 'no', o.selected ? 'yes' : 'no']),
       );
     });
     expect(rows).toEqual(expected);
   });
 
   it('writes every dot and every place in a ranking to the votes CSV', async () => {
-    const [header, ...rows] = await csv('votes.csv');
-    expect(header).toEqual(['Activity number', 'Activity', 'Voter', 'Option', 'Criterion', 'Value']);
+    const [header, ...all] = await csv('votes.csv');
+    expect(header).toEqual(['Session', 'Activity number', 'Activity', 'Voter', 'Option', 'Criterion', 'Value']);
+    // Every row names its session; the rest of the row is read as before.
+    expect(new Set(all.map((row) => row[0]))).toEqual(new Set([r.sessions.find((s) => s.included)!.name]));
+    const rows = all.map((row) => row.slice(1));
     const dots = rows.filter((row) => row[4] !== 'Place in ranking');
     const total = (criterion: string) => dots.filter((row) => row[4] === criterion).reduce((n, row) => n + Number(row[5]), 0);
     expect([total('Impact'), total('Effort')]).toEqual([9, 3]);

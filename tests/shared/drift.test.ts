@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { newAgendaItem } from '../../shared/activities';
-import { computeDrift, suggestShortening } from '../../shared/drift';
+import { computeDrift, cutRunTimeboxes, driftAnchor, suggestShortening, undoRunCut, withRunTimeboxes } from '../../shared/drift';
 import { computeSchedule, toMinutes } from '../../shared/schedule';
 import { instantiateTemplate } from '../../shared/templates';
 import type { ActivityType, AgendaItem } from '../../shared/schemas/agenda-item';
@@ -225,5 +225,72 @@ describe('suggestShortening', () => {
       nowMin: start + 12,
     });
     expect(after.projectedEndMin).toBe(plannedEnd);
+  });
+});
+
+describe('driftAnchor', () => {
+  // Worked by hand: the window starts at 10:00 (600 min); Cairn's own rule (issue of a rehearsal the evening before).
+  it('keeps the plan when the session runs on the workshop date and starts on time or early', () => {
+    expect(driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-14', startedMin: 600 })).toEqual({ anchorMin: 600, reason: 'plan', lateMin: 0 });
+    expect(driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-14', startedMin: 585 })).toEqual({ anchorMin: 600, reason: 'plan', lateMin: 0 });
+  });
+
+  it('anchors at the first start when the session starts late on the day', () => {
+    expect(driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-14', startedMin: 612 })).toEqual({ anchorMin: 612, reason: 'late', lateMin: 12 });
+  });
+
+  it('anchors at the first start on any other date, early or late in the day', () => {
+    expect(driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-13', startedMin: 23 * 60 })).toEqual({ anchorMin: 1380, reason: 'other_date', lateMin: 0 });
+    expect(driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-20', startedMin: 480 })).toEqual({ anchorMin: 480, reason: 'other_date', lateMin: 0 });
+  });
+
+  it('measures a rehearsal at 23:00 against its own start, not the time of day', () => {
+    // The reported case: a rehearsal the evening before read "784 min behind plan". Anchored at 23:00,
+    // 5 min into A (30 min, 25 left) the session is on plan and ends 90 min after it began: 00:30.
+    const anchor = driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-13', startedMin: 1380 });
+    const d = computeDrift({
+      items: SIMPLE,
+      window: WINDOW,
+      currentIndex: 0,
+      currentStartedAtMin: 1380,
+      currentRemainingMin: 25,
+      nowMin: 1385,
+      anchorMin: anchor.anchorMin,
+    });
+    expect(d).toMatchObject({ plannedStartMin: 1380, startedLateMin: 0, driftMin: 0, projectedEnd: '00:30', overrunMin: 0 });
+  });
+
+  it('measures a late start from the first item, so the late minutes are not drift', () => {
+    // Started 12 min late at 10:12; 10 min into A with 20 left: on plan from its own start, ending 11:42.
+    const d = computeDrift({ items: SIMPLE, window: WINDOW, currentIndex: 0, currentStartedAtMin: 612, currentRemainingMin: 20, nowMin: 622, anchorMin: 612 });
+    expect(d).toMatchObject({ driftMin: 0, projectedEnd: '11:42', overrunMin: 0 });
+  });
+});
+
+describe('cuts to the live run and their undo', () => {
+  const items = [item('A', 'interview', 30, 20), item('B', 'insights', 20, 13), item('C', 'sketch', 40, 27)];
+
+  it("changes the run's timeboxes only, never below the shortest, and keeps what was there before", () => {
+    const run = cutRunTimeboxes({ timeboxes: {}, before: null }, items, [
+      { itemId: 'B', toMin: 15 },
+      { itemId: 'C', toMin: 10 },
+    ]);
+    expect(run).toEqual({ timeboxes: { B: 15, C: 27 }, before: {} });
+    expect(items.map((i) => i.timeboxMin)).toEqual([30, 20, 40]);
+    expect(withRunTimeboxes(items, run.timeboxes).map((i) => i.timeboxMin)).toEqual([30, 15, 27]);
+  });
+
+  it('undoes the last cut in one step, and a second undo changes nothing', () => {
+    const first = cutRunTimeboxes({ timeboxes: {}, before: null }, items, [{ itemId: 'B', toMin: 15 }]);
+    const second = cutRunTimeboxes(first, items, [{ itemId: 'C', toMin: 30 }]);
+    expect(second).toEqual({ timeboxes: { B: 15, C: 30 }, before: { B: 15 } });
+    const undone = undoRunCut(second);
+    expect(undone).toEqual({ timeboxes: { B: 15 }, before: null });
+    expect(undoRunCut(undone)).toBe(undone);
+  });
+
+  it('a cut back to the planned timebox leaves no override', () => {
+    const run = cutRunTimeboxes({ timeboxes: { B: 15 }, before: null }, items, [{ itemId: 'B', toMin: 20 }]);
+    expect(run.timeboxes).toEqual({});
   });
 });

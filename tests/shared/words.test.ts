@@ -20,9 +20,10 @@ describe('fillDots', () => {
     expect(fillDots('Three dots each.', 1)).toBe('1 dot each.');
   });
 
-  it('fills the {dots} placeholder', () => {
-    expect(fillDots('Spend your {dots} on the ideas.', 2)).toBe('Spend your 2 dots on the ideas.');
-    expect(fillDots('Spend your {dots} on the ideas.', 1)).toBe('Spend your 1 dot on the ideas.');
+  it('fills the {dots} placeholder with the number, the noun agreeing', () => {
+    expect(fillDots('Spend your {dots} dots on the ideas.', 2)).toBe('Spend your 2 dots on the ideas.');
+    expect(fillDots('Spend your {dots} dots on the ideas.', 1)).toBe('Spend your 1 dot on the ideas.');
+    expect(fillDots('Dots each: {dots}.', 4)).toBe('Dots each: 4.');
   });
 
   it('leaves "a dot" and prompts without dots alone', () => {
@@ -30,8 +31,7 @@ describe('fillDots', () => {
     expect(fillDots('Rank the options.', 4)).toBe('Rank the options.');
   });
 
-  it('without a budget, says "dots" for the placeholder and keeps the rest', () => {
-    expect(fillDots('Spend your {dots}.', null)).toBe('Spend your dots.');
+  it('without a budget, keeps the prompt as it is', () => {
     expect(fillDots('Spend your three dots.', undefined)).toBe('Spend your three dots.');
   });
 });

@@ -6,7 +6,7 @@ import { access, EDIT_ROLES, READ_ROLES } from '../../common/access';
 import { errors } from '../../common/errors';
 import type { AppContext } from '../../context';
 import type { LiveService } from './live.service';
-import { JoinAnswer, JoinBody, JoinCode, JoinInfo, LiveSessionInfo } from '../../../shared/schemas/live';
+import { JoinAnswer, JoinBody, JoinCode, JoinInfo, LiveSessionInfo, StartLiveBody } from '../../../shared/schemas/live';
 
 const WorkshopParams = z.object({ workshopId: z.string().min(1).max(64) });
 const CodeParams = z.object({ code: JoinCode });
@@ -125,14 +125,15 @@ export function liveRoutes(routes: ApiRoutes, ctx: AppContext, live: LiveService
   routes.add({
     method: 'post',
     path: '/workshops/:workshopId/live',
-    summary: 'Start a live session (201), or get the one already live (200)',
+    summary: 'Start a live session, a rehearsal or the day (`kind`, the day when not given) (201), or get the one already live (200)',
     tag,
     access: access.workshop(EDIT_ROLES),
     params: WorkshopParams,
+    body: StartLiveBody,
     response: LiveSessionInfo,
     status: 201,
-    handler: async ({ params, res }) => {
-      const { info, created } = await live.start(params.workshopId);
+    handler: async ({ params, body, res }) => {
+      const { info, created } = await live.start(params.workshopId, body.kind);
       res.status(created ? 201 : 200).json(info);
       return undefined;
     },

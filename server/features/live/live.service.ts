@@ -8,6 +8,7 @@ import { AppError, errors } from '../../common/errors';
 import { joinBaseUrl } from '../../common/network';
 import { toAgendaItem, type AgendaItemFields } from '../workshops/workshops.service';
 import { remainingMs } from '../../../shared/clock';
+import { cutRunTimeboxes, undoRunCut, withRunTimeboxes } from '../../../shared/drift';
 import {
   JOIN_CODE_ALPHABET,
   JOIN_CODE_LENGTH,
@@ -20,6 +21,7 @@ import {
   type LiveState,
   type Me,
   type ParticipantView,
+  type SessionKind,
   type SubmissionInput,
   type SubmissionView,
   type TimerState,
@@ -144,7 +146,7 @@ function drawJoinCode(): string {
 }
 
 /** Sets a JSON attribute and marks it changed (Sequelize does not see changes inside JSON values). */
-function setJson<K extends 'timer' | 'runs' | 'message'>(row: LiveSessionRow, key: K, value: LiveSessionRow[K]): void {
+function setJson<K extends 'timer' | 'runs' | 'message' | 'timeboxes' | 'timeboxesBefore'>(row: LiveSessionRow, key: K, value: LiveSessionRow[K]): void {
   row.set(key, value);
   row.changed(key, true);
 }
@@ -210,8 +212,8 @@ export class LiveService {
     this.runtimes.clear();
   }
 
-  /** Starts a live session of a workshop, or returns the one already live (`created` says which). */
-  async start(workshopId: string): Promise<{ info: LiveSessionInfo; created: boolean }> {
+  /** Starts a live session of a workshop (a rehearsal or the day), or returns the one already live (`created` says which). */
+  async start(workshopId: string, kind: SessionKind = 'day'): Promise<{ info: LiveSessionInfo; created: boolean }> {
     const { LiveSession, Workshop } = this.ctx.db.models;
     const existing = await LiveSession.findOne({ where: { workshopId, status: 'live' } });
     if (existing) return { info: this.info(existing), created: false };
@@ -235,6 +237,9 @@ export class LiveService {
           workshopId,
           joinCode,
           status: 'live',
+          kind,
+          timeboxes: {},
+          timeboxesBefore: null,
           currentIndex: 0,
           timer: idleTimer(first),
           locked: false,
@@ -513,8 +518,9 @@ export class LiveService {
   }
 
   /**
-   * Applies new timeboxes to later agenda items (a shortening suggestion of shared/drift.ts), never below
-   * each item's shortest timebox; the current item and its countdown stay as they are.
+   * Applies new timeboxes to later agenda items for this live run only (a shortening suggestion of
+   * shared/drift.ts), never below each item's shortest timebox; the stored plan, the current item and
+   * its countdown stay as they are, and the cut can be undone.
    */
   shorten(sessionId: string, cuts: { itemId: string; toMin: number }[]): Promise<LiveState> {
     return this.command(sessionId, async (s, agenda, _now, transaction) => {
@@ -524,16 +530,34 @@ export class LiveService {
         if (at < 0) throw errors.badRequest('One of the items is not on the agenda any more');
         if (at <= current) throw errors.badRequest(`“${agenda[at]!.title}” is not after the current item; only later items can be shortened`);
       }
-      for (const cut of cuts) {
-        const item = agenda.find((i) => i.id === cut.itemId)!;
-        const toMin = Math.max(item.minTimeboxMin, cut.toMin);
-        if (toMin === item.timeboxMin) continue;
-        await this.ctx.db.models.AgendaItem.update(
-          { timeboxMin: toMin },
-          { where: { id: item.id, workshopId: s.workshopId }, transaction },
-        );
-        item.timeboxMin = toMin;
+      const plan = await this.agendaOf(s.workshopId, transaction);
+      const next = cutRunTimeboxes({ timeboxes: s.timeboxes ?? {}, before: s.timeboxesBefore ?? null }, plan, cuts);
+      setJson(s, 'timeboxes', next.timeboxes);
+      setJson(s, 'timeboxesBefore', next.before);
+    });
+  }
+
+  /** Undoes the last cut to the live run's timeboxes. */
+  undoCuts(sessionId: string): Promise<LiveState> {
+    return this.command(sessionId, (s) => {
+      const run = { timeboxes: s.timeboxes ?? {}, before: s.timeboxesBefore ?? null };
+      if (run.before === null) throw errors.conflict('There is no cut to undo');
+      const next = undoRunCut(run);
+      setJson(s, 'timeboxes', next.timeboxes);
+      setJson(s, 'timeboxesBefore', next.before);
+    });
+  }
+
+  /** Writes the live run's cut timeboxes into the stored plan (the facilitator's explicit choice); the run then follows the plan again. */
+  keepCuts(sessionId: string): Promise<LiveState> {
+    return this.command(sessionId, async (s, _agenda, _now, transaction) => {
+      const cuts = Object.entries(s.timeboxes ?? {});
+      if (cuts.length === 0) throw errors.conflict('This run has no cuts to write into the plan');
+      for (const [itemId, timeboxMin] of cuts) {
+        await this.ctx.db.models.AgendaItem.update({ timeboxMin }, { where: { id: itemId, workshopId: s.workshopId }, transaction });
       }
+      setJson(s, 'timeboxes', {});
+      setJson(s, 'timeboxesBefore', null);
     });
   }
 
@@ -619,6 +643,7 @@ export class LiveService {
       joinUrl: `${base}/join/${row.joinCode}`,
       displayUrl: `${base}/projector/${row.id}?display=${this.ctx.tokens.signDisplay(row.id)}`,
       status: row.status,
+      kind: row.kind ?? 'day',
     };
   }
 
@@ -663,6 +688,9 @@ export class LiveService {
       joinCode: s.joinCode,
       joinUrl: this.joinUrl(s.joinCode),
       status: s.status,
+      kind: s.kind ?? 'day',
+      timeboxes: s.timeboxes ?? {},
+      canUndoCuts: (s.timeboxesBefore ?? null) !== null,
       currentIndex: index,
       itemCount: agenda.length,
       item: item ? toLiveItem(item, index) : null,
@@ -716,8 +744,9 @@ export class LiveService {
     const [s, early] = await Promise.all([LiveSession.findByPk(sessionId, { transaction }), known ? readWorkshop(known) : null]);
     if (!s) throw errors.notFound('That live session');
     this.runtime(sessionId).workshopId = s.workshopId;
-    const [agenda, [w]] = early ?? (await readWorkshop(s.workshopId));
-    return { s, agenda, title: w?.title ?? '' };
+    const [plan, [w]] = early ?? (await readWorkshop(s.workshopId));
+    // The live run follows its own timeboxes where cuts shortened items for this session only.
+    return { s, agenda: withRunTimeboxes(plan, s.timeboxes ?? {}), title: w?.title ?? '' };
   }
 
   private async stamp(base: BaseState): Promise<LiveState> {

@@ -214,6 +214,14 @@ export function registerLiveSocket(socket: LiveSocket, ctx: AppContext, live: Li
   on('session:reveal', 'runner', async (payload, who) => live.setRevealed(who.sessionId, parse(LivePayloads.reveal, payload).revealed));
   on('session:message', 'runner', async (payload, who) => live.sendMessage(who.sessionId, parse(LivePayloads.message, payload).text));
   on('agenda:shorten', 'runner', async (payload, who) => live.shorten(who.sessionId, parse(LivePayloads.shorten, payload).cuts));
+  on('agenda:undo-cuts', 'runner', async (payload, who) => {
+    empty(payload);
+    return live.undoCuts(who.sessionId);
+  });
+  on('agenda:keep-cuts', 'runner', async (payload, who) => {
+    empty(payload);
+    return live.keepCuts(who.sessionId);
+  });
   on('participants:list', 'runner', async (payload, who) => {
     empty(payload);
     return live.participants(who.sessionId);

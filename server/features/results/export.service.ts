@@ -65,10 +65,10 @@ export function notesTable(r: WorkshopResults): CsvTable {
   const order = (n: NoteResult) => agenda.get(n.itemId)?.position ?? Number.MAX_SAFE_INTEGER;
   const notes = [...r.notes].sort((a, b) => order(a) - order(b) || a.createdAt - b.createdAt || a.id.localeCompare(b.id));
   return {
-    header: ['Activity number', 'Activity', 'Activity type', 'Author', 'Team', 'Theme', 'Kind', 'Part', 'Note', 'Details', 'Written at'],
+    header: ['Session', 'Activity number', 'Activity', 'Activity type', 'Author', 'Team', 'Theme', 'Kind', 'Part', 'Note', 'Details', 'Written at'],
     rows: notes.map((n) => {
       const a = agenda.get(n.itemId);
-      return [a?.position ?? null, a?.title ?? '', a?.type ?? '', n.author, n.teamName, n.themeName, n.kind, n.part, n.text, details(n), iso(n.createdAt)];
+      return [n.session, a?.position ?? null, a?.title ?? '', a?.type ?? '', n.author, n.teamName, n.themeName, n.kind, n.part, n.text, details(n), iso(n.createdAt)];
     }),
   };
 }
@@ -76,16 +76,16 @@ export function notesTable(r: WorkshopResults): CsvTable {
 /** Teams with their challenges and members. */
 export function teamsTable(r: WorkshopResults): CsvTable {
   return {
-    header: ['Team', 'Challenge', 'Size', 'Members'],
-    rows: r.teams.map((t) => [t.name, t.challenge, t.members.length, t.members.map((m) => m.name).join('; ')]),
+    header: ['Session', 'Team', 'Challenge', 'Size', 'Members'],
+    rows: r.teams.map((t) => [t.session, t.name, t.challenge, t.members.length, t.members.map((m) => m.name).join('; ')]),
   };
 }
 
 /** Everyone who joined, numbered in order of joining; whether they left an address, never the address. */
 export function participantsTable(r: WorkshopResults): CsvTable {
   return {
-    header: ['Number', 'Name', 'Team', 'Photo consent', 'Left an address for the report', 'Joined at', 'Notes'],
-    rows: r.participants.map((p) => [p.number, p.name, p.teamName, p.photoConsent, p.leftAddress, iso(p.joinedAt), p.notes]),
+    header: ['Session', 'Number', 'Name', 'Team', 'Photo consent', 'Left an address for the report', 'Joined at', 'Notes'],
+    rows: r.participants.map((p) => [p.session, p.number, p.name, p.teamName, p.photoConsent, p.leftAddress, iso(p.joinedAt), p.notes]),
   };
 }
 
@@ -97,19 +97,19 @@ export function talliesTable(r: WorkshopResults): CsvTable {
       if (s.kind !== 'votes') continue;
       const blocks = [{ label: s.rankedBy, rows: s.overall }, ...s.tables];
       for (const block of blocks) {
-        for (const v of block.rows) rows.push([a.position, a.title, s.method, block.label, v.label, v.score, v.rank, v.tied, v.nearTie, v.selected]);
+        for (const v of block.rows) rows.push([s.session ?? '', a.position, a.title, s.method, block.label, v.label, v.score, v.rank, v.tied, v.nearTie, v.selected]);
       }
     }
   }
-  return { header: ['Activity number', 'Activity', 'Method', 'Ranked by', 'Option', 'Score', 'Rank', 'Tied', 'Near tie', 'Selected'], rows };
+  return { header: ['Session', 'Activity number', 'Activity', 'Method', 'Ranked by', 'Option', 'Score', 'Rank', 'Tied', 'Near tie', 'Selected'], rows };
 }
 
 /** Every dot placed and every ballot position, voter by voter. */
 export function votesTable(r: WorkshopResults): CsvTable {
   const position = new Map(r.agenda.map((a) => [a.itemId, a.position]));
   return {
-    header: ['Activity number', 'Activity', 'Voter', 'Option', 'Criterion', 'Value'],
-    rows: r.votes.map((v) => [position.get(v.itemId) ?? null, v.activity, v.voter, v.option, v.criterion, v.value]),
+    header: ['Session', 'Activity number', 'Activity', 'Voter', 'Option', 'Criterion', 'Value'],
+    rows: r.votes.map((v) => [v.session, position.get(v.itemId) ?? null, v.activity, v.voter, v.option, v.criterion, v.value]),
   };
 }
 

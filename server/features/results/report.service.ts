@@ -9,6 +9,7 @@ import type { UserRow } from '../../db/models';
 import { AppError, errors } from '../../common/errors';
 import type { ResultsService } from './results.service';
 import { exportFileName } from './export.service';
+import type { SessionSelector } from '../../../shared/sessions';
 import { ACTIVITY_LIBRARY, PHASE_LABELS } from '../../../shared/activities';
 import { voteScoreLabel } from '../../../shared/schemas/results';
 import type {
@@ -258,6 +259,7 @@ function noteText(n: NoteResult): string {
 
 /** Writes one section of an activity's results. */
 function writeSection(w: ReportWriter, s: ResultSection): void {
+  if (s.session) w.write(`From ${s.session}`, { size: 9, weight: 'bold', color: INK.teal, gap: 2 });
   switch (s.kind) {
     case 'notes':
       writeGroups(w, s.byTheme.length ? s.byTheme : s.byTeam);
@@ -380,9 +382,19 @@ export function renderReportPdf(r: WorkshopResults, photos: Map<string, Buffer> 
   w.line('Objective', r.workshop.objective);
   if (r.workshop.persona) w.line('The people it is for', r.workshop.persona);
 
+  const covered = r.sessions.filter((s) => s.included);
+  w.write(
+    covered.length
+      ? `Covers ${covered.map((s) => s.name).join('; ')}.`
+      : 'Covers no live session: none was chosen, or the workshop has not run as the day yet.',
+    { size: 9.5, color: INK.muted, gap: 2 },
+  );
+
   w.heading('Agenda as run');
-  w.write('Planned times come from the plan; actual times are when the facilitator started and ended each item.', { size: 9, color: INK.muted, gap: 4 });
-  w.table(
+  w.write('Planned times come from the plan; actual times are when the facilitator started and ended each item, session by session.', { size: 9, color: INK.muted, gap: 4 });
+  for (const s of covered.length ? covered : [{ name: 'The plan', agenda: r.agenda }]) {
+    if (covered.length) w.heading(s.name, 3);
+    w.table(
     [
       { label: '#', width: 22 },
       { label: 'Activity', width: w.contentWidth - 282 },
@@ -392,7 +404,7 @@ export function renderReportPdf(r: WorkshopResults, photos: Map<string, Buffer> 
       { label: 'Min actual', width: 40 },
       { label: '±', width: 30 },
     ],
-    r.agenda.map((a) => [
+    s.agenda.map((a) => [
       String(a.position),
       a.title,
       `${a.plannedStart}–${a.plannedEnd}`,
@@ -401,7 +413,8 @@ export function renderReportPdf(r: WorkshopResults, photos: Map<string, Buffer> 
       minutes(a.actualMin),
       minutes(a.overMin, true),
     ]),
-  );
+    );
+  }
 
   w.heading('Results');
   const withResults = r.activities.filter((a) => a.sections.length > 0);
@@ -411,7 +424,7 @@ export function renderReportPdf(r: WorkshopResults, photos: Map<string, Buffer> 
   w.heading('Teams and their challenges');
   if (r.teams.length === 0) w.write('No teams were formed.', { color: INK.muted });
   for (const t of r.teams) {
-    w.heading(`${t.name} (${t.members.length})`, 3);
+    w.heading(`${t.name} (${t.members.length})${covered.length > 1 ? ` · ${t.session}` : ''}`, 3);
     w.write(t.challenge ? `Challenge: ${t.challenge}` : 'No challenge set.', { color: t.challenge ? INK.text : INK.muted });
     if (t.members.length) w.write(t.members.map((m) => m.name).join(', '), { size: 9.5, color: INK.muted, gap: 2 });
   }
@@ -468,8 +481,8 @@ export class ReportService {
   ) {}
 
   /** The report as a PDF; with `anonymize`, every participant is "Participant N". */
-  async pdf(workshopId: string, anonymize: boolean): Promise<{ pdf: Buffer; fileName: string }> {
-    const r = await this.results.results(workshopId, anonymize);
+  async pdf(workshopId: string, anonymize: boolean, selector: SessionSelector = 'day'): Promise<{ pdf: Buffer; fileName: string }> {
+    const r = await this.results.results(workshopId, anonymize, Date.now(), selector);
     return { pdf: await renderReportPdf(r, await this.shownPhotos(r)), fileName: exportFileName(r, 'report.pdf') };
   }
 

@@ -9,6 +9,7 @@ import type { ResultsService } from './results.service';
 import type { ReportService } from './report.service';
 import type { RetentionService } from './retention.service';
 import { exportFile } from './export.service';
+import { parseSessionSelector } from '../../../shared/sessions';
 import {
   DeleteNowBody,
   ExportFile,
@@ -46,13 +47,14 @@ export function resultsRoutes(
   routes.add({
     method: 'get',
     path: '/workshops/:workshopId/results',
-    summary: "The workshop's results: agenda as run, every activity's notes, votes and grids, teams, participation; `?anonymize=true` removes names",
+    summary:
+      "The workshop's results: agenda as run, every activity's notes, votes and grids, teams, participation; `?sessions=` day (default), all or session ids; `?anonymize=true` removes names",
     tag,
     access: access.workshop(READ_ROLES),
     params: WorkshopParams,
     query: ResultsQuery,
     response: WorkshopResults,
-    handler: ({ params, query }) => results.results(params.workshopId, query.anonymize),
+    handler: ({ params, query }) => results.results(params.workshopId, query.anonymize, Date.now(), parseSessionSelector(query.sessions)),
   });
 
   routes.add({
@@ -66,7 +68,7 @@ export function resultsRoutes(
     query: ExportQuery,
     produces: 'text/csv',
     handler: async ({ params, query, res }) => {
-      const r = await results.results(params.workshopId, query.anonymize);
+      const r = await results.results(params.workshopId, query.anonymize, Date.now(), parseSessionSelector(query.sessions));
       const file = exportFile(r, params.file, { bom: query.bom, raw: query.raw });
       download(res, file.body, file.contentType, file.fileName);
       return undefined;
@@ -83,7 +85,7 @@ export function resultsRoutes(
     query: ResultsQuery,
     produces: 'application/pdf',
     handler: async ({ params, query, res }) => {
-      const { pdf, fileName } = await report.pdf(params.workshopId, query.anonymize);
+      const { pdf, fileName } = await report.pdf(params.workshopId, query.anonymize, parseSessionSelector(query.sessions));
       download(res, pdf, 'application/pdf', fileName);
       return undefined;
     },

@@ -4,6 +4,7 @@ import { errors } from '../../common/errors';
 import { toAgendaItem } from '../workshops/workshops.service';
 import { photoCleared } from '../activities/photos.service';
 import { computeSchedule } from '../../../shared/schedule';
+import { selectSessions, sessionName, type SessionSelector } from '../../../shared/sessions';
 import { competitionRanks, OVERALL_CRITERION } from '../../../shared/tally';
 import type { AgendaItem } from '../../../shared/schemas/agenda-item';
 import { FEEDBACK_GRID_PARTS, PHOTO_TYPES } from '../../../shared/schemas/activities';
@@ -26,7 +27,7 @@ import type {
 /** Where the results read what other features compute: the vote results come from the voting service. */
 export interface ResultsSources {
   /** Results of every closed vote of a workshop (server/features/voting). */
-  votes?: { workshopResults(workshopId: string): Promise<VoteResults[]> };
+  votes?: { sessionResults(sessionId: string, title: Map<string, string>): Promise<VoteResults[]> };
 }
 
 /** The name a participant gets once names are removed. */
@@ -41,8 +42,14 @@ export interface ResultsInput {
   workshop: WorkshopRow;
   ownerName: string;
   agenda: AgendaItem[];
-  /** The workshop's live sessions, oldest first. */
+  /** The live sessions the results cover, oldest first (one session inside a provider). */
   sessions: LiveSessionRow[];
+  /** Every live session of the workshop, oldest first, covered or not. */
+  allSessions: LiveSessionRow[];
+  /** What was asked for: the day's sessions, all, or the ones named. */
+  selector: SessionSelector;
+  /** Session id → its name in the results ("The day · 2026-05-14 09:58"). */
+  sessionNames: Map<string, string>;
   /** Everyone who joined any of the sessions, in order of joining. */
   participants: ParticipantRow[];
   /** Participant id → 1-based number in order of joining. */
@@ -306,9 +313,16 @@ export function voteSection(v: VoteResults): Extract<ResultSection, { kind: 'vot
   };
 }
 
-/** The workshop's vote results, read once per build from the voting service. */
+/** The vote results of the sessions the input covers, read once per build from the voting service. */
 function voteResultsOf(input: ResultsInput): Promise<VoteResults[]> {
-  return input.memo('votes', () => input.sources.votes?.workshopResults(input.workshop.id) ?? Promise.resolve([]));
+  return input.memo('votes', async () => {
+    const source = input.sources.votes;
+    if (!source) return [];
+    const title = new Map(input.agenda.map((i) => [i.id, i.title]));
+    const out: VoteResults[] = [];
+    for (const s of input.sessions) out.push(...(await source.sessionResults(s.id, title)));
+    return out;
+  });
 }
 
 /** Vote results of an activity: dot votes (ranks, ties, criteria matrix), preference votes (both methods, pairwise table), team sorts. */
@@ -326,6 +340,7 @@ export const voteRecords: VoteRecordProvider = async (input) => {
   const title = new Map(input.agenda.map((i) => [i.id, i.title]));
   const out: VoteRecord[] = [];
   for (const vote of rows) {
+    const session = input.sessionNames.get(vote.sessionId) ?? '';
     const label = new Map(vote.options.map((o) => [o.id, o.text]));
     const criterion = new Map(vote.rules.criteria.map((c) => [c.id, c.label]));
     const activity = title.get(vote.itemId) ?? '';
@@ -334,19 +349,19 @@ export const voteRecords: VoteRecordProvider = async (input) => {
       const dots = await VoteDot.findAll({ where: { voteId: vote.id } });
       for (const d of dots) {
         if (d.count <= 0) continue;
-        out.push({ itemId: vote.itemId, activity, voter: voter(d.participantId), option: label.get(d.optionId) ?? '', criterion: criterion.get(d.criterionId) ?? 'Dots', value: d.count });
+        out.push({ itemId: vote.itemId, session, activity, voter: voter(d.participantId), option: label.get(d.optionId) ?? '', criterion: criterion.get(d.criterionId) ?? 'Dots', value: d.count });
       }
     } else {
       const rankings = await VoteRanking.findAll({ where: { voteId: vote.id } });
       for (const r of rankings) {
         r.ranking.forEach((optionId, i) =>
-          out.push({ itemId: vote.itemId, activity, voter: voter(r.participantId), option: label.get(optionId) ?? '', criterion: 'Place in ranking', value: i + 1 }),
+          out.push({ itemId: vote.itemId, session, activity, voter: voter(r.participantId), option: label.get(optionId) ?? '', criterion: 'Place in ranking', value: i + 1 }),
         );
       }
     }
   }
   const order = new Map(input.participants.map((p, i) => [input.names.get(p.id), i]));
-  return out.sort((a, b) => (a.itemId === b.itemId ? (order.get(a.voter) ?? 0) - (order.get(b.voter) ?? 0) : 0));
+  return out.sort((a, b) => (a.itemId === b.itemId && a.session === b.session ? (order.get(a.voter) ?? 0) - (order.get(b.voter) ?? 0) : 0));
 };
 
 /** Closing reflections: what the room takes away and what happens next. */
@@ -399,10 +414,11 @@ export function agendaAsRun(input: Pick<ResultsInput, 'workshop' | 'agenda' | 's
   });
 }
 
-/** Teams of every session with their challenges and members. */
+/** Teams of every session covered with their challenges and members. */
 function teamResults(input: ResultsInput): TeamResult[] {
   return input.teams.map((t) => ({
     id: t.id,
+    session: input.sessionNames.get(t.sessionId) ?? '',
     name: t.name,
     challenge: t.challenge,
     members: input.participants.filter((p) => p.teamId === t.id).map((p) => ({ participantId: p.id, name: input.names.get(p.id)! })),
@@ -413,6 +429,7 @@ function teamResults(input: ResultsInput): TeamResult[] {
 function participantResults(input: ResultsInput): ParticipantResult[] {
   return input.participants.map((p) => ({
     id: p.id,
+    session: input.sessionNames.get(p.sessionId) ?? '',
     number: input.numbers.get(p.id)!,
     name: input.names.get(p.id)!,
     teamName: p.teamId ? (input.teamNames.get(p.teamId) ?? null) : null,
@@ -445,9 +462,11 @@ function participationOf(input: ResultsInput, votes: VoteResults[]): Participati
 }
 
 /** A stored submission as the results show it. */
-function toNote(row: SubmissionRow, input: Pick<ResultsInput, 'names' | 'teamNames'>, themeNames: Map<string, string>): NoteResult {
+function toNote(row: SubmissionRow, input: Pick<ResultsInput, 'names' | 'teamNames' | 'sessionNames'>, themeNames: Map<string, string>): NoteResult {
   return {
     id: row.id,
+    sessionId: row.sessionId,
+    session: input.sessionNames.get(row.sessionId) ?? '',
     itemId: row.itemId,
     participantId: row.participantId,
     author: input.names.get(row.participantId) ?? 'Participant',
@@ -470,6 +489,22 @@ async function themeNamesOf(ctx: AppContext, sessionIds: string[]): Promise<Map<
   return new Map(rows.map((r) => [r.id, r.name]));
 }
 
+/** The input narrowed to one of its sessions, with its own memo: what a provider builds from it comes from that session alone. */
+function narrowTo(input: ResultsInput, session: LiveSessionRow): ResultsInput {
+  const cache = new Map<string, Promise<unknown>>();
+  return {
+    ...input,
+    sessions: [session],
+    participants: input.participants.filter((p) => p.sessionId === session.id),
+    teams: input.teams.filter((t) => t.sessionId === session.id),
+    notes: input.notes.filter((n) => n.sessionId === session.id),
+    memo: <T>(key: string, load: () => Promise<T>) => {
+      if (!cache.has(key)) cache.set(key, load());
+      return cache.get(key) as Promise<T>;
+    },
+  };
+}
+
 /**
  * A workshop's results after the day: the brief, the agenda as run, every activity's results in
  * agenda order (each section from a provider), teams, participants, participation and next steps.
@@ -480,8 +515,8 @@ export class ResultsService {
     private sources: ResultsSources = {},
   ) {}
 
-  /** Reads everything the providers need, once. */
-  async input(workshopId: string, anonymize: boolean, now = Date.now()): Promise<ResultsInput> {
+  /** Reads everything the providers need, once, for the sessions chosen (the day's by default). */
+  async input(workshopId: string, anonymize: boolean, now = Date.now(), selector: SessionSelector = 'day'): Promise<ResultsInput> {
     const { Workshop, User, AgendaItem, LiveSession, Participant, Team, Submission } = this.ctx.db.models;
     const workshop = await Workshop.findByPk(workshopId);
     if (!workshop) throw errors.notFound('That workshop');
@@ -490,7 +525,13 @@ export class ResultsService {
       AgendaItem.findAll({ where: { workshopId }, order: [['position', 'ASC']] }),
       LiveSession.findAll({ where: { workshopId }, order: [['startedAt', 'ASC']] }),
     ]);
-    const sessionIds = sessions.map((s) => s.id);
+    const allSessions = sessions;
+    const covered = selectSessions(
+      allSessions.map((s) => ({ id: s.id, kind: s.kind ?? 'day', row: s })),
+      selector,
+    ).map((s) => s.row);
+    const sessionNames = new Map(allSessions.map((s) => [s.id, sessionName(s.kind ?? 'day', s.startedAt.getTime())]));
+    const sessionIds = covered.map((s) => s.id);
     const sessionOrder = new Map(sessionIds.map((id, i) => [id, i]));
     const [people, teams, submissions, themeNames] = await Promise.all([
       Participant.findAll({ where: { sessionId: sessionIds } }),
@@ -513,7 +554,10 @@ export class ResultsService {
       workshop,
       ownerName: owner?.name ?? '',
       agenda: itemRows.map(toAgendaItem),
-      sessions,
+      sessions: covered,
+      allSessions,
+      selector,
+      sessionNames,
       participants,
       numbers,
       names,
@@ -532,9 +576,9 @@ export class ResultsService {
     return input;
   }
 
-  /** The workshop's results; with `anonymize`, every participant is "Participant N". */
-  async results(workshopId: string, anonymize = false, now = Date.now()): Promise<WorkshopResults> {
-    const input = await this.input(workshopId, anonymize, now);
+  /** The workshop's results for the sessions chosen (the day's by default); with `anonymize`, every participant is "Participant N". */
+  async results(workshopId: string, anonymize = false, now = Date.now(), selector: SessionSelector = 'day'): Promise<WorkshopResults> {
+    const input = await this.input(workshopId, anonymize, now, selector);
     return this.build(input);
   }
 
@@ -542,9 +586,15 @@ export class ResultsService {
   async build(input: ResultsInput): Promise<WorkshopResults> {
     const { workshop } = input;
     const activities: ActivityResult[] = [];
+    const perSession = input.sessions.map((s) => ({ session: s, input: narrowTo(input, s) }));
     for (const [i, item] of input.agenda.entries()) {
       const sections: ResultSection[] = [];
-      for (const provide of ACTIVITY_PROVIDERS) sections.push(...(await provide(item, input)));
+      // Each section comes from one session and says which: a rehearsal's notes never mix with the day's.
+      for (const { session, input: one } of perSession) {
+        for (const provide of ACTIVITY_PROVIDERS) {
+          for (const section of await provide(item, one)) sections.push({ ...section, sessionId: session.id, session: input.sessionNames.get(session.id) ?? '' });
+        }
+      }
       activities.push({ itemId: item.id, position: i + 1, title: item.title, type: item.type, phase: item.phase, prompt: showPrompt(item), sections });
     }
     const votes: VoteRecord[] = [];
@@ -562,8 +612,21 @@ export class ResultsService {
         ownerName: input.ownerName,
         headcount: workshop.headcount,
       },
-      sessions: input.sessions.map((s) => ({ id: s.id, status: s.status, startedAt: s.startedAt.getTime(), endedAt: s.endedAt?.getTime() ?? null })),
-      agenda: agendaAsRun(input),
+      sessions: input.allSessions.map((s) => {
+        const included = input.sessions.includes(s);
+        return {
+          id: s.id,
+          kind: s.kind ?? 'day',
+          name: input.sessionNames.get(s.id) ?? '',
+          status: s.status,
+          startedAt: s.startedAt.getTime(),
+          endedAt: s.endedAt?.getTime() ?? null,
+          included,
+          agenda: included ? agendaAsRun({ ...input, sessions: [s] }) : [],
+        };
+      }),
+      sessionSelector: input.selector,
+      agenda: agendaAsRun({ ...input, sessions: input.sessions.length === 1 ? input.sessions : [] }),
       activities,
       notes: input.notes,
       teams: teamResults(input),

@@ -611,18 +611,23 @@ export class VotingService {
    * the results page and observers); a vote the day ended without closing is there too, marked by its status.
    */
   async workshopResults(workshopId: string): Promise<VoteResults[]> {
-    const { LiveSession, Vote, AgendaItem } = this.ctx.db.models;
+    const { LiveSession, AgendaItem } = this.ctx.db.models;
     const sessions = await LiveSession.findAll({ where: { workshopId }, attributes: ['id'], order: [['startedAt', 'ASC']] });
     if (sessions.length === 0) return [];
     const items = await AgendaItem.findAll({ where: { workshopId }, attributes: ['id', 'title'] });
     const title = new Map(items.map((i) => [i.id, i.title]));
     const out: VoteResults[] = [];
-    for (const s of sessions) {
-      const votes = await Vote.findAll({ where: { sessionId: s.id, status: ['open', 'closed'] }, order: [['createdAt', 'ASC']] });
-      if (votes.length === 0) continue;
-      const people = await this.live.participants(s.id);
-      for (const v of votes) out.push(await this.resultsOf(v, title.get(v.itemId) ?? '', people));
-    }
+    for (const s of sessions) out.push(...(await this.sessionResults(s.id, title)));
+    return out;
+  }
+
+  /** Results of every vote of one live session that was opened, oldest first (titles of the agenda items by id). */
+  async sessionResults(sessionId: string, title: Map<string, string>): Promise<VoteResults[]> {
+    const votes = await this.ctx.db.models.Vote.findAll({ where: { sessionId, status: ['open', 'closed'] }, order: [['createdAt', 'ASC']] });
+    if (votes.length === 0) return [];
+    const people = await this.live.participants(sessionId);
+    const out: VoteResults[] = [];
+    for (const v of votes) out.push(await this.resultsOf(v, title.get(v.itemId) ?? '', people));
     return out;
   }
 
