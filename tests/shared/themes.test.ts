@@ -1,5 +1,7 @@
 import { describe, expect, it } from 'vitest';
+import { stemmer } from 'stemmer';
 import { suggestThemes, tokenize, type ThemeNote } from '../../shared/themes';
+import { mulberry32 } from './random';
 
 /**
  * Insight notes from the invented demo scenario, "Harbour Lane Bike Co-op": a new member's first
@@ -105,9 +107,62 @@ describe('suggestThemes', () => {
       { id: 'el', text: 'Το κράνος ήταν μεγάλο' },
       { id: 'emoji', text: '🚲🚲 👍' },
     ];
+    // The Japanese note shares "ヘルメット" with nothing else here; the Russian ones share "шлем".
     expect(suggestThemes(notes)).toEqual([{ label: 'шлем', noteIds: ['ru1', 'ru2'] }]);
     // Combining marks stay inside their word.
     expect(tokenize('हेलमेट बहुत बड़ा है')).toEqual(['हेलमेट', 'बहुत', 'बड़ा', 'है']);
+  });
+
+  // Notes written without spaces between words are grouped by the words Intl.Segmenter finds in them
+  // (ICU's dictionaries), not by whole-phrase equality. Invented notes about the demo's helmets and docks;
+  // the groups were assigned by hand for this test, the word splits are ICU's as Node 20 ships it.
+  it('groups Japanese, Chinese and Thai notes by the words inside them', () => {
+    const ja = [
+      { id: 'j1', text: 'ヘルメットが大きすぎる' },
+      { id: 'j2', text: 'ヘルメットをどこに置けばいいかわからない' },
+      { id: 'j3', text: '駐輪場が満車だった' },
+      { id: 'j4', text: '駐輪場が見つからない' },
+    ];
+    expect(suggestThemes(ja)).toEqual([
+      { label: 'ヘルメット', noteIds: ['j1', 'j2'] },
+      { label: '駐輪場', noteIds: ['j3', 'j4'] },
+    ]);
+    const zh = [
+      { id: 'z1', text: '头盔太大了' },
+      { id: 'z2', text: '没有头盔' },
+      { id: 'z3', text: '停车桩满了' },
+    ];
+    expect(suggestThemes(zh)).toEqual([{ label: '头盔', noteIds: ['z1', 'z2'] }]);
+    const th = [
+      { id: 't1', text: 'หมวกกันน็อคใหญ่เกินไป' },
+      { id: 't2', text: 'ไม่มีหมวกกันน็อคที่จุดจอด' },
+      { id: 't3', text: 'เบรกดังมาก' },
+    ];
+    expect(suggestThemes(th).map((t) => t.noteIds)).toEqual([['t1', 't2']]);
+    // Particles and function words alone do not make a theme.
+    expect(suggestThemes([{ id: 'a', text: 'ベルが好き' }, { id: 'b', text: 'タイヤが柔らかい' }])).toEqual([]);
+  });
+
+  it('finds words inside spaceless runs, and keeps spaced scripts to runs of letters', () => {
+    expect(tokenize('ヘルメットが大きすぎる')).toContain('ヘルメット');
+    expect(tokenize('ヘルメットが大きすぎる')).not.toContain('が');
+    expect(tokenize('没有头盔')).toContain('头盔');
+    expect(tokenize('Helmet ヘルメット')).toEqual(['helmet', 'ヘルメット']);
+  });
+
+  it('joins the same groups as a plain average-link clustering of every pair (seeded random walls)', () => {
+    // Reference: the textbook algorithm written out in full (every pair rescanned at every join), over
+    // the same tokens and weights; checks that the faster bookkeeping changes nothing.
+    const random = mulberry32(13_0004);
+    const vocabulary = ['dock', 'helmet', 'saddle', 'map', 'unlock', 'brakes', 'bike', 'ride', 'lights', 'pump', 'gears', 'bell'];
+    for (let wall = 0; wall < 15; wall++) {
+      const notes = Array.from({ length: 5 + Math.floor(random() * 36) }, (_, i) => ({
+        id: `n${i}`,
+        text: Array.from({ length: 1 + Math.floor(random() * 4) }, () => vocabulary[Math.floor(random() * vocabulary.length)]).join(' '),
+      }));
+      const ours = suggestThemes(notes).map((t) => t.noteIds.join()).sort();
+      expect(ours, `wall ${wall}`).toEqual(referenceGroups(notes).sort());
+    }
   });
 
   it('asks for closer groups as minSimilarity rises, and refuses a threshold of 0', () => {
@@ -122,3 +177,38 @@ describe('tokenize', () => {
     expect(tokenize('Café naïve')).toEqual(['café', 'naïve']);
   });
 });
+
+/** Average-link clustering by the book (weighted Jaccard, ln(1 + N ÷ n) weights, threshold 0.05), rescanning every pair. */
+function referenceGroups(notes: ThemeNote[]): string[] {
+  const stems = notes.map((n) => new Set(tokenize(n.text).map((w) => (/^[a-z]+$/.test(w) ? stemmer(w) : w))));
+  const count = new Map<string, number>();
+  for (const set of stems) for (const s of set) count.set(s, (count.get(s) ?? 0) + 1);
+  const w = (s: string) => Math.log(1 + notes.length / count.get(s)!);
+  const sim = (a: Set<string>, b: Set<string>) => {
+    let shared = 0;
+    let union = 0;
+    for (const s of new Set([...a, ...b])) {
+      union += w(s);
+      if (a.has(s) && b.has(s)) shared += w(s);
+    }
+    return union === 0 ? 0 : shared / union;
+  };
+  let groups = notes.map((_, i) => [i]);
+  for (;;) {
+    let best = -1;
+    let pair: [number, number] = [-1, -1];
+    for (let i = 0; i < groups.length; i++) {
+      for (let j = i + 1; j < groups.length; j++) {
+        let sum = 0;
+        for (const a of groups[i]) for (const b of groups[j]) sum += sim(stems[a], stems[b]);
+        const average = sum / (groups[i].length * groups[j].length);
+        if (average > best + 1e-12) [best, pair] = [average, [i, j]];
+      }
+    }
+    if (best < 0.05) break;
+    const [i, j] = pair;
+    groups[i] = [...groups[i], ...groups[j]].sort((x, y) => x - y);
+    groups = groups.filter((_, k) => k !== j);
+  }
+  return groups.filter((g) => g.length >= 2).map((g) => g.map((i) => notes[i].id).join());
+}
