@@ -20,3 +20,12 @@ export function joinBaseUrl(config: Config): string {
   const host = localNetworkAddress() ?? 'localhost';
   return `http://${host}:${config.port}`;
 }
+
+/**
+ * The base URL of every link in an e-mail (password reset, invitation, report): PUBLIC_URL, else the
+ * local network address phones join at. Never taken from a request's Host or X-Forwarded-* headers,
+ * which whoever sends the request chooses.
+ */
+export function mailLinkBase(config: Config): string {
+  return joinBaseUrl(config);
+}

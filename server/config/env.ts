@@ -29,6 +29,7 @@ export const EnvSchema = z.object({
   ACCESS_TOKEN_TTL_SEC: z.coerce.number().int().min(10).max(86400).default(900),
   CORS_ORIGINS: z.string().default(''),
   REDIS_URL: z.string().optional(),
+  SIGN_IN_ATTEMPTS: z.preprocess(unsetIfEmpty, z.coerce.number().int().min(1).max(10_000).optional()),
   JOINS_PER_CODE: z.preprocess(unsetIfEmpty, z.coerce.number().int().min(10).max(1_000_000).default(2_000)),
 });
 
@@ -53,6 +54,8 @@ export interface Config {
   corsOrigins: string[];
   /** Redis for sharing socket broadcasts between several Cairn processes; `null` for one process. */
   redisUrl: string | null;
+  /** Sign-in and reset attempts one network address may make for one e-mail per 10 minutes (three times as many failures per account). */
+  signInAttempts: number;
   /** Joins one join code takes per 10 minutes (a room and its rejoins; more for a large event). */
   joinsPerCode: number;
 }
@@ -98,5 +101,6 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     corsOrigins: e.CORS_ORIGINS.split(',').map((s) => s.trim()).filter(Boolean),
     redisUrl: e.REDIS_URL ?? null,
     joinsPerCode: e.JOINS_PER_CODE,
+    signInAttempts: e.SIGN_IN_ATTEMPTS ?? (e.NODE_ENV === 'production' ? 10 : 50),
   };
 }

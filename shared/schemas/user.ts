@@ -10,13 +10,22 @@ export const WorkshopRole = z.enum(['owner', 'cofacilitator', 'observer']);
 /** A per-workshop role. */
 export type WorkshopRole = z.infer<typeof WorkshopRole>;
 
-/** An e-mail address, trimmed and lower-cased. */
+/**
+ * The one spelling of an e-mail address that Cairn stores, looks accounts up by and counts attempts
+ * under: Unicode NFKC (so full-width and other compatibility forms become plain letters), spaces and
+ * other white space around it trimmed, lower case.
+ * @example normaliseEmail('\tＭＩＲＡ@harbourlane.example ') // 'mira@harbourlane.example'
+ */
+export function normaliseEmail(value: string): string {
+  return value.normalize('NFKC').trim().toLowerCase();
+}
+
+/** An e-mail address in its one spelling ({@link normaliseEmail}). */
 export const Email = z
   .string()
-  .trim()
-  .toLowerCase()
-  .max(254)
-  .pipe(z.email('Enter a valid e-mail address'));
+  .max(1000)
+  .transform(normaliseEmail)
+  .pipe(z.string().max(254).pipe(z.email('Enter a valid e-mail address')));
 
 /** A new password: long enough to resist guessing, short enough for bcrypt (72 bytes). */
 export const NewPassword = z

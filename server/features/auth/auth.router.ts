@@ -15,24 +15,55 @@ import {
   SignInBody,
   SignUpBody,
   User,
+  normaliseEmail,
 } from '../../../shared/schemas/user';
+import { mailLinkBase } from '../../common/network';
 import type { UserRow } from '../../db/models';
 import type { AppContext } from '../../context';
 
 /** Name of the HttpOnly cookie that carries the refresh token. */
 export const REFRESH_COOKIE = 'cairn_refresh';
 
-/** Limits sign-in and reset attempts per address and e-mail, so guessing a password is slow. */
+/** The e-mail address a request body names, in the one spelling accounts are looked up by (empty when none). */
+function bodyEmail(req: Request): string {
+  const email = (req.body as { email?: unknown } | undefined)?.email;
+  return typeof email === 'string' ? normaliseEmail(email) : '';
+}
+
+/** Answers a request that went over a limit. */
+function refuse(_req: Request, res: Response): void {
+  res.status(429).json({ error: { code: 'rate_limited', message: 'Too many attempts; wait a few minutes and try again' } });
+}
+
+/**
+ * Limits attempts per network address and e-mail, so guessing a password is slow. The key is the
+ * address as accounts are looked up by it, so padding, case or compatibility forms make no new key.
+ */
 function attemptLimiter(limit: number) {
   return rateLimit({
     windowMs: 10 * 60 * 1000,
     limit,
     standardHeaders: 'draft-8',
     legacyHeaders: false,
-    keyGenerator: (req) => `${ipKeyGenerator(req.ip ?? '')}|${String((req.body as { email?: unknown })?.email ?? '').toLowerCase()}`,
-    handler: (_req, res) => {
-      res.status(429).json({ error: { code: 'rate_limited', message: 'Too many attempts; wait a few minutes and try again' } });
-    },
+    keyGenerator: (req) => `${ipKeyGenerator(req.ip ?? '')}|${bodyEmail(req)}`,
+    handler: refuse,
+  });
+}
+
+/**
+ * Limits attempts per account whatever network address they come from (the key is the looked-up
+ * address alone), counting only the refused ones when `failuresOnly`; an unknown address counts the
+ * same way, so the limit does not tell which addresses have accounts.
+ */
+function accountLimiter(limit: number, windowMs: number, failuresOnly: boolean) {
+  return rateLimit({
+    windowMs,
+    limit,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    skipSuccessfulRequests: failuresOnly,
+    keyGenerator: (req) => `account|${bodyEmail(req)}`,
+    handler: refuse,
   });
 }
 
@@ -52,7 +83,12 @@ export function setSession(req: Request, res: Response, auth: AuthService, user:
 /** Sign-in, sign-up, refresh, sign-out, password change and reset. */
 export function authRoutes(routes: ApiRoutes, app: AppContext, auth: AuthService, users: UsersService): void {
   const tag = 'auth';
-  const limit = app.config.nodeEnv === 'production' ? 10 : 50;
+  const limit = app.config.signInAttempts;
+  // Many addresses together may guess one account's password a few times more than one address may
+  // (OWASP Authentication Cheat Sheet: limit per account as well as per address, common practice).
+  const accountFailures = accountLimiter(limit * 3, 10 * 60 * 1000, true);
+  // Every reset request may send a mail: a few an hour to one mailbox, whoever asks.
+  const resetMails = accountLimiter(RESET_MAILS_PER_HOUR, 60 * 60 * 1000, false);
 
   routes.add({
     method: 'get',
@@ -70,7 +106,7 @@ export function authRoutes(routes: ApiRoutes, app: AppContext, auth: AuthService
     summary: 'Sign in with e-mail and password',
     tag,
     access: access.public,
-    before: [attemptLimiter(limit)],
+    before: [attemptLimiter(limit), accountFailures],
     body: SignInBody,
     response: SessionAnswer,
     handler: async ({ req, res, body }) => setSession(req, res, auth, await auth.signIn(body.email, body.password)),
@@ -153,22 +189,16 @@ export function authRoutes(routes: ApiRoutes, app: AppContext, auth: AuthService
     summary: 'E-mail a password-reset link (answers the same whether or not the account exists)',
     tag,
     access: access.public,
-    before: [attemptLimiter(limit)],
+    before: [attemptLimiter(limit), resetMails],
     body: ResetRequestBody,
     status: 202,
     response: z.object({ sent: z.literal(true) }),
-    handler: async ({ req, body }) => {
-      const started = await auth.startReset(body.email);
-      if (started) {
-        const link = `${publicBase(app, req)}/reset-password?token=${encodeURIComponent(started.token)}`;
-        await app.mail.send({
-          to: started.user.email,
-          subject: 'Reset your Cairn password',
-          text:
-            `Hello ${started.user.name},\n\nSomeone asked to reset the password of your Cairn account. ` +
-            `If it was you, open this link within an hour:\n\n${link}\n\nIf it was not you, ignore this message; your password stays as it is.\n`,
-        });
-      }
+    handler: ({ body }) => {
+      // Answered before the account is even looked up, so the answer takes as long for an unknown
+      // address as for a known one; the link is made and mailed afterwards.
+      setImmediate(() => {
+        sendResetLink(app, auth, body.email).catch((err: unknown) => app.logger.error({ err }, 'could not send a password-reset mail'));
+      });
       return { sent: true as const };
     },
   });
@@ -187,8 +217,19 @@ export function authRoutes(routes: ApiRoutes, app: AppContext, auth: AuthService
   });
 }
 
-/** The base URL that links in e-mails point to: PUBLIC_URL, else the address the request came to. */
-export function publicBase(app: AppContext, req: Request): string {
-  if (app.config.publicUrl) return app.config.publicUrl.replace(/\/$/, '');
-  return `${req.protocol}://${req.get('host')}`;
+/** How many reset mails one address gets in an hour at most, however many times it is asked for. */
+export const RESET_MAILS_PER_HOUR = 5;
+
+/** Makes a reset link for the account with this address, if there is one, and mails it. */
+async function sendResetLink(app: AppContext, auth: AuthService, email: string): Promise<void> {
+  const started = await auth.startReset(email);
+  if (!started) return;
+  const link = `${mailLinkBase(app.config)}/reset-password?token=${encodeURIComponent(started.token)}`;
+  await app.mail.send({
+    to: started.user.email,
+    subject: 'Reset your Cairn password',
+    text:
+      `Hello ${started.user.name},\n\nSomeone asked to reset the password of your Cairn account. ` +
+      `If it was you, open this link within an hour:\n\n${link}\n\nIf it was not you, ignore this message; your password stays as it is.\n`,
+  });
 }

@@ -1,12 +1,13 @@
 import bcrypt from 'bcryptjs';
 import crypto from 'node:crypto';
 import type { Request } from 'express';
+import type { Transaction } from 'sequelize';
 import type { Database } from '../../db';
 import type { UserRow } from '../../db/models';
 import type { TokenService } from '../../common/tokens';
 import type { Caller } from '../../context';
 import { AppError, errors } from '../../common/errors';
-import type { GlobalRole, User } from '../../../shared/schemas/user';
+import { normaliseEmail, type GlobalRole, type User } from '../../../shared/schemas/user';
 
 /** bcrypt cost: about 100 ms a hash on a laptop, slow enough for guessing, quick enough for sign-in. */
 const BCRYPT_COST = 10;
@@ -70,7 +71,7 @@ export class AuthService {
 
   /** Checks an e-mail and password; the same message for an unknown e-mail and a wrong password. */
   async signIn(email: string, password: string): Promise<UserRow> {
-    const user = await this.db.models.User.findOne({ where: { email } });
+    const user = await this.findByEmail(email);
     const ok = await bcrypt.compare(password, user?.passwordHash ?? DUMMY_HASH);
     if (!user || !ok) throw new AppError(401, 'wrong_credentials', 'That e-mail and password do not match an account');
     if (user.disabled) throw new AppError(403, 'forbidden', 'This account is disabled; ask your Cairn admin');
@@ -79,15 +80,20 @@ export class AuthService {
 
   /** Creates an account; fails with a conflict if the e-mail is taken. */
   async createUser(input: { email: string; name: string; password: string; role: GlobalRole }): Promise<UserRow> {
-    const existing = await this.db.models.User.findOne({ where: { email: input.email } });
+    const existing = await this.findByEmail(input.email);
     if (existing) throw errors.conflict('An account with that e-mail already exists');
     return this.db.models.User.create({
       id: crypto.randomUUID(),
-      email: input.email,
+      email: normaliseEmail(input.email),
       name: input.name,
       role: input.role,
       passwordHash: await hashPassword(input.password),
     });
+  }
+
+  /** The account with this e-mail address, in whatever spelling ({@link normaliseEmail}), or null. */
+  findByEmail(email: string): Promise<UserRow | null> {
+    return this.db.models.User.findOne({ where: { email: normaliseEmail(email) } });
   }
 
   /** Issues the access and refresh tokens of a session. */
@@ -119,39 +125,62 @@ export class AuthService {
     if (!(await bcrypt.compare(current, user.passwordHash))) {
       throw new AppError(400, 'wrong_credentials', 'Your current password is not right', { currentPassword: 'Not right' });
     }
-    user.passwordHash = await hashPassword(next);
-    user.tokenVersion += 1;
-    await user.save();
+    const hash = await hashPassword(next);
+    await this.db.writeTx(async (transaction) => {
+      user.passwordHash = hash;
+      user.tokenVersion += 1;
+      await user.save({ transaction });
+      await this.voidResetLinks(user.id, transaction);
+    });
     return user;
   }
 
-  /** Starts a password reset: returns the one-time token, or null when the e-mail has no account. */
+  /** Starts a password reset: returns the one-time token, or null when the e-mail has no account. The account's older links stop working. */
   async startReset(email: string): Promise<{ user: UserRow; token: string } | null> {
-    const user = await this.db.models.User.findOne({ where: { email } });
+    const user = await this.findByEmail(email);
     if (!user || user.disabled) return null;
     const token = newToken();
-    await this.db.models.PasswordReset.create({
-      id: crypto.randomUUID(),
-      userId: user.id,
-      tokenHash: hashToken(token),
-      usedAt: null,
-      expiresAt: new Date(Date.now() + 60 * 60 * 1000),
+    await this.db.writeTx(async (transaction) => {
+      await this.voidResetLinks(user.id, transaction);
+      await this.db.models.PasswordReset.create(
+        {
+          id: crypto.randomUUID(),
+          userId: user.id,
+          tokenHash: hashToken(token),
+          usedAt: null,
+          expiresAt: new Date(Date.now() + 60 * 60 * 1000),
+        },
+        { transaction },
+      );
     });
     return { user, token };
   }
 
-  /** Completes a password reset with a one-time token. */
+  /**
+   * Completes a password reset with a one-time token. The token is spent by one conditional update
+   * inside the writer queue, so of several requests sent at once only one sets a password; the
+   * account's other links and sessions end with it.
+   */
   async confirmReset(token: string, newPassword: string): Promise<void> {
-    const row = await this.db.models.PasswordReset.findOne({ where: { tokenHash: hashToken(token) } });
-    if (!row || row.usedAt || row.expiresAt.getTime() < Date.now()) {
-      throw new AppError(400, 'bad_request', 'This reset link is no longer valid; ask for a new one');
-    }
-    const user = await this.db.models.User.findByPk(row.userId);
-    if (!user) throw errors.notFound('The account');
-    user.passwordHash = await hashPassword(newPassword);
-    user.tokenVersion += 1;
-    await user.save();
-    row.usedAt = new Date();
-    await row.save();
+    const invalid = () => new AppError(400, 'bad_request', 'This reset link is no longer valid; ask for a new one');
+    const hash = await hashPassword(newPassword);
+    await this.db.writeTx(async (transaction) => {
+      const { PasswordReset, User } = this.db.models;
+      const row = await PasswordReset.findOne({ where: { tokenHash: hashToken(token) }, transaction });
+      if (!row || row.usedAt || row.expiresAt.getTime() < Date.now()) throw invalid();
+      const [spent] = await PasswordReset.update({ usedAt: new Date() }, { where: { id: row.id, usedAt: null }, transaction });
+      if (spent !== 1) throw invalid();
+      const user = await User.findByPk(row.userId, { transaction });
+      if (!user || user.disabled) throw invalid();
+      user.passwordHash = hash;
+      user.tokenVersion += 1;
+      await user.save({ transaction });
+      await this.voidResetLinks(user.id, transaction);
+    });
+  }
+
+  /** Ends every reset link of an account that is still open. */
+  private async voidResetLinks(userId: string, transaction: Transaction): Promise<void> {
+    await this.db.models.PasswordReset.update({ usedAt: new Date() }, { where: { userId, usedAt: null }, transaction });
   }
 }

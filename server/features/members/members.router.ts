@@ -5,7 +5,8 @@ import { errors } from '../../common/errors';
 import type { AppContext } from '../../context';
 import type { MembersService } from './members.service';
 import type { AuthService } from '../auth/auth.service';
-import { publicBase, setSession } from '../auth/auth.router';
+import { setSession } from '../auth/auth.router';
+import { mailLinkBase } from '../../common/network';
 import { AcceptBody, AcceptNewBody, Invitation, InvitationInfo, InviteBody, People } from '../../../shared/schemas/member';
 import { SessionAnswer } from '../../../shared/schemas/user';
 
@@ -36,9 +37,9 @@ export function membersRoutes(routes: ApiRoutes, app: AppContext, members: Membe
     body: InviteBody,
     response: Invitation,
     status: 201,
-    handler: ({ params, body, caller, req }) => {
+    handler: ({ params, body, caller }) => {
       if (caller.kind !== 'user') throw errors.unauthenticated();
-      return members.invite(params.workshopId, caller.user, body, publicBase(app, req));
+      return members.invite(params.workshopId, caller.user, body, mailLinkBase(app.config));
     },
   });
 

@@ -4,7 +4,7 @@ import type { ApiRoutes } from '../../common/route';
 import { access, EDIT_ROLES, OWNER_ROLES, READ_ROLES } from '../../common/access';
 import { errors } from '../../common/errors';
 import type { AppContext } from '../../context';
-import { publicBase } from '../auth/auth.router';
+import { mailLinkBase } from '../../common/network';
 import type { ResultsService } from './results.service';
 import type { ReportService } from './report.service';
 import type { RetentionService } from './retention.service';
@@ -111,9 +111,9 @@ export function resultsRoutes(
     params: WorkshopParams,
     body: SendReportBody,
     response: SendReportAnswer,
-    handler: ({ params, body, caller, req }) => {
+    handler: ({ params, body, caller }) => {
       if (caller.kind !== 'user') throw errors.unauthenticated();
-      return report.send(params.workshopId, body, caller.user, publicBase(app, req));
+      return report.send(params.workshopId, body, caller.user, mailLinkBase(app.config));
     },
   });
 
