@@ -88,7 +88,8 @@ test('after a short live run: the results page, the notes and tallies CSV as the
   await expect(consolePage.getByTestId('results-title')).toHaveText(TITLE);
   const insights = consolePage.getByTestId('activity-insights');
   for (const text of NOTES) await expect(insights.getByTestId('result-note').filter({ hasText: text.split('\n')[0]! })).toHaveCount(1);
-  await expect(consolePage.getByTestId('agenda-run-row')).toHaveCount(17);
+  // The agenda as run, one table per session of the day (other browser tests may have run the demo before): this run's is last.
+  await expect(consolePage.getByTestId('session-agenda').last().getByTestId('agenda-run-row')).toHaveCount(17);
   await expect(consolePage.getByTestId('activity-dot_vote').getByTestId('vote-row').first()).toContainText(OPTIONS[0]!);
   // Other browser tests may have run the demo workshop live before this one: count at least this run's phone.
   await expect(consolePage.getByTestId('participation')).toContainText(/[1-9]\d* joined/);
@@ -98,31 +99,36 @@ test('after a short live run: the results page, the notes and tallies CSV as the
 
   // The notes CSV holds exactly the notes the console showed, field by field.
   const notes = csv(await download(consolePage, 'export-notes-csv', 'results-notes.csv'));
-  expect(notes[0]).toEqual(['Activity number', 'Activity', 'Activity type', 'Author', 'Team', 'Theme', 'Kind', 'Part', 'Note', 'Details', 'Written at']);
+  expect(notes[0]).toEqual(['Session', 'Activity number', 'Activity', 'Activity type', 'Author', 'Team', 'Theme', 'Kind', 'Part', 'Note', 'Details', 'Written at']);
   // Only this run's notes: other browser tests may have run the demo workshop live before.
-  const insightRows = notes.slice(1).filter((r) => r[2] === 'insights' && r[3] === 'Ana Lima');
-  expect(insightRows.map((r) => r[8]).sort()).toEqual([...consoleNotes].sort());
-  expect(new Set(insightRows.map((r) => r[3]))).toEqual(new Set(['Ana Lima']));
+  const insightRows = notes.slice(1).filter((r) => r[3] === 'insights' && r[4] === 'Ana Lima');
+  expect(insightRows.map((r) => r[9]).sort()).toEqual([...consoleNotes].sort());
+  expect(new Set(insightRows.map((r) => r[4]))).toEqual(new Set(['Ana Lima']));
+  // Every row names the session it comes from.
+  expect(insightRows.every((r) => /^The day · /.test(r[0]!))).toBe(true);
 
   // The tallies CSV holds the console's tally: each option's dots.
   const tallies = csv(await download(consolePage, 'export-tallies-csv', 'results-tallies.csv'));
-  const dots = tallies.slice(1).filter((r) => r[1] === 'Pick the challenges');
+  // This run's vote block: the last session's rows.
+  const voteRows = tallies.slice(1).filter((r) => r[2] === 'Pick the challenges');
+  const lastSession = voteRows.at(-1)![0];
+  const dots = voteRows.filter((r) => r[0] === lastSession);
   expect(dots).toHaveLength(3);
   for (const row of consoleTally) {
-    const match = dots.find((r) => row.text.includes(r[4]!));
+    const match = dots.find((r) => row.text.includes(r[5]!));
     expect(match, row.text).toBeDefined();
-    expect(match![5]).toBe(row.dots);
+    expect(match![6]).toBe(row.dots);
   }
 
   // Names removed on request.
   await consolePage.getByTestId('export-anonymize').click();
   const anonymous = csv(await download(consolePage, 'export-notes-csv'));
   // Ana's notes carry one "Participant N" (N by order of joining, which earlier runs may have moved).
-  const anonymousInsights = anonymous.slice(1).filter((r) => r[2] === 'insights' && NOTES.includes(r[8]!));
+  const anonymousInsights = anonymous.slice(1).filter((r) => r[3] === 'insights' && NOTES.includes(r[9]!));
   expect(anonymousInsights).toHaveLength(2);
-  expect(new Set(anonymousInsights.map((r) => r[3])).size).toBe(1);
-  expect(anonymousInsights[0]![3]).toMatch(/^Participant \d+$/);
-  expect(anonymous.slice(1).map((r) => r[3]).join('\n')).not.toContain('Ana Lima');
+  expect(new Set(anonymousInsights.map((r) => r[4])).size).toBe(1);
+  expect(anonymousInsights[0]![4]).toMatch(/^Participant \d+$/);
+  expect(anonymous.slice(1).map((r) => r[4]).join('\n')).not.toContain('Ana Lima');
 
   // Send the report: a link to the observer, the PDF to Ana, who left her address.
   await consolePage.getByTestId('open-send').click();

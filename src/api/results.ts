@@ -17,6 +17,8 @@ export interface DownloadOptions {
   bom?: boolean;
   /** Keep text that starts like a formula exactly as written (neutralised otherwise). */
   raw?: boolean;
+  /** The sessions covered: `day` (the default), `all`, or session ids separated by commas. */
+  sessions?: string;
 }
 
 function query(o: DownloadOptions): string {
@@ -24,6 +26,7 @@ function query(o: DownloadOptions): string {
   if (o.anonymize) q.set('anonymize', 'true');
   if (o.bom) q.set('bom', 'true');
   if (o.raw) q.set('raw', 'true');
+  if (o.sessions && o.sessions !== 'day') q.set('sessions', o.sessions);
   const s = q.toString();
   return s ? `?${s}` : '';
 }
@@ -67,7 +70,7 @@ export function saveBlob(blob: Blob, fileName: string): void {
 
 /** Results, exports, the report, sending it and personal data: the calls of the pages after the workshop. */
 export const resultsApi = {
-  results: (workshopId: string, anonymize = false) => http.get<WorkshopResults>(`${w(workshopId)}/results${query({ anonymize })}`),
+  results: (workshopId: string, anonymize = false, sessions = 'day') => http.get<WorkshopResults>(`${w(workshopId)}/results${query({ anonymize, sessions })}`),
   recipients: (workshopId: string) => http.get<ReportRecipients>(`${w(workshopId)}/report/recipients`),
   send: (workshopId: string, body: SendReportBody) => http.post<SendReportAnswer>(`${w(workshopId)}/report/send`, body),
   retention: (workshopId: string) => http.get<RetentionStatus>(`${w(workshopId)}/retention`),
@@ -88,7 +91,7 @@ export const resultsApi = {
 
   /** Downloads the report as a PDF made on the server. */
   async downloadPdf(tokens: TokenSource, workshopId: string, o: DownloadOptions = {}): Promise<void> {
-    const path = `${w(workshopId)}/report.pdf${query({ anonymize: o.anonymize })}`;
+    const path = `${w(workshopId)}/report.pdf${query({ anonymize: o.anonymize, sessions: o.sessions })}`;
     let got = await fetchFile(path, tokens.token(), 'report.pdf').catch(async (err: unknown) => {
       if (err instanceof ApiError && err.status === 401 && (await tokens.renew())) return null;
       throw err;
