@@ -14,7 +14,7 @@ import { seedDemo } from './db/seed';
 import { TokenService } from './common/tokens';
 import { ApiRoutes } from './common/route';
 import { errorHandler, notFoundHandler } from './common/errors';
-import { serveClient } from './common/client-assets';
+import { hashedAssets, serveClient } from './common/client-assets';
 import type { AppContext } from './context';
 import { Mailer } from './features/mail/mail.service';
 import { AuthService } from './features/auth/auth.service';
@@ -115,6 +115,8 @@ export async function createApp(config: Config): Promise<CairnApp> {
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
+  const hasClient = fs.existsSync(path.join(DIST_DIR, 'index.html'));
+  if (hasClient) app.use(hashedAssets(DIST_DIR));
   app.use(
     helmet({
       contentSecurityPolicy: {
@@ -167,9 +169,7 @@ export async function createApp(config: Config): Promise<CairnApp> {
   app.use('/api', routes.router);
   app.use('/api', notFoundHandler);
 
-  if (fs.existsSync(path.join(DIST_DIR, 'index.html'))) {
-    serveClient(app, DIST_DIR);
-  }
+  if (hasClient) serveClient(app, DIST_DIR);
   app.use(errorHandler);
 
   const server = http.createServer(app);

@@ -5,7 +5,7 @@ import zlib from 'node:zlib';
 import express from 'express';
 import supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { cacheControlOf, serveClient } from '../../server/common/client-assets';
+import { cacheControlOf, hashedAssets, serveClient } from '../../server/common/client-assets';
 import { startTestApp, type TestApp } from './helpers';
 
 const SHELL = '<!doctype html><title>Cairn</title><div id="app"></div>' + ' '.repeat(600);
@@ -23,6 +23,7 @@ beforeAll(async () => {
     await fs.writeFile(path.join(dist, `${name}.gz`), zlib.gzipSync(text));
   }
   const app = express();
+  app.use(hashedAssets(dist));
   app.get('/api/ping', (_req, res) => res.json({ ok: true }));
   serveClient(app, dist);
   agent = supertest.agent(app);
@@ -48,6 +49,7 @@ describe('the built client', () => {
     // RFC 8246 (immutable); RFC 9111 §5.2.2.4 (no-cache: use only after revalidating).
     const asset = await agent.get('/assets/index-AbC123.js');
     expect(asset.headers['cache-control']).toBe('public, max-age=31536000, immutable');
+    expect(asset.headers['x-content-type-options']).toBe('nosniff');
     const shell = await agent.get('/join/ABC123').set('Accept-Encoding', 'br');
     expect(shell.status).toBe(200);
     expect(shell.headers['content-encoding']).toBe('br');

@@ -7,44 +7,16 @@ import {
   PointElement,
   Tooltip,
   type ChartOptions,
-  type PointStyle,
 } from 'chart.js';
-import { CRITERION_MARKS, LIGHT, PROJECTOR } from '../../theme/palette';
+import { LIGHT, PROJECTOR } from '../../theme/palette';
+import type { ChartTheme } from './marks';
 
 // Only the parts the voting charts use, so the bundle stays small (vue-chartjs registers each chart's controller).
 Chart.register(BarElement, CategoryScale, LinearScale, PointElement, Tooltip, Legend);
 // Cairn's own typeface, shipped with the app, on the charts too.
 Chart.defaults.font.family = "'Source Sans 3', system-ui, sans-serif";
 
-/** Where a chart is shown: the console on a light card, or the projector's dark screen read from 8 m. */
-export type ChartTheme = 'light' | 'projector';
-
-/** chart.js point styles matching each criterion mark's shape, so legends show the shape as well as the colour. */
-const POINT_STYLE: Record<(typeof CRITERION_MARKS)[number]['shape'], PointStyle> = {
-  circle: 'circle',
-  triangle: 'triangle',
-  square: 'rect',
-  diamond: 'rectRot',
-};
-
-/** The projector's light counterparts of the criterion colours: the marks' own colours are too dark to see on its dark screen. */
-const PROJECTOR_MARK_COLOURS = [PROJECTOR.teal, PROJECTOR.coral, PROJECTOR.sand, PROJECTOR.muted];
-
-/**
- * The look of the criterion at `index` on a theme: its colour, chart point style, letter and shape.
- * @example markOf(1, 'light') // { colour: '#b9452f', pointStyle: 'triangle', letter: 'B', shape: 'triangle', ink: '#ffffff' }
- */
-export function markOf(index: number, theme: ChartTheme) {
-  const mark = CRITERION_MARKS[index % CRITERION_MARKS.length]!;
-  return {
-    colour: theme === 'light' ? mark.colour : PROJECTOR_MARK_COLOURS[index % PROJECTOR_MARK_COLOURS.length]!,
-    /** The colour of the letter drawn on the mark. */
-    ink: theme === 'light' ? '#ffffff' : PROJECTOR.background,
-    pointStyle: POINT_STYLE[mark.shape],
-    letter: mark.letter,
-    shape: mark.shape,
-  };
-}
+export { markOf, type ChartTheme } from './marks';
 
 /** Shortens an option's text for a chart axis; the full text is in the table beside the chart. */
 export function shortLabel(text: string, max = 42): string {
