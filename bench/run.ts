@@ -12,7 +12,7 @@ import crypto from 'node:crypto';
 import { performance } from 'node:perf_hooks';
 import { io as ioClient, type Socket } from 'socket.io-client';
 import { DEMO_ACCOUNTS, DEMO_WORKSHOP_TITLE } from '../server/db/seed';
-import type { LiveState } from '../shared/schemas/live';
+import type { ScreenState } from '../shared/schemas/live';
 
 // ---------- arguments ----------
 const args = process.argv.slice(2);
@@ -121,12 +121,12 @@ async function pool<T, R>(items: T[], limit: number, work: (item: T, i: number) 
 }
 
 /** Sends one change and times its arrival at every phone. */
-async function fanOut(phones: Socket[], send: () => Promise<unknown>, expect: (state: LiveState) => boolean): Promise<number[]> {
+async function fanOut(phones: Socket[], send: () => Promise<unknown>, expect: (state: ScreenState) => boolean): Promise<number[]> {
   const t0 = performance.now();
   const arrivals = phones.map(
     (s) =>
       new Promise<number>((resolve) => {
-        const listener = (state: LiveState) => {
+        const listener = (state: ScreenState) => {
           if (!expect(state)) return;
           s.off('session:updated', listener);
           resolve(performance.now() - t0);
@@ -171,7 +171,7 @@ async function benchCairn() {
       deviceId: `bench-${i}-${crypto.randomUUID()}`,
     });
     const s = await connect(port, joined.token);
-    await ask<LiveState>(s, 'session:sync');
+    await ask<ScreenState>(s, 'session:sync');
     joinTimes.push(performance.now() - t0);
     return s;
   });
@@ -180,12 +180,14 @@ async function benchCairn() {
 
   // Fan-out of an activity change: the facilitator moves between items; every phone times the arrival.
   const fanout: number[] = [];
-  let payload: LiveState | null = null;
+  // The baseline sends what a phone received: the phone's state, not the console's answer.
+  let payload = null as ScreenState | null;
+  phones[0]!.on('session:updated', (s: ScreenState) => (payload = s));
   for (let r = 0; r < WARMUP_ROUNDS + FANOUT_ROUNDS; r++) {
     const index = r % 2 === 0 ? 2 : 3;
     const times = await fanOut(
       phones,
-      async () => (payload = await ask<LiveState>(facilitator, 'session:goto', { index })),
+      () => ask(facilitator, 'session:goto', { index }),
       (s) => s.currentIndex === index,
     );
     if (r >= WARMUP_ROUNDS) fanout.push(...times);
@@ -216,7 +218,7 @@ async function voteBurst(child: Child, facilitator: Socket, phones: Socket[], vo
 }
 
 // ---------- the baseline ----------
-async function benchBare(payload: LiveState) {
+async function benchBare(payload: ScreenState) {
   const child = await startChild('bare');
   const heapBefore = await child.ask<number>('gc');
   const joinTimes: number[] = [];

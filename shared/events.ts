@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import type { ErrorCode } from './errors';
-import type { LiveState, Me, ParticipantView, SubmissionView } from './schemas/live';
+import type { LiveState, Me, ParticipantView, ScreenState, SubmissionView } from './schemas/live';
 import type { FormTeamsPayload, SetTeamsPayload, Team } from './schemas/team';
 import type {
   BallotAnswer,
@@ -53,8 +53,8 @@ export interface ClientToServerEvents {
   'clock:ping': (payload: z.input<typeof ClockPing>, ack: AckFn<ClockPong>) => void;
   /** Facilitator or display screen: join a session's rooms and get its state. */
   'session:watch': (payload: z.input<typeof LivePayloads.watch>, ack: AckFn<LiveState>) => void;
-  /** Any screen: the current state again (after a reconnect). */
-  'session:sync': (payload: Record<string, never>, ack: AckFn<LiveState>) => void;
+  /** Any screen: the current state again (after a reconnect); a phone gets a phone's state (no counts, no runs). */
+  'session:sync': (payload: Record<string, never>, ack: AckFn<ScreenState>) => void;
   'session:next': (payload: Record<string, never>, ack: AckFn<LiveState>) => void;
   'session:back': (payload: Record<string, never>, ack: AckFn<LiveState>) => void;
   'session:goto': (payload: z.input<typeof LivePayloads.goto>, ack: AckFn<LiveState>) => void;
@@ -148,8 +148,8 @@ export interface ClientToServerEvents {
 
 /** Events the server pushes to clients (`entity:verbed`). */
 export interface ServerToClientEvents {
-  /** The session's state changed (to everyone in the session). */
-  'session:updated': (state: LiveState) => void;
+  /** The session's state changed: the whole state to the console and projectors, a phone's state to the phones. */
+  'session:updated': (state: ScreenState) => void;
   /** The facilitator sent a short message (to everyone in the session). */
   'session:messaged': (message: { id: string; text: string; sentAt: number }) => void;
   /** The session was stopped. */

@@ -119,6 +119,26 @@ export const LiveState = z.object({
 /** The live session's state. */
 export type LiveState = z.infer<typeof LiveState>;
 
+/**
+ * The live state a phone gets, pushed and on resync: what it shows, without the room's counts and the
+ * day's history of runs, so a change costs the same small message at 09:00 and at 16:00.
+ */
+export const PhoneState = LiveState.omit({ runs: true, participantCount: true, onlineCount: true, joinUrl: true });
+/** The live state a phone gets. */
+export type PhoneState = z.infer<typeof PhoneState>;
+
+/** A live state as any screen holds it: a phone's lacks the counts and the runs that the console and projector get. */
+export type ScreenState = PhoneState & Partial<Omit<LiveState, keyof PhoneState>>;
+
+/**
+ * A screen's live state trimmed to a phone's.
+ * @example phoneStateOf(state).runs // undefined
+ */
+export function phoneStateOf(state: LiveState): PhoneState {
+  const { runs: _runs, participantCount: _p, onlineCount: _o, joinUrl: _j, ...phone } = state;
+  return phone;
+}
+
 /** A participant as the console sees them. */
 export const ParticipantView = z.object({
   id: z.string(),

@@ -2,7 +2,7 @@ import { defineStore } from 'pinia';
 import { computed, ref, shallowRef } from 'vue';
 import { ClockSync } from '../../shared/clock';
 import type { Ack, ClientToServerEvents } from '../../shared/events';
-import type { LiveState, Me, ParticipantView, SubmissionInput, SubmissionView } from '../../shared/schemas/live';
+import type { LiveState, Me, ParticipantView, ScreenState, SubmissionInput, SubmissionView } from '../../shared/schemas/live';
 import { connectSocket, type CairnSocket } from '../socket/client';
 import { newId } from '../socket/ids';
 
@@ -25,7 +25,7 @@ const ACK_TIMEOUT_MS = 6000;
  * and (on phones) the queue of submissions not yet acknowledged.
  */
 export const useLiveStore = defineStore('live', () => {
-  const state = ref<LiveState | null>(null);
+  const state = ref<ScreenState | null>(null);
   const connected = ref(false);
   const ended = ref(false);
   const me = ref<Me | null>(null);
@@ -50,7 +50,7 @@ export const useLiveStore = defineStore('live', () => {
 
   const currentItem = computed(() => state.value?.item ?? null);
 
-  function accept(next: LiveState): void {
+  function accept(next: ScreenState): void {
     const cur = state.value;
     if (cur && cur.sessionId === next.sessionId && next.version < cur.version) return;
     state.value = next;
@@ -156,7 +156,7 @@ export const useLiveStore = defineStore('live', () => {
         if (opts.watch) {
           accept(await ask<LiveState>('session:watch', { sessionId: opts.watch }));
         } else {
-          accept(await ask<LiveState>('session:sync', {}));
+          accept(await ask<ScreenState>('session:sync', {}));
           if (!opts.display) me.value = await ask<Me>('participant:me', {});
           await flush();
         }

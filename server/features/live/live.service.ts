@@ -16,6 +16,7 @@ import {
   type JoinAnswer,
   type JoinBody,
   type JoinInfo,
+  phoneStateOf,
   type LiveItem,
   type LiveSessionInfo,
   type LiveState,
@@ -806,7 +807,12 @@ export class LiveService {
   }
 
   private broadcast(state: LiveState): void {
-    this.io?.to(liveRooms.session(state.sessionId)).emit('session:updated', state);
+    if (!this.io) return;
+    const screens = liveRooms.screens(state.sessionId);
+    // Two messages: the whole state to the screens that show counts and drift, and a phone's state,
+    // which does not grow with the day's history, to everyone else in the session (the phones).
+    this.io.to(screens).emit('session:updated', state);
+    this.io.to(liveRooms.session(state.sessionId)).except(screens).emit('session:updated', phoneStateOf(state));
   }
 
   private hasListeners(room: string): boolean {

@@ -5,7 +5,7 @@ import { AppError, errors } from '../../common/errors';
 import { EDIT_ROLES } from '../../common/access';
 import { liveRooms, type LiveService } from './live.service';
 import { fieldErrors } from '../../../shared/errors';
-import { SubmissionInput } from '../../../shared/schemas/live';
+import { SubmissionInput, phoneStateOf } from '../../../shared/schemas/live';
 import {
   LivePayloads,
   type Ack,
@@ -186,7 +186,8 @@ export function registerLiveSocket(socket: LiveSocket, ctx: AppContext, live: Li
 
   on('session:sync', 'screen', async (payload, who) => {
     empty(payload);
-    return live.state(who.sessionId);
+    const state = await live.state(who.sessionId);
+    return who.participantId ? phoneStateOf(state) : state;
   });
   on('session:next', 'runner', async (payload, who) => {
     empty(payload);
