@@ -74,6 +74,23 @@ export function notePartsFor(type: ActivityType, settings: ActivitySettings): re
   }
 }
 
+/** Every part a note can be filed under, by id (the ids are unique across activities). */
+const PART_BY_ID: ReadonlyMap<string, NotePart> = new Map(
+  [...INTERVIEW_PARTS, ...EMPATHY_MAP_PARTS, ...PAINS_AND_GAINS_PARTS, ...FEEDBACK_GRID_PARTS, ...CLOSING_PARTS].map((p) => [p.id, p]),
+);
+
+/**
+ * A part's label in the room's words, for the results, the report and the exports; a part Cairn no longer
+ * knows reads as its id in plain words ("old_part" → "Old part"), never as a raw id.
+ * @example partLabel('says_does') // 'Says & does'
+ */
+export function partLabel(partId: string): string {
+  const known = PART_BY_ID.get(partId)?.label;
+  if (known) return known;
+  const words = partId.replace(/[_-]+/g, ' ').trim();
+  return words.charAt(0).toUpperCase() + words.slice(1);
+}
+
 /** Activities whose pairs rotate by round-robin (interviews and icebreakers use the same pairing). */
 export const PAIRED_TYPES: ReadonlySet<ActivityType> = new Set(['icebreaker', 'interview']);
 /** Activities that run in rounds: rotating pairs, and the test rounds' visits. */

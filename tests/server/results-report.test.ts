@@ -92,6 +92,9 @@ describe('the printed report (PDF)', () => {
     ]) {
       expect(text, expected).toContain(expected);
     }
+    // Parts read in the room's words ("Next step"), never as ids such as "[next_step]".
+    expect(text).toContain('Next step: Prototype the welcome ride card next week');
+    expect(text).not.toMatch(/\[[a-z]+_[a-z_]+\]|next_step/);
   });
 
   it('prints every agenda item with its planned times, and the actual times of those that ran', async () => {

@@ -1,5 +1,6 @@
 import { stringify } from 'csv-stringify/sync';
 import type { ExportFile, NoteResult, WorkshopResults } from '../../../shared/schemas/results';
+import { partLabel } from '../../../shared/schemas/activities';
 
 /** A value of a CSV cell before it is written. */
 type Cell = string | number | boolean | null;
@@ -54,9 +55,28 @@ function iso(ms: number | null): string | null {
   return ms === null ? null : new Date(ms).toISOString();
 }
 
-/** The structured fields of a guided sentence as "name: value" pairs. */
-function details(n: NoteResult): string {
-  return n.fields ? Object.entries(n.fields).map(([k, v]) => `${k}: ${v}`).join('; ') : '';
+/** Names of the people, teams and notes a note's fields point at, so the export never shows an internal id. */
+type Names = { people: Map<string, string>; teams: Map<string, string>; notes: Map<string, NoteResult> };
+
+/**
+ * A note's structured fields in words: the partner and the team tested by name, the round counted from 1,
+ * the sketch a comment is about by its caption and author, a guided sentence's fields as "name: value";
+ * the id of a stored photo says nothing to a reader and is left out.
+ */
+function details(n: NoteResult, names: Names): string {
+  if (!n.fields) return '';
+  const out: string[] = [];
+  for (const [key, value] of Object.entries(n.fields)) {
+    if (key === 'partnerId') out.push(`Partner: ${names.people.get(value) ?? 'someone who has left'}`);
+    else if (key === 'hostTeamId') out.push(`Team tested: ${names.teams.get(value) ?? 'a team no longer listed'}`);
+    else if (key === 'round' && /^\d+$/.test(value)) out.push(`Round: ${Number(value) + 1}`);
+    else if (key === 'sketchId') {
+      const sketch = names.notes.get(value);
+      out.push(sketch ? `About the sketch: ${sketch.text || 'no caption'} (${sketch.author})` : 'About a sketch');
+    } else if (key === 'photoId') continue;
+    else out.push(`${key}: ${value}`);
+  }
+  return out.join('; ');
 }
 
 /** Every note of the workshop (notes, guided sentences, feedback, frames, reflections), in agenda order, oldest first. */
@@ -64,11 +84,16 @@ export function notesTable(r: WorkshopResults): CsvTable {
   const agenda = new Map(r.agenda.map((a) => [a.itemId, a]));
   const order = (n: NoteResult) => agenda.get(n.itemId)?.position ?? Number.MAX_SAFE_INTEGER;
   const notes = [...r.notes].sort((a, b) => order(a) - order(b) || a.createdAt - b.createdAt || a.id.localeCompare(b.id));
+  const names: Names = {
+    people: new Map(r.participants.map((p) => [p.id, p.name])),
+    teams: new Map(r.teams.map((t) => [t.id, t.name])),
+    notes: new Map(r.notes.map((n) => [n.id, n])),
+  };
   return {
     header: ['Session', 'Activity number', 'Activity', 'Activity type', 'Author', 'Team', 'Theme', 'Kind', 'Part', 'Note', 'Details', 'Written at'],
     rows: notes.map((n) => {
       const a = agenda.get(n.itemId);
-      return [n.session, a?.position ?? null, a?.title ?? '', a?.type ?? '', n.author, n.teamName, n.themeName, n.kind, n.part, n.text, details(n), iso(n.createdAt)];
+      return [n.session, a?.position ?? null, a?.title ?? '', a?.type ?? '', n.author, n.teamName, n.themeName, n.kind, n.part === null ? null : partLabel(n.part), n.text, details(n, names), iso(n.createdAt)];
     }),
   };
 }

@@ -12,6 +12,7 @@ import { exportFileName } from './export.service';
 import type { SessionSelector } from '../../../shared/sessions';
 import { ACTIVITY_LIBRARY, PHASE_LABELS } from '../../../shared/activities';
 import { voteScoreLabel } from '../../../shared/schemas/results';
+import { partLabel } from '../../../shared/schemas/activities';
 import type {
   ActivityResult,
   NoteGroup,
@@ -254,7 +255,7 @@ function writeGroups(w: ReportWriter, groups: NoteGroup[]): void {
 
 /** A note's text with its quadrant or part when it has one. */
 function noteText(n: NoteResult): string {
-  return n.part && n.kind !== 'feedback' ? `[${n.part}] ${n.text}` : n.text;
+  return n.part && n.kind !== 'feedback' ? `${partLabel(n.part)}: ${n.text}` : n.text;
 }
 
 /** Writes one section of an activity's results. */
@@ -338,7 +339,8 @@ function writeSection(w: ReportWriter, s: ResultSection): void {
       return;
     }
     case 'reflections':
-      for (const n of s.notes) w.bullet(n.text, n.author);
+      // Reflections and next steps come in one list: the part says which is which, as on the results page.
+      for (const n of s.notes) w.bullet(noteText(n), n.author);
       return;
   }
 }
