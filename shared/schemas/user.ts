@@ -1,9 +1,16 @@
 import { z } from 'zod';
 
-/** Global roles of an account; per-workshop roles live in memberships. */
-export const GlobalRole = z.enum(['admin', 'facilitator']);
+/**
+ * Global roles of an account; per-workshop roles live in memberships. A `member` has only the roles
+ * invitations gave it on single workshops (an account made through an invitation starts so); an
+ * admin may make it a facilitator.
+ */
+export const GlobalRole = z.enum(['admin', 'facilitator', 'member']);
 /** A global role. */
 export type GlobalRole = z.infer<typeof GlobalRole>;
+
+/** The global roles that may create workshops. */
+export const WORKSHOP_CREATOR_ROLES: GlobalRole[] = ['admin', 'facilitator'];
 
 /** Roles a person can hold on one workshop. */
 export const WorkshopRole = z.enum(['owner', 'cofacilitator', 'observer']);

@@ -216,6 +216,67 @@ describe('reset links (probe item 12)', () => {
   });
 });
 
+describe('invitations (probe item 3)', () => {
+  /** Invites an address to the demo workshop as its owner and returns the link's token. */
+  async function invite(email: string, role: 'cofacilitator' | 'observer'): Promise<{ token: string; workshopId: string }> {
+    const owner = await t.tokenFor('facilitator');
+    const { id } = await demoWorkshop(t);
+    const res = await t.agent.post(`/api/workshops/${id}/invitations`).set('Authorization', bearer(owner)).send({ email, role });
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    const link = linkIn(t, email, /\S+\/invitations\/accept\?token=\S+/);
+    return { token: decodeURIComponent(new URL(link).searchParams.get('token')!), workshopId: id };
+  }
+
+  it('refuses another account the invitation, saying whose it is', async () => {
+    const invited = await createStranger(t, 'invited');
+    const { token, workshopId } = await invite(invited.email, 'cofacilitator');
+    // The demo observer has no role that lets it edit; someone else's link must not give it one.
+    const observer = await t.tokenFor('observer');
+    const taken = await t.agent.post('/api/invitations/accept').set('Authorization', bearer(observer)).send({ token });
+    expect(taken.status).toBe(403);
+    expect(taken.body.error.message).toContain(invited.email);
+    expect((await t.agent.get(`/api/workshops/${workshopId}`).set('Authorization', bearer(observer))).body.myRole).toBe('observer');
+    // A stranger with no role gets none either.
+    const stranger = await createStranger(t, 'taker');
+    expect((await t.agent.post('/api/invitations/accept').set('Authorization', bearer(stranger.token)).send({ token })).status).toBe(403);
+    expect((await t.agent.get(`/api/workshops/${workshopId}`).set('Authorization', bearer(stranger.token))).status).toBe(403);
+    // The invited account still can.
+    const own = await t.agent.post('/api/invitations/accept').set('Authorization', bearer(invited.token)).send({ token });
+    expect(own.status).toBe(200);
+    expect((await t.agent.get(`/api/workshops/${workshopId}`).set('Authorization', bearer(invited.token))).body.myRole).toBe('cofacilitator');
+  });
+
+  it("never lowers or raises a member's role through someone else's link", async () => {
+    const member = await createStranger(t, 'member');
+    const { id } = await demoWorkshop(t);
+    const first = await invite(member.email, 'cofacilitator');
+    expect((await t.agent.post('/api/invitations/accept').set('Authorization', bearer(member.token)).send({ token: first.token })).status).toBe(200);
+    const other = `someone-else-${Date.now()}@harbourlane.example`;
+    const { token } = await invite(other, 'observer');
+    expect((await t.agent.post('/api/invitations/accept').set('Authorization', bearer(member.token)).send({ token })).status).toBe(403);
+    expect((await t.agent.get(`/api/workshops/${id}`).set('Authorization', bearer(member.token))).body.myRole).toBe('cofacilitator');
+    // The link still works for the address it was sent to.
+    expect((await t.agent.get(`/api/invitations/${encodeURIComponent(token)}`)).status).toBe(200);
+  });
+
+  it('gives an account made through an invitation no more than the invitation: an invited observer cannot create workshops until an admin allows it', async () => {
+    const email = `new-observer-${Date.now()}@harbourlane.example`;
+    const { token, workshopId } = await invite(email, 'observer');
+    const made = await t.agent.post('/api/invitations/accept-new').send({ token, name: 'Jun Park', password: 'a long enough password' });
+    expect(made.status).toBe(201);
+    expect(made.body.user.role).toBe('member');
+    const jun = bearer(made.body.accessToken);
+    expect((await t.agent.get(`/api/workshops/${workshopId}`).set('Authorization', jun)).body.myRole).toBe('observer');
+    const create = () => t.agent.post('/api/workshops').set('Authorization', jun).send({ title: 'Harbour Lane: mine', objective: 'x', date: '2027-03-14', headcount: 4 });
+    expect((await create()).status).toBe(403);
+    // An admin makes the account a facilitator; then it may.
+    const admin = await t.tokenFor('admin');
+    expect((await t.agent.patch(`/api/users/${made.body.user.id}`).set('Authorization', bearer(admin)).send({ role: 'facilitator' })).status).toBe(200);
+    const again = await t.signIn(email, 'a long enough password');
+    expect((await t.agent.post('/api/workshops').set('Authorization', bearer(again)).send({ title: 'Harbour Lane: mine', objective: 'x', date: '2027-03-14', headcount: 4 })).status).toBe(201);
+  });
+});
+
 describe('workshop dates (probe item 19)', () => {
   it('refuses days that do not exist, and takes 29 February only in a leap year', async () => {
     // Gregorian leap years (ISO 8601 uses the Gregorian calendar): every 4th year, not centuries, but every 400th.

@@ -105,7 +105,8 @@ export function membersRoutes(routes: ApiRoutes, app: AppContext, members: Membe
     status: 201,
     handler: async ({ body, req, res }) => {
       const email = await members.emailOf(body.token);
-      const user = await auth.createUser({ email, name: body.name, password: body.password, role: 'facilitator' });
+      // The account has the invitation's role on its workshop and nothing more: an admin may make it a facilitator.
+      const user = await auth.createUser({ email, name: body.name, password: body.password, role: 'member' });
       const workshopId = await members.accept(body.token, user);
       return { ...setSession(req, res, auth, user), workshopId };
     },

@@ -4,6 +4,7 @@ import type { Database } from '../../db';
 import type { InvitationRow, UserRow } from '../../db/models';
 import { AppError, errors } from '../../common/errors';
 import { hashToken, newToken } from '../auth/auth.service';
+import { normaliseEmail } from '../../../shared/schemas/user';
 import type { Mailer } from '../mail/mail.service';
 import type { Invitation, InvitationInfo, InviteBody, Member, People } from '../../../shared/schemas/member';
 
@@ -117,9 +118,16 @@ export class MembersService {
     };
   }
 
-  /** Accepts an invitation for an account: the per-workshop role is created. */
+  /**
+   * Accepts an invitation for the account it was sent to: the per-workshop role is created. Another
+   * account is told whose invitation it is and refused, so no one takes a role (or changes their
+   * own) through someone else's link.
+   */
   async accept(token: string, user: UserRow): Promise<string> {
     const inv = await this.open(token);
+    if (normaliseEmail(user.email) !== normaliseEmail(inv.email)) {
+      throw errors.forbidden(`This invitation is for ${inv.email}; sign in as ${inv.email} to accept it`);
+    }
     const w = await this.db.models.Workshop.findByPk(inv.workshopId);
     if (!w) throw errors.notFound('That workshop');
     if (w.ownerId === user.id) throw errors.conflict('You already lead this workshop');

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { WORKSHOP_CREATOR_ROLES } from '../../../shared/schemas/user';
 import type { ApiRoutes } from '../../common/route';
 import { access, EDIT_ROLES, OWNER_ROLES, READ_ROLES } from '../../common/access';
 import { errors } from '../../common/errors';
@@ -48,7 +49,7 @@ export function workshopsRoutes(routes: ApiRoutes, workshops: WorkshopsService):
     path: '/workshops',
     summary: 'Create a workshop, blank or from a template',
     tag,
-    access: access.global('facilitator', 'admin'),
+    access: access.global(...WORKSHOP_CREATOR_ROLES),
     body: CreateWorkshopBody,
     response: Workshop,
     status: 201,
