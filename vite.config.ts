@@ -2,6 +2,7 @@ import { defineConfig } from 'vitest/config';
 import vue from '@vitejs/plugin-vue';
 import { quasar, transformAssetUrls } from '@quasar/vite-plugin';
 import { compression } from 'vite-plugin-compression2';
+import { VitePWA } from 'vite-plugin-pwa';
 
 const serverPort = Number(process.env.PORT ?? 3000);
 
@@ -11,6 +12,47 @@ export default defineConfig({
   plugins: [
     vue({ template: { transformAssetUrls } }),
     quasar(),
+    // The phone's shell survives a bad connection: the HTML precached, the hashed files it used kept as it
+    // used them. Registered from the phone layout only (src/layouts/PhoneLayout.vue); a new build's service
+    // worker takes over at once and reloads the page (autoUpdate), so nobody is left on an old shell.
+    VitePWA({
+      registerType: 'autoUpdate',
+      injectRegister: false,
+      includeManifestIcons: false,
+      manifest: {
+        name: 'Cairn',
+        short_name: 'Cairn',
+        description: 'Take part in a workshop from your phone.',
+        start_url: '/join',
+        scope: '/',
+        display: 'standalone',
+        background_color: '#f7f4ee',
+        theme_color: '#0b5d5b',
+        icons: [
+          { src: '/icon-192.png', sizes: '192x192', type: 'image/png' },
+          { src: '/icon-512.png', sizes: '512x512', type: 'image/png' },
+          { src: '/icon-512.png', sizes: '512x512', type: 'image/png', purpose: 'maskable' },
+        ],
+      },
+      workbox: {
+        // Only the shell is fetched ahead: a phone on a crowded Wi-Fi never downloads the console's code.
+        globPatterns: ['index.html'],
+        navigateFallback: 'index.html',
+        // The API, the socket and downloads go to the network, never to a cached page.
+        navigateFallbackDenylist: [/^\/api\//, /^\/socket\.io\//, /^\/assets\//],
+        runtimeCaching: [
+          {
+            // Hashed files never change: once fetched, the copy is the file.
+            urlPattern: ({ url, sameOrigin }) => sameOrigin && url.pathname.startsWith('/assets/'),
+            handler: 'CacheFirst',
+            options: { cacheName: 'cairn-assets', expiration: { maxEntries: 150 } },
+          },
+        ],
+        cleanupOutdatedCaches: true,
+        clientsClaim: true,
+        skipWaiting: true,
+      },
+    }),
     // Brotli and gzip copies beside each text asset, served as they are by express-static-gzip (server/app.ts).
     compression({ algorithms: ['brotliCompress', 'gzip'], include: /\.(js|mjs|css|html|svg|json|webmanifest|txt)$/, threshold: 512 }),
   ],

@@ -56,6 +56,32 @@ export const useLiveStore = defineStore('live', () => {
     state.value = next;
     if (next.message) lastMessage.value = next.message;
     if (next.status === 'ended') ended.value = true;
+    keepLastSeen();
+  }
+
+  // A phone keeps the last screen it showed, so a reload on a bad connection shows it at once (from the
+  // service worker's cached shell) and the socket's resync brings it up to date. A phone's state stays small.
+  let lastSeenKey = '';
+  function keepLastSeen(): void {
+    if (!lastSeenKey) return;
+    try {
+      localStorage.setItem(lastSeenKey, JSON.stringify({ state: state.value, me: me.value }));
+    } catch {
+      // A full or blocked storage only costs the instant screen after a reload.
+    }
+  }
+  function showLastSeen(sessionId: string): void {
+    lastSeenKey = `cairn.last.${sessionId}`;
+    try {
+      const seen = JSON.parse(localStorage.getItem(lastSeenKey) ?? 'null') as { state: ScreenState | null; me: Me | null } | null;
+      if (seen?.state?.sessionId === sessionId) {
+        state.value = seen.state;
+        me.value = seen.me;
+        if (seen.state.status === 'ended') ended.value = true;
+      }
+    } catch {
+      // Nothing usable kept: the socket's sync fills the screen.
+    }
   }
 
   async function ask<T>(event: keyof ClientToServerEvents, payload: unknown): Promise<T> {
@@ -146,7 +172,10 @@ export const useLiveStore = defineStore('live', () => {
   function connect(opts: { token: () => string | null; watch?: string; participantSessionId?: string; display?: boolean }): void {
     disconnect();
     forget();
-    if (opts.participantSessionId) loadOutbox(opts.participantSessionId);
+    if (opts.participantSessionId) {
+      loadOutbox(opts.participantSessionId);
+      showLastSeen(opts.participantSessionId);
+    }
     const s = connectSocket(opts.token);
     socket.value = s;
     s.on('connect', async () => {
@@ -157,7 +186,10 @@ export const useLiveStore = defineStore('live', () => {
           accept(await ask<LiveState>('session:watch', { sessionId: opts.watch }));
         } else {
           accept(await ask<ScreenState>('session:sync', {}));
-          if (!opts.display) me.value = await ask<Me>('participant:me', {});
+          if (!opts.display) {
+            me.value = await ask<Me>('participant:me', {});
+            keepLastSeen();
+          }
           await flush();
         }
         attached.value += 1;
@@ -197,6 +229,7 @@ export const useLiveStore = defineStore('live', () => {
     outboxKey = '';
     rejected.value = null;
     connectError.value = null;
+    lastSeenKey = '';
   }
 
   /** Closes the socket. */
@@ -228,6 +261,7 @@ export const useLiveStore = defineStore('live', () => {
   /** The participant changes their photo consent. */
   async function setConsent(photoConsent: boolean): Promise<void> {
     me.value = await ask<Me>('participant:consent', { photoConsent });
+    keepLastSeen();
   }
 
   return {

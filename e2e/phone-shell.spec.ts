@@ -1,0 +1,70 @@
+import { test, expect } from '@playwright/test';
+import { io as ioClient } from 'socket.io-client';
+import { DEMO } from './fixtures';
+
+test('a phone never asks for the sign-in cookie, keeps its shell, shows its screen offline after a reload, and catches up when back', async ({
+  browser,
+  request,
+  baseURL,
+}) => {
+  test.setTimeout(120_000);
+  // The facilitator's side through the API and a socket: a workshop of its own, from a template, live.
+  const { accessToken } = (await (await request.post('/api/auth/sign-in', { data: DEMO.facilitator })).json()) as { accessToken: string };
+  const auth = { Authorization: `Bearer ${accessToken}` };
+  const created = await request.post('/api/workshops', {
+    headers: auth,
+    data: { title: 'Shell check for a first ride', objective: 'Check the phone keeps its shell', date: '2026-12-03', headcount: 12, templateId: 'half-day' },
+  });
+  expect(created.status()).toBe(201);
+  const { id: workshopId } = (await created.json()) as { id: string };
+  const live = (await (await request.post(`/api/workshops/${workshopId}/live`, { headers: auth, data: { kind: 'rehearsal' } })).json()) as {
+    sessionId: string;
+    joinCode: string;
+  };
+  const facilitator = ioClient(baseURL!, { auth: { token: accessToken }, transports: ['websocket'] });
+  await facilitator.timeout(10_000).emitWithAck('session:watch', { sessionId: live.sessionId });
+  const goto = async (index: number) => {
+    const answer = (await facilitator.timeout(10_000).emitWithAck('session:goto', { index })) as { data: { item: { title: string } } };
+    return answer.data.item.title;
+  };
+
+  const context = await browser.newContext({ viewport: { width: 390, height: 844 }, isMobile: true, hasTouch: true });
+  const page = await context.newPage();
+  const asked: string[] = [];
+  page.on('request', (r) => asked.push(new URL(r.url()).pathname));
+  await page.goto(`/join/${live.joinCode}`);
+  await page.getByLabel('Your name for today').fill('Ines');
+  await page.getByTestId('consent-yes').click();
+  await page.getByTestId('join').click();
+  await expect(page.getByTestId('connection')).toHaveText('Connected');
+  const second = await goto(1);
+  await expect(page.getByTestId('phone-activity')).toHaveText(second);
+
+  // The service worker took the shell; the installable manifest is linked.
+  await page.evaluate(async () => navigator.serviceWorker.ready);
+  await expect.poll(() => page.evaluate(() => navigator.serviceWorker.controller !== null)).toBe(true);
+  const manifest = (await (await request.get('/manifest.webmanifest')).json()) as { start_url: string; display: string; icons: { sizes: string }[] };
+  expect(manifest).toMatchObject({ start_url: '/join', display: 'standalone' });
+  expect(manifest.icons.map((i) => i.sizes)).toEqual(expect.arrayContaining(['192x192', '512x512']));
+
+  // Offline: a reload shows the last screen at once, from the cache, and says it is reconnecting.
+  await context.setOffline(true);
+  await page.reload();
+  await expect(page.getByTestId('phone-activity')).toHaveText(second);
+  await expect(page.getByTestId('connection')).toHaveText('Reconnecting…');
+  const third = await goto(2);
+
+  // Back online: the socket connects and the phone catches up with what it missed.
+  await context.setOffline(false);
+  await expect(page.getByTestId('connection')).toHaveText('Connected', { timeout: 20_000 });
+  await expect(page.getByTestId('phone-activity')).toHaveText(third);
+
+  // A phone has no account: it never asked for the sign-in cookie's refresh.
+  expect(asked.filter((p) => p.startsWith('/api/auth/'))).toEqual([]);
+  // Neither the API nor the socket was answered from the cache: both went to the server.
+  expect(asked.some((p) => p.startsWith('/api/join/'))).toBe(true);
+
+  facilitator.disconnect();
+  await context.close();
+  await request.post(`/api/workshops/${workshopId}/live/stop`, { headers: auth });
+});
