@@ -467,3 +467,40 @@ export function newAgendaItem(type: ActivityType, id: string): AgendaItem {
     settings: structuredClone(def.defaultSettings),
   };
 }
+
+// Phases in the order a day runs them; breaks sit outside the order.
+const DAY_ORDER: readonly Phase[] = ['opening', 'empathize', 'define', 'ideate', 'prototype', 'test', 'closing'];
+
+/**
+ * Where a new item of a phase belongs in an agenda: right after the last activity of the same or an
+ * earlier phase (so a new ideate item never lands after Closing); a break or lunch goes before the
+ * closing items. Keeps the phase-order rule (computeSchedule) true for an agenda that already keeps it.
+ * @example insertionIndex([{ type: 'welcome', phase: 'opening' }, { type: 'closing', phase: 'closing' }], 'ideate') // 1
+ */
+export function insertionIndex(agenda: Pick<AgendaItem, 'type' | 'phase'>[], phase: Phase): number {
+  if (phase === 'break') {
+    const closing = agenda.findIndex((i) => !isBreakItem(i) && i.phase === 'closing');
+    return closing < 0 ? agenda.length : closing;
+  }
+  const rank = DAY_ORDER.indexOf(phase);
+  let at = 0;
+  agenda.forEach((item, i) => {
+    if (!isBreakItem(item) && DAY_ORDER.indexOf(item.phase) <= rank) at = i + 1;
+  });
+  return at;
+}
+
+/**
+ * The title of a copy, told apart from the original and from earlier copies: "Title (copy)", then
+ * "Title (copy 2)", …, shortened to fit the 120-character limit of a title.
+ * @example copyTitle('Sketch', ['Sketch', 'Sketch (copy)']) // 'Sketch (copy 2)'
+ */
+export function copyTitle(title: string, taken: readonly string[]): string {
+  const base = title.replace(/ \(copy(?: \d+)?\)$/, '');
+  const used = new Set(taken);
+  for (let n = 1; ; n++) {
+    const suffix = n === 1 ? ' (copy)' : ` (copy ${n})`;
+    const candidate = base.slice(0, 120 - suffix.length).trimEnd() + suffix;
+    if (!used.has(candidate)) return candidate;
+  }
+}

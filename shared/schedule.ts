@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { ACTIVITY_LIBRARY, PHASE_LABELS, isBreakItem } from './activities';
 import { Phase, type AgendaItem } from './schemas/agenda-item';
 import type { DayWindow, RuleSettings } from './schemas/day-window';
+import { percentText } from './words';
 
 /** The rules of the trade a plan can break. */
 export const ScheduleWarningCode = z.enum([
@@ -118,7 +119,7 @@ export function computeSchedule(items: AgendaItem[], window: DayWindow, rules: R
     warn(
       'load_above_ceiling',
       [],
-      `The plan fills ${Math.round(loadPct * 10) / 10} % of the day, above the ${rules.loadCeilingPct} % ceiling. ` +
+      `The plan fills ${percentText(loadPct, 1)} of the day, above the ${percentText(rules.loadCeilingPct)} ceiling. ` +
         'Leave some slack: agendas always run over.',
     );
   }

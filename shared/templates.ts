@@ -1,4 +1,5 @@
 import { ACTIVITY_LIBRARY, defaultMinTimebox } from './activities';
+import { fillDots } from './words';
 import type { ActivitySettings, ActivityType, AgendaItem } from './schemas/agenda-item';
 import type { DayWindow } from './schemas/day-window';
 
@@ -86,7 +87,7 @@ const FULL_DAY: AgendaTemplate = {
     step('lunch'),
     step('dot_vote', {
       title: 'Pick the challenges',
-      prompt: 'Spend your {dots} dots on the questions you most want to work on.',
+      prompt: 'Spend your {dots} on the questions you most want to work on.',
     }),
     step('team_sort', {
       title: 'Form the teams',
@@ -157,7 +158,7 @@ const HALF_DAY: AgendaTemplate = {
     }),
     step('dot_vote', {
       title: 'Pick the challenges',
-      prompt: 'Spend your {dots} dots on the questions you most want to work on.',
+      prompt: 'Spend your {dots} on the questions you most want to work on.',
     }),
     step('team_sort', {
       title: 'Form the teams',
@@ -227,14 +228,13 @@ export function fillTemplateText(text: string, fill: TemplateFill): string {
 }
 
 /**
- * The prompt as phones, the projector, the results and the report show it: "{dots}" becomes the
- * vote's current dots per voter, so the words follow the budget.
- * @example showPrompt({ type: 'dot_vote', prompt: 'Spend your {dots} dots', settings: { dotsPerVoter: 5 } }) // 'Spend your 5 dots'
+ * The prompt as the results and the report show it: a dot vote's count of dots ("{dots}", "three
+ * dots") follows the item's budget, as the live screens do (fillDots).
+ * @example showPrompt({ type: 'dot_vote', prompt: 'Spend your {dots}', settings: { dotsPerVoter: 5 } }) // 'Spend your 5 dots'
  */
 export function showPrompt(item: Pick<AgendaItem, 'type' | 'prompt' | 'settings'>): string {
-  if (!item.prompt.includes('{dots}')) return item.prompt;
-  const dots = item.settings.dotsPerVoter ?? ACTIVITY_LIBRARY[item.type].defaultSettings.dotsPerVoter ?? 3;
-  return item.prompt.replaceAll('{dots}', String(dots));
+  if (item.type !== 'dot_vote') return item.prompt;
+  return fillDots(item.prompt, item.settings.dotsPerVoter ?? ACTIVITY_LIBRARY.dot_vote.defaultSettings.dotsPerVoter);
 }
 
 /**

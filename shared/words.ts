@@ -23,3 +23,12 @@ export function fillDots(prompt: string, dots: number | null | undefined): strin
   if (dots === null || dots === undefined || !Number.isInteger(dots) || dots < 1) return prompt;
   return prompt.replace(DOT_COUNT, () => countOf(dots, 'dot')).replace(/\{dots\}/gi, String(dots));
 }
+
+/**
+ * A percentage with a no-break space before the sign, so "85 %" never breaks across two lines.
+ * @example percentText(85.04, 1) // '85\u00a0%'
+ */
+export function percentText(value: number, digits = 0): string {
+  const f = 10 ** digits;
+  return `${Math.round(value * f) / f}\u00a0%`;
+}

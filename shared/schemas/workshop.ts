@@ -39,7 +39,11 @@ export const WorkshopBrief = z.object({
   date: IsoDate,
   window: DayWindow,
   venueNotes: z.string().max(2000, 'Keep venue notes under 2000 characters'),
-  headcount: z.number({ error: 'Enter the expected headcount' }).int().min(2, 'A workshop needs at least 2 participants').max(500, 'Cairn plans for at most 500 participants'),
+  headcount: z
+    .number({ error: (issue) => (issue.input === undefined || issue.input === null || issue.input === '' ? 'The headcount is required' : 'Enter a whole number') })
+    .int('Enter a whole number')
+    .min(2, 'A workshop needs at least 2 participants')
+    .max(500, 'Cairn plans for at most 500 participants'),
   teamCount: z.number().int().min(1).max(12),
   roomCapacity: z.number().int().min(0).max(2000).nullable(),
   consentText: z.string().trim().min(1, 'The data-policy text cannot be empty').max(4000),

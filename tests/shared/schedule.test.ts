@@ -85,7 +85,7 @@ describe('computeSchedule', () => {
     const s = computeSchedule(items, FULL_DAY, rules);
     expect(s.loadPct).toBeCloseTo(86.11, 2);
     const w = s.warnings.find((x) => x.code === 'load_above_ceiling');
-    expect(w?.message).toMatch(/86\.1 %/);
+    expect(w?.message).toMatch(/86\.1\u00a0%/);
     expect(w?.origin).toMatch(/slack/);
     // Exactly at the ceiling is allowed: 306 / 360 = 85 %.
     const at = [item('interview', 81), item('break', 15), item('sketch', 85), item('lunch', 45), item('storyboard', 80)];

@@ -193,8 +193,11 @@ describe('templates', () => {
     expect(showPrompt(vote)).toMatch(/^Spend your 3 dots /);
     vote.settings.dotsPerVoter = 5;
     expect(showPrompt(vote)).toMatch(/^Spend your 5 dots /);
-    // A prompt without the placeholder is shown as written.
+    vote.settings.dotsPerVoter = 1;
+    expect(showPrompt(vote)).toMatch(/^Spend your 1 dot on /);
+    // A prompt without a count of dots is shown as written, and other types are never touched.
     expect(showPrompt({ ...vote, prompt: 'Vote now' })).toBe('Vote now');
+    expect(showPrompt({ ...vote, type: 'insights', prompt: 'Say {dots}' })).toBe('Say {dots}');
   });
 
   it('keeps the demo workshop in its own words, on the full day’s timing', () => {

@@ -29,7 +29,6 @@ import {
 } from '../../../shared/schemas/live';
 import type { AgendaItem } from '../../../shared/schemas/agenda-item';
 import type { ClientToServerEvents, ServerToClientEvents, SocketData } from '../../../shared/events';
-import { showPrompt } from '../../../shared/templates';
 
 /** The socket.io server the live service broadcasts through. */
 export type LiveIo = Server<ClientToServerEvents, ServerToClientEvents, Record<string, never>, SocketData>;
@@ -111,7 +110,7 @@ function toLiveItem(item: AgendaItem, index: number): LiveItem {
     type: item.type,
     phase: item.phase,
     title: item.title,
-    prompt: showPrompt(item),
+    prompt: item.prompt,
     timeboxMin: item.timeboxMin,
     settings: item.settings,
   };

@@ -1,3 +1,4 @@
+import { percentText } from '../../../shared/words';
 import fs from 'node:fs';
 import fsp from 'node:fs/promises';
 import path from 'node:path';
@@ -445,7 +446,7 @@ export function renderReportPdf(r: WorkshopResults, photos: Map<string, Buffer> 
         { label: 'Took part', width: 60 },
         { label: 'Share', width: 60 },
       ],
-      p.perActivity.map((a) => [a.title, String(a.notes), String(a.contributors), `${Math.round(a.rate * 100)} %`]),
+      p.perActivity.map((a) => [a.title, String(a.notes), String(a.contributors), percentText(a.rate * 100)]),
     );
   }
 

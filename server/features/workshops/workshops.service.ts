@@ -6,7 +6,7 @@ import type { AgendaItemRow, UserRow, WorkshopRow } from '../../db/models';
 import { errors } from '../../common/errors';
 import type { WorkshopAccessRole } from '../../common/access';
 import { instantiateTemplate, templateFill } from '../../../shared/templates';
-import { newAgendaItem } from '../../../shared/activities';
+import { newAgendaItem, copyTitle } from '../../../shared/activities';
 import { RuleSettings } from '../../../shared/schemas/day-window';
 import {
   DEFAULT_CONSENT_TEXT,
@@ -199,7 +199,8 @@ export class WorkshopsService {
   async duplicateItem(workshopId: string, itemId: string): Promise<AgendaItem> {
     const row = await this.itemRow(workshopId, itemId);
     const { id: _id, ...copy } = toAgendaItem(row);
-    return this.addItem(workshopId, { type: copy.type, position: row.position + 1, item: { ...copy, title: copy.title } });
+    const titles = (await this.agenda(workshopId)).map((i) => i.title);
+    return this.addItem(workshopId, { type: copy.type, position: row.position + 1, item: { ...copy, title: copyTitle(copy.title, titles) } });
   }
 
   /** Removes an item and closes the gap. */
