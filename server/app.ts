@@ -28,13 +28,13 @@ import { systemRoutes } from './features/system/system.router';
 import { MembersService } from './features/members/members.service';
 import { membersRoutes } from './features/members/members.router';
 import { registerClockSocket } from './features/clock/clock.socket';
-import { limitSocketEvents } from './common/socket-rate-limit';
+import { ParticipantSockets, limitSocketEvents } from './common/socket-rate-limit';
 import { shareBroadcasts } from './common/scale-out';
 import { LiveService } from './features/live/live.service';
 import { liveRoutes } from './features/live/live.router';
 import { sessionsRoutes } from './features/live/sessions.router';
 import { SessionsService } from './features/live/sessions.service';
-import { registerLiveSocket } from './features/live/live.socket';
+import { registerLiveSocket, watchAccountChanges } from './features/live/live.socket';
 import { TeamsService } from './features/teams/teams.service';
 import { registerTeamsSocket } from './features/teams/teams.socket';
 import { ActivitiesService } from './features/activities/activities.service';
@@ -109,7 +109,7 @@ export async function createApp(config: Config): Promise<CairnApp> {
     logger,
     auth,
     workshopRoleOf: (user, workshopId) => workshops.roleOf(user, workshopId),
-    accountRoleOf: (userId, workshopId) => workshops.roleOfAccount(userId, workshopId),
+    accountRoleOf: (userId, workshopId, tokenVersion) => workshops.roleOfAccount(userId, workshopId, tokenVersion),
   };
 
   const app = express();
@@ -188,7 +188,7 @@ export async function createApp(config: Config): Promise<CairnApp> {
   io.use(async (socket, next) => {
     const token = (socket.handshake.auth as { token?: unknown })?.token;
     const caller = await auth.callerOfToken(typeof token === 'string' ? token : undefined);
-    if (caller.kind === 'user') socket.data = { kind: 'user', userId: caller.user.id };
+    if (caller.kind === 'user') socket.data = { kind: 'user', userId: caller.user.id, tokenVersion: caller.user.tokenVersion };
     else if (caller.kind === 'participant') {
       socket.data = { kind: 'participant', participantId: caller.participantId, sessionId: caller.sessionId };
     } else if (caller.kind === 'display') socket.data = { kind: 'display', sessionId: caller.sessionId };
@@ -198,13 +198,17 @@ export async function createApp(config: Config): Promise<CairnApp> {
   // Several processes behind sticky sessions share broadcasts through Redis (docs/scaling.md).
   const stopSharing = config.redisUrl ? await shareBroadcasts(io, config.redisUrl) : null;
   live.attach(io);
+  watchAccountChanges(io, ctx);
   const teams = new TeamsService(ctx);
   teams.attach(io);
   activities.attach(io);
   voting.attach(io);
+  const participantSockets = new ParticipantSockets();
   io.on('connection', (socket) => {
-    // Facilitators' screens are trusted more than a room of phones, but every socket is throttled.
-    limitSocketEvents(socket, socket.data.kind === 'participant' ? undefined : { burst: 200, perSecond: 100 });
+    // Facilitators' screens are trusted more than a room of phones, but every socket is throttled; a
+    // participant's sockets are bounded in number and share one budget.
+    if (socket.data.kind === 'participant' && socket.data.participantId) participantSockets.add(socket.data.participantId, socket);
+    else limitSocketEvents(socket, { burst: 200, perSecond: 100 });
     registerClockSocket(socket);
     const commands = registerLiveSocket(socket, ctx, live);
     registerTeamsSocket(commands, teams);

@@ -25,6 +25,9 @@ export interface AppContext {
   auth: { callerOf(req: Request): Promise<Caller>; callerOfToken(token: string | undefined): Promise<Caller> };
   /** The account's role on a workshop, `null` for none, `'missing'` when there is no such workshop. */
   workshopRoleOf(user: UserRow, workshopId: string): Promise<WorkshopAccessRole | null | 'missing'>;
-  /** An enabled account's role on a workshop by the account's id, in one query; `null` for none, a disabled account or no workshop. */
-  accountRoleOf(userId: string, workshopId: string): Promise<WorkshopAccessRole | null>;
+  /**
+   * An enabled account's role on a workshop by the account's id, in one query; `null` for none, a
+   * disabled account, no workshop, or (when given) a token version that is no longer the account's.
+   */
+  accountRoleOf(userId: string, workshopId: string, tokenVersion?: number): Promise<WorkshopAccessRole | null>;
 }

@@ -146,8 +146,85 @@ export interface ClientToServerEvents {
   'storyboard:arrange': (payload: z.input<typeof ActivityPayloads.arrange>, ack: AckFn<string[]>) => void;
 }
 
+/** A live-session command: every client-to-server event but the clock's ping, which any socket may send. */
+export type Command = Exclude<keyof ClientToServerEvents, 'clock:ping'>;
+
+/**
+ * Who may send a command: `account` (a signed-in facilitator or observer, before watching),
+ * `screen` (any screen attached to a session: a phone, a projector, or an account watching it),
+ * `participant` (a phone that joined), `runner` (an owner or co-facilitator watching the session,
+ * checked afresh on every command).
+ */
+export type CommandAccess = 'account' | 'screen' | 'participant' | 'runner';
+
+/**
+ * Who may send each live command: the one declaration the server's socket registry authorises by
+ * and the socket matrix test walks. Listing every command is checked by the compiler.
+ */
+export const COMMAND_ACCESS = {
+  'session:watch': 'account',
+  'session:sync': 'screen',
+  'session:next': 'runner',
+  'session:back': 'runner',
+  'session:goto': 'runner',
+  'timer:start': 'runner',
+  'timer:pause': 'runner',
+  'timer:resume': 'runner',
+  'timer:adjust': 'runner',
+  'session:lock': 'runner',
+  'session:reveal': 'runner',
+  'session:message': 'runner',
+  'agenda:shorten': 'runner',
+  'agenda:undo-cuts': 'runner',
+  'agenda:keep-cuts': 'runner',
+  'participants:list': 'runner',
+  'participant:me': 'participant',
+  'participant:consent': 'participant',
+  'submission:create': 'participant',
+  'submission:list': 'runner',
+  'teams:list': 'screen',
+  'teams:form': 'runner',
+  'teams:set': 'runner',
+  'vote:state': 'screen',
+  'vote:setup': 'runner',
+  'vote:open': 'runner',
+  'vote:close': 'runner',
+  'vote:dot': 'participant',
+  'vote:rank': 'participant',
+  'vote:results': 'screen',
+  'vote:choose': 'runner',
+  'vote:sources': 'runner',
+  'teams:propose': 'runner',
+  'activity:board': 'screen',
+  'notes:list': 'runner',
+  'notes:hide': 'runner',
+  'notes:merge': 'runner',
+  'notes:unmerge': 'runner',
+  'notes:promote': 'runner',
+  'notes:unpromote': 'runner',
+  'notes:promoted': 'screen',
+  'themes:create': 'runner',
+  'themes:apply': 'runner',
+  'themes:rename': 'runner',
+  'themes:delete': 'runner',
+  'themes:assign': 'runner',
+  'rounds:get': 'screen',
+  'rounds:set': 'runner',
+  'storyboard:reorder': 'participant',
+  'storyboard:arrange': 'runner',
+} as const satisfies Record<Command, CommandAccess>;
+
+/** Why an open console lost its rights: its account was signed out everywhere or disabled, or its role taken away. */
+export type AccessRevokedReason = 'signed_out' | 'disabled' | 'removed' | 'demoted';
+
 /** Events the server pushes to clients (`entity:verbed`). */
 export interface ServerToClientEvents {
+  /**
+   * This account's rights changed while its screen was open: signed out or disabled (the socket is
+   * then closed), removed from the workshop (it leaves the session's rooms) or no longer allowed to
+   * run it (it leaves the facilitators' room).
+   */
+  'access:revoked': (payload: { reason: AccessRevokedReason; message: string }) => void;
   /** The session's state changed: the whole state to the console and projectors, a phone's state to the phones. */
   'session:updated': (state: ScreenState) => void;
   /** The facilitator sent a short message (to everyone in the session). */
@@ -180,6 +257,8 @@ export interface ServerToClientEvents {
 export interface SocketData {
   kind: 'user' | 'participant' | 'display';
   userId?: string;
+  /** For users: the token version the socket signed in with; a change (password, sign out everywhere) ends it. */
+  tokenVersion?: number;
   participantId?: string;
   sessionId?: string;
   /** For users: the session they watch and their role on its workshop. */

@@ -207,6 +207,8 @@ export const useLiveStore = defineStore('live', () => {
     s.on('session:updated', accept);
     s.on('session:messaged', (m) => (lastMessage.value = m));
     s.on('session:ended', () => (ended.value = true));
+    // The account lost its rights while this screen was open (signed out, disabled, removed): say why.
+    s.on('access:revoked', (p) => (connectError.value = p.message));
     s.on('participants:updated', (p) => (participants.value = p));
     s.on('submission:created', (sub) => {
       if (!submissions.value.some((x) => x.id === sub.id)) submissions.value = [...submissions.value, sub];

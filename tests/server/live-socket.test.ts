@@ -187,13 +187,17 @@ describe('who may run the session', () => {
       sockets.push(socket);
     }
     const { Membership, User } = t.cairn.ctx.db.models;
+    const told = sockets.map((socket) => nextEvent(socket, 'access:revoked'));
+    const closed = new Promise((resolve) => sockets[1]!.once('disconnect', resolve));
     await Membership.destroy({ where: { workshopId: demo.id, userId: removed.id } });
     await User.update({ disabled: true }, { where: { id: disabled.id } });
-    for (const socket of sockets) {
-      const answer = await command(socket, 'session:goto', { index: 3 });
-      expect('error' in answer && answer.error.code).toBe('forbidden');
-      socket.disconnect();
-    }
+    // Both are told at once; the removed co-facilitator's next command is refused, the disabled account's socket is closed.
+    expect(await told[0]).toMatchObject({ reason: 'removed' });
+    expect(await told[1]).toMatchObject({ reason: 'disabled' });
+    await closed;
+    const answer = await command(sockets[0]!, 'session:goto', { index: 3 });
+    expect('error' in answer && answer.error.code).toBe('forbidden');
+    sockets[0]!.disconnect();
   });
 
   it('lets the projector follow with its display token, read-only', async () => {

@@ -117,7 +117,9 @@ export class AuthService {
 
   /** Ends every session of the account (all its tokens stop working). */
   async signOutEverywhere(user: UserRow): Promise<void> {
-    await user.increment('tokenVersion');
+    // Saved through the instance (not `increment`), so the model's update hooks tell open screens at once.
+    user.tokenVersion += 1;
+    await user.save();
   }
 
   /** Changes a password after checking the current one; other sessions are signed out. */

@@ -45,6 +45,8 @@ export const liveRooms = {
   team: (teamId: string) => `team:${teamId}`,
   /** Every socket of one participant (a phone may have several tabs), so they can be moved between team rooms. */
   participant: (participantId: string) => `participant:${participantId}`,
+  /** Every socket of one signed-in account, so a change to its rights reaches its open screens at once. */
+  account: (userId: string) => `account:${userId}`,
 };
 
 /** How long a pushed state may be served again to a phone that asks for it, before it is read afresh. */

@@ -3,11 +3,17 @@ import type { z } from 'zod';
 import type { AppContext } from '../../context';
 import { AppError, errors } from '../../common/errors';
 import { EDIT_ROLES } from '../../common/access';
-import { liveRooms, type LiveService } from './live.service';
+import { liveRooms, type LiveIo, type LiveService } from './live.service';
+import type { Transaction } from 'sequelize';
+import type { MembershipRow, UserRow } from '../../db/models';
 import { fieldErrors } from '../../../shared/errors';
 import { SubmissionInput, phoneStateOf } from '../../../shared/schemas/live';
 import {
+  COMMAND_ACCESS,
   LivePayloads,
+  type AccessRevokedReason,
+  type Command,
+  type CommandAccess,
   type Ack,
   type AckFn,
   type ClientToServerEvents,
@@ -18,12 +24,8 @@ import {
 /** A socket of the live session as the server sees it. */
 export type LiveSocket = Socket<ClientToServerEvents, ServerToClientEvents, Record<string, never>, SocketData>;
 
-/**
- * Who may send a command: `participant` (a phone that joined), `screen` (any screen attached to a
- * session: a phone, a projector, or an account watching it), `runner` (an owner or co-facilitator
- * watching the session).
- */
-export type Need = 'participant' | 'screen' | 'runner';
+/** Who may send a command (see COMMAND_ACCESS in shared/events.ts). */
+export type Need = CommandAccess;
 
 /** The caller of a command, once allowed. */
 export interface Allowed {
@@ -31,7 +33,6 @@ export interface Allowed {
   participantId: string | null;
 }
 
-export type Command = Exclude<keyof ClientToServerEvents, 'clock:ping'>;
 /** What a command's acknowledgement carries on success. */
 export type AckData<E extends Command> = Parameters<ClientToServerEvents[E]>[1] extends AckFn<infer T> ? T : never;
 
@@ -48,12 +49,8 @@ function parse<S extends z.ZodType>(schema: S, value: unknown): z.infer<S> {
 /** The commands each kind of socket may never run (filled as the first socket of the kind registers them). */
 const REFUSED: Partial<Record<SocketData['kind'], Set<string>>> = {};
 
-/** Registers a live command on one socket: authorise by need, run (which parses), answer through the ack. */
-export type LiveOn = <E extends Command>(
-  event: E,
-  need: Need | null,
-  run: (payload: unknown, who: Allowed) => Promise<AckData<E>>,
-) => void;
+/** Registers a live command on one socket: authorise by its COMMAND_ACCESS, run (which parses), answer through the ack. */
+export type LiveOn = <E extends Command>(event: E, run: (payload: unknown, who: Allowed) => Promise<AckData<E>>) => void;
 
 /** What other features get to add their own commands to a live socket, with the same authorisation. */
 export interface LiveCommands {
@@ -87,6 +84,8 @@ export function registerLiveSocket(socket: LiveSocket, ctx: AppContext, live: Li
       live.participantConnected(p.sessionId, p.id);
     } else if (data.kind === 'display' && data.sessionId) {
       await socket.join([liveRooms.session(data.sessionId), liveRooms.screens(data.sessionId)]);
+    } else if (data.kind === 'user' && data.userId) {
+      await socket.join(liveRooms.account(data.userId));
     }
   })().catch((err: unknown) => ctx.logger.error({ err }, 'could not attach a live socket'));
 
@@ -103,21 +102,20 @@ export function registerLiveSocket(socket: LiveSocket, ctx: AppContext, live: Li
       if (!participant) throw errors.forbidden(data.kind === 'participant' ? 'Join the session again' : 'Only participants can do that');
       return { sessionId: participant.sessionId, participantId: participant.id };
     }
-    if (need === 'screen') {
-      if (data.kind === 'display' && data.sessionId) return { sessionId: data.sessionId, participantId: null };
-      if (data.kind === 'user' && data.watching) return { sessionId: data.watching.sessionId, participantId: null };
+    if (need === 'screen' && data.kind === 'display') {
+      if (data.sessionId) return { sessionId: data.sessionId, participantId: null };
       throw errors.forbidden('Watch a session first');
+    }
+    if (need === 'screen' && data.kind === 'user') {
+      if (!data.watching) throw errors.forbidden('Watch a session first');
+      // An account's rights are checked afresh on every command (removed, disabled, signed out elsewhere).
+      if (!(await recheckAccountSocket(socket, ctx)).watching) throw errors.forbidden('You have no role on this workshop any more');
+      return { sessionId: data.watching.sessionId, participantId: null };
     }
     if (data.kind !== 'user' || !data.watching || !data.userId) throw errors.forbidden('Only the facilitators can run the session');
     // Checked afresh on every command, so a co-facilitator removed during the day stops at once.
-    const { sessionId, workshopId } = data.watching;
-    const role = await ctx.accountRoleOf(data.userId, workshopId);
-    const canRun = role !== null && EDIT_ROLES.includes(role);
-    data.watching.canRun = canRun;
-    if (!canRun) {
-      await socket.leave(liveRooms.facilitators(sessionId));
-      throw errors.forbidden('Only the facilitators can run the session');
-    }
+    const { sessionId } = data.watching;
+    if (!(await recheckAccountSocket(socket, ctx)).canRun) throw errors.forbidden('Only the facilitators can run the session');
     return { sessionId, participantId: null };
   };
 
@@ -134,7 +132,8 @@ export function registerLiveSocket(socket: LiveSocket, ctx: AppContext, live: Li
       });
     }
   });
-  const on: LiveOn = <E extends Command>(event: E, need: Need | null, run: (payload: unknown, who: Allowed) => Promise<AckData<E>>) => {
+  const on: LiveOn = <E extends Command>(event: E, run: (payload: unknown, who: Allowed) => Promise<AckData<E>>) => {
+    const need: Need = COMMAND_ACCESS[event];
     // A phone or a projector can never run a facilitator's command, nor a projector a phone's: such
     // sockets do not carry those handlers at all (a room of phones is most of the server's memory);
     // the catch-all below answers `forbidden` for them.
@@ -152,7 +151,7 @@ export function registerLiveSocket(socket: LiveSocket, ctx: AppContext, live: Li
       };
       void (async () => {
         try {
-          const who = need === null ? { sessionId: '', participantId: null } : await allow(need);
+          const who = need === 'account' ? { sessionId: '', participantId: null } : await allow(need);
           reply({ data: await run(payload, who) });
         } catch (err) {
           if (err instanceof AppError) reply({ error: { code: err.code, message: err.message } });
@@ -166,12 +165,12 @@ export function registerLiveSocket(socket: LiveSocket, ctx: AppContext, live: Li
   };
   const empty = (payload: unknown) => parse(LivePayloads.empty, payload ?? {});
 
-  on('session:watch', null, async (payload) => {
+  on('session:watch', async (payload) => {
     await ready;
     if (data.kind !== 'user' || !data.userId) throw errors.forbidden('Only facilitators and observers watch a session from an account');
     const { sessionId } = parse(LivePayloads.watch, payload);
     const workshopId = await live.workshopOf(sessionId);
-    const role = await ctx.accountRoleOf(data.userId, workshopId);
+    const role = await ctx.accountRoleOf(data.userId, workshopId, data.tokenVersion);
     if (!role) throw errors.forbidden('You have no role on this workshop');
     const before = data.watching?.sessionId;
     if (before && before !== sessionId) {
@@ -184,61 +183,148 @@ export function registerLiveSocket(socket: LiveSocket, ctx: AppContext, live: Li
     return live.state(sessionId);
   });
 
-  on('session:sync', 'screen', async (payload, who) => {
+  on('session:sync', async (payload, who) => {
     empty(payload);
     const state = await live.state(who.sessionId);
     return who.participantId ? phoneStateOf(state) : state;
   });
-  on('session:next', 'runner', async (payload, who) => {
+  on('session:next', async (payload, who) => {
     empty(payload);
     return live.next(who.sessionId);
   });
-  on('session:back', 'runner', async (payload, who) => {
+  on('session:back', async (payload, who) => {
     empty(payload);
     return live.back(who.sessionId);
   });
-  on('session:goto', 'runner', async (payload, who) => live.goto(who.sessionId, parse(LivePayloads.goto, payload).index));
-  on('timer:start', 'runner', async (payload, who) => {
+  on('session:goto', async (payload, who) => live.goto(who.sessionId, parse(LivePayloads.goto, payload).index));
+  on('timer:start', async (payload, who) => {
     empty(payload);
     return live.timerStart(who.sessionId);
   });
-  on('timer:pause', 'runner', async (payload, who) => {
+  on('timer:pause', async (payload, who) => {
     empty(payload);
     return live.timerPause(who.sessionId);
   });
-  on('timer:resume', 'runner', async (payload, who) => {
+  on('timer:resume', async (payload, who) => {
     empty(payload);
     return live.timerResume(who.sessionId);
   });
-  on('timer:adjust', 'runner', async (payload, who) => live.timerAdjust(who.sessionId, parse(LivePayloads.adjust, payload).deltaMs));
-  on('session:lock', 'runner', async (payload, who) => live.setLocked(who.sessionId, parse(LivePayloads.lock, payload).locked));
-  on('session:reveal', 'runner', async (payload, who) => live.setRevealed(who.sessionId, parse(LivePayloads.reveal, payload).revealed));
-  on('session:message', 'runner', async (payload, who) => live.sendMessage(who.sessionId, parse(LivePayloads.message, payload).text));
-  on('agenda:shorten', 'runner', async (payload, who) => live.shorten(who.sessionId, parse(LivePayloads.shorten, payload).cuts));
-  on('agenda:undo-cuts', 'runner', async (payload, who) => {
+  on('timer:adjust', async (payload, who) => live.timerAdjust(who.sessionId, parse(LivePayloads.adjust, payload).deltaMs));
+  on('session:lock', async (payload, who) => live.setLocked(who.sessionId, parse(LivePayloads.lock, payload).locked));
+  on('session:reveal', async (payload, who) => live.setRevealed(who.sessionId, parse(LivePayloads.reveal, payload).revealed));
+  on('session:message', async (payload, who) => live.sendMessage(who.sessionId, parse(LivePayloads.message, payload).text));
+  on('agenda:shorten', async (payload, who) => live.shorten(who.sessionId, parse(LivePayloads.shorten, payload).cuts));
+  on('agenda:undo-cuts', async (payload, who) => {
     empty(payload);
     return live.undoCuts(who.sessionId);
   });
-  on('agenda:keep-cuts', 'runner', async (payload, who) => {
+  on('agenda:keep-cuts', async (payload, who) => {
     empty(payload);
     return live.keepCuts(who.sessionId);
   });
-  on('participants:list', 'runner', async (payload, who) => {
+  on('participants:list', async (payload, who) => {
     empty(payload);
     return live.participants(who.sessionId);
   });
-  on('submission:list', 'runner', async (payload, who) =>
+  on('submission:list', async (payload, who) =>
     live.listSubmissions(who.sessionId, parse(LivePayloads.submissionList, payload).itemId),
   );
-  on('participant:me', 'participant', async (payload, who) => {
+  on('participant:me', async (payload, who) => {
     empty(payload);
     return live.me(who.participantId!, who.sessionId);
   });
-  on('participant:consent', 'participant', async (payload, who) =>
+  on('participant:consent', async (payload, who) =>
     live.setConsent(who.participantId!, who.sessionId, parse(LivePayloads.consent, payload).photoConsent),
   );
-  on('submission:create', 'participant', async (payload, who) =>
+  on('submission:create', async (payload, who) =>
     live.createSubmission(who.participantId!, who.sessionId, parse(SubmissionInput, payload)),
   );
   return { on, parse };
+}
+
+/** What an open screen is told when its account's rights change. */
+const REVOKED_MESSAGES: Record<AccessRevokedReason, string> = {
+  signed_out: 'You were signed out here: the password was changed or every session was ended. Sign in again.',
+  disabled: 'This account has been disabled; ask your Cairn admin.',
+  removed: 'You no longer have a role on this workshop.',
+  demoted: 'You can no longer run this session; you can still follow it.',
+};
+
+/** Tells a socket why it lost its rights. */
+function revoke(socket: LiveSocket, reason: AccessRevokedReason): void {
+  socket.emit('access:revoked', { reason, message: REVOKED_MESSAGES[reason] });
+}
+
+/**
+ * Checks an account's socket against the account as it is now and applies the answer at once: a
+ * disabled account or a changed token version (password changed, signed out everywhere) is told why
+ * and disconnected; an account removed from the workshop leaves the session's rooms; one that may no
+ * longer run it leaves the facilitators' room (and one that now may, joins it).
+ */
+export async function recheckAccountSocket(socket: LiveSocket, ctx: AppContext): Promise<{ watching: boolean; canRun: boolean }> {
+  const data = socket.data;
+  if (data.kind !== 'user' || !data.userId) return { watching: false, canRun: false };
+  const watching = data.watching;
+  // One query in the usual case: the account is enabled, its token current and its role known.
+  const role = watching ? await ctx.accountRoleOf(data.userId, watching.workshopId, data.tokenVersion) : null;
+  if (!role) {
+    const user = await ctx.db.models.User.findByPk(data.userId, { attributes: ['id', 'disabled', 'tokenVersion'] });
+    const ended: AccessRevokedReason | null = !user || user.disabled ? 'disabled' : user.tokenVersion !== data.tokenVersion ? 'signed_out' : null;
+    if (ended) {
+      revoke(socket, ended);
+      // After the answer to the command that found out, so the screen gets both.
+      setImmediate(() => socket.disconnect(true));
+      return { watching: false, canRun: false };
+    }
+    if (!watching) return { watching: false, canRun: false };
+    const { sessionId } = watching;
+    data.watching = undefined;
+    for (const room of [liveRooms.facilitators(sessionId), liveRooms.screens(sessionId), liveRooms.session(sessionId)]) await socket.leave(room);
+    revoke(socket, 'removed');
+    return { watching: false, canRun: false };
+  }
+  const w = watching!;
+  const canRun = EDIT_ROLES.includes(role);
+  if (canRun !== w.canRun) {
+    w.canRun = canRun;
+    if (canRun) await socket.join(liveRooms.facilitators(w.sessionId));
+    else {
+      await socket.leave(liveRooms.facilitators(w.sessionId));
+      revoke(socket, 'demoted');
+    }
+  }
+  return { watching: true, canRun };
+}
+
+/** Rechecks this process's open sockets of one account, or of every account when it is not known which. */
+export async function recheckAccounts(io: LiveIo, ctx: AppContext, userId?: string): Promise<void> {
+  const ids = userId ? [...(io.sockets.adapter.rooms.get(liveRooms.account(userId)) ?? [])] : [...io.sockets.sockets.keys()];
+  for (const id of ids) {
+    const socket = io.sockets.sockets.get(id);
+    if (socket && socket.data.kind === 'user') await recheckAccountSocket(socket, ctx);
+  }
+}
+
+/**
+ * Rechecks open screens as soon as an account or a membership changes (after the commit): removing a
+ * co-facilitator, disabling an account, changing a password or signing out everywhere takes effect
+ * on open consoles at once. Each command also rechecks, for changes made in another process.
+ */
+export function watchAccountChanges(io: LiveIo, ctx: AppContext): void {
+  const { User, Membership } = ctx.db.models;
+  const later = (options: { transaction?: Transaction | null }, userId?: string) => {
+    const run = () => {
+      recheckAccounts(io, ctx, userId).catch((err: unknown) => ctx.logger.warn({ err }, 'could not recheck open screens'));
+    };
+    if (options.transaction) options.transaction.afterCommit(run);
+    else run();
+  };
+  User.addHook('afterUpdate', (user: UserRow, options: { transaction?: Transaction | null }) => later(options, user.id));
+  User.addHook('afterBulkUpdate', (options: { transaction?: Transaction | null }) => later(options));
+  for (const hook of ['afterUpdate', 'afterDestroy', 'afterCreate'] as const) {
+    Membership.addHook(hook, (m: MembershipRow, options: { transaction?: Transaction | null }) => later(options, m.userId));
+  }
+  for (const hook of ['afterBulkUpdate', 'afterBulkDestroy'] as const) {
+    Membership.addHook(hook, (options: { transaction?: Transaction | null }) => later(options));
+  }
 }

@@ -5,10 +5,10 @@ import { FormTeamsPayload, SetTeamsPayload } from '../../../shared/schemas/team'
 
 /** Team commands on a live socket: every screen lists, the facilitators form and set. */
 export function registerTeamsSocket({ on, parse }: LiveCommands, teams: TeamsService): void {
-  on('teams:list', 'screen', async (payload, who) => {
+  on('teams:list', async (payload, who) => {
     parse(LivePayloads.empty, payload ?? {});
     return teams.list(who.sessionId);
   });
-  on('teams:form', 'runner', async (payload, who) => teams.form(who.sessionId, parse(FormTeamsPayload, payload).count));
-  on('teams:set', 'runner', async (payload, who) => teams.set(who.sessionId, parse(SetTeamsPayload, payload)));
+  on('teams:form', async (payload, who) => teams.form(who.sessionId, parse(FormTeamsPayload, payload).count));
+  on('teams:set', async (payload, who) => teams.set(who.sessionId, parse(SetTeamsPayload, payload)));
 }

@@ -16,35 +16,35 @@ export function registerVotingSocket({ on, parse }: LiveCommands, voting: Voting
   const runsSession = async (): Promise<boolean> => {
     const data = socket.data;
     if (data.kind !== 'user' || !data.userId || !data.watching) return false;
-    const role = await ctx.accountRoleOf(data.userId, data.watching.workshopId);
+    const role = await ctx.accountRoleOf(data.userId, data.watching.workshopId, data.tokenVersion);
     return role !== null && EDIT_ROLES.includes(role);
   };
 
-  on('vote:state', 'screen', async (payload, who) => {
+  on('vote:state', async (payload, who) => {
     empty(payload);
     return voting.state(who.sessionId, who.participantId);
   });
-  on('vote:setup', 'runner', async (payload, who) => voting.setup(who.sessionId, parse(VoteSetupPayload, payload)));
-  on('vote:open', 'runner', async (payload, who) => {
+  on('vote:setup', async (payload, who) => voting.setup(who.sessionId, parse(VoteSetupPayload, payload)));
+  on('vote:open', async (payload, who) => {
     empty(payload);
     return voting.openVote(who.sessionId);
   });
-  on('vote:close', 'runner', async (payload, who) => {
+  on('vote:close', async (payload, who) => {
     empty(payload);
     return voting.closeVote(who.sessionId);
   });
-  on('vote:dot', 'participant', async (payload, who) => voting.dot(who.participantId!, who.sessionId, parse(DotPayload, payload), socket.id));
-  on('vote:rank', 'participant', async (payload, who) => voting.rank(who.participantId!, who.sessionId, parse(RankPayload, payload), socket.id));
-  on('vote:results', 'screen', async (payload, who) => {
+  on('vote:dot', async (payload, who) => voting.dot(who.participantId!, who.sessionId, parse(DotPayload, payload), socket.id));
+  on('vote:rank', async (payload, who) => voting.rank(who.participantId!, who.sessionId, parse(RankPayload, payload), socket.id));
+  on('vote:results', async (payload, who) => {
     empty(payload);
     // Phones, projectors and observers see results once revealed; the facilitators see them as they come in.
     const asker = who.participantId === null && (await runsSession()) ? 'runner' : 'screen';
     return voting.results(who.sessionId, asker);
   });
-  on('vote:choose', 'runner', async (payload, who) => voting.choose(who.sessionId, parse(ChoosePayload, payload).optionIds));
-  on('vote:sources', 'runner', async (payload, who) => {
+  on('vote:choose', async (payload, who) => voting.choose(who.sessionId, parse(ChoosePayload, payload).optionIds));
+  on('vote:sources', async (payload, who) => {
     empty(payload);
     return voting.sources(who.sessionId);
   });
-  on('teams:propose', 'runner', async (payload, who) => voting.propose(who.sessionId, parse(ProposeTeamsPayload, payload ?? {})));
+  on('teams:propose', async (payload, who) => voting.propose(who.sessionId, parse(ProposeTeamsPayload, payload ?? {})));
 }

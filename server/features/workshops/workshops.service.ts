@@ -61,17 +61,19 @@ export class WorkshopsService {
   }
 
   /**
-   * The role of an enabled account, by id, on a workshop; `null` for none, a disabled or unknown account
-   * or no such workshop. One query: live commands check it afresh on every command.
+   * The role of an enabled account, by id, on a workshop; `null` for none, a disabled or unknown account,
+   * no such workshop, or a token version (when given) that is no longer the account's. One query: live
+   * commands check it afresh on every command.
    */
-  async roleOfAccount(userId: string, workshopId: string): Promise<WorkshopAccessRole | null> {
-    const [row] = await this.db.sequelize.query<{ role: string; disabled: number; ownerId: string | null; memberRole: WorkshopAccessRole | null }>(
-      `SELECT u.role AS role, u.disabled AS disabled, w.ownerId AS ownerId, m.role AS memberRole
+  async roleOfAccount(userId: string, workshopId: string, tokenVersion?: number): Promise<WorkshopAccessRole | null> {
+    const [row] = await this.db.sequelize.query<{ role: string; disabled: number; tokenVersion: number; ownerId: string | null; memberRole: WorkshopAccessRole | null }>(
+      `SELECT u.role AS role, u.disabled AS disabled, u.tokenVersion AS tokenVersion, w.ownerId AS ownerId, m.role AS memberRole
        FROM users u LEFT JOIN workshops w ON w.id = ? LEFT JOIN memberships m ON m.workshopId = w.id AND m.userId = u.id
        WHERE u.id = ?`,
       { replacements: [workshopId, userId], type: QueryTypes.SELECT },
     );
     if (!row || Boolean(row.disabled) || row.ownerId === null) return null;
+    if (tokenVersion !== undefined && Number(row.tokenVersion) !== tokenVersion) return null;
     return decideRole(userId, row.role, row.ownerId, row.memberRole);
   }
 
