@@ -40,6 +40,15 @@ test('a rehearsal, then the day: the console starts each afresh, the results cov
   const rehearsalCode = (await consolePage.getByTestId('console-code').textContent())!.trim();
   const robin = await joinPhone(browser, `${new URL(consolePage.url()).origin}/join/${rehearsalCode}`, 'Robin Rehearsal');
   await expect(consolePage.getByTestId('joined-count')).toHaveText('1');
+  // Opening the join link again on the same phone comes back as the same person, without typing anything.
+  await robin.goto(`/join/${rehearsalCode}`);
+  await expect(robin).toHaveURL(/\/phone\//);
+  await expect(robin.getByTestId('me-name')).toHaveText('Robin Rehearsal');
+  // The back button stays in Cairn.
+  await robin.goBack();
+  await expect(robin).toHaveURL(/\/phone\//);
+  await expect(robin.getByTestId('phone-activity')).toBeVisible();
+  await expect(consolePage.getByTestId('joined-count')).toHaveText('1');
   await sendNote(consolePage, robin, REHEARSAL_NOTE);
   await endSession(consolePage);
 

@@ -141,6 +141,13 @@ describe('rotating pairs for interviews and icebreakers', () => {
     expect(seen.newcomers.map((p) => p.displayName)).toEqual(['Fay Osei']);
     expect(seen.pairs).toEqual(first.pairs);
 
+    // The next round pairs the newcomer too, without pairing everyone again: six people, nobody rests.
+    const next = await commandData(facilitator, 'rounds:set', { itemId, round: 1, regroup: false });
+    expect(next.newcomers).toEqual([]);
+    expect(next.resting).toBeNull();
+    expect(next.pairs.flatMap((p) => [p.a.displayName, p.b.displayName])).toContain('Fay Osei');
+    expect(next.pairs).toHaveLength(3);
+
     const regrouped = await commandData(facilitator, 'rounds:set', { itemId, round: 0, regroup: true });
     expect(regrouped.newcomers).toEqual([]);
     // Six people: FIDE Berger table R1 1-6 2-5 3-4, nobody rests.

@@ -463,6 +463,7 @@ export class ActivitiesService {
     if (!ROUND_TYPES.has(item.type as ActivityType)) throw refuse('This activity does not run in rounds');
     const state = await this.ctx.db.writeTx(async (transaction) => {
       const s = await this.stateFor(sessionId, item, transaction, regroup);
+      if (!regroup && round > s.round && PAIRED_TYPES.has(item.type as ActivityType)) await this.addLateJoiners(sessionId, s);
       s.round = round;
       await s.save({ transaction });
       return s;
@@ -579,6 +580,18 @@ export class ActivitiesService {
     await this.ctx.db.models.Submission.update({ themeId }, { where: { sessionId, id: noteIds }, transaction });
     for (const r of rows) r.themeId = themeId;
     return rows;
+  }
+
+  /**
+   * People who joined after the pairs were drawn and are online join the rotation from the next round
+   * on, so nobody waits for the facilitator to pair everyone again (the pairs of later rounds change).
+   */
+  private async addLateJoiners(sessionId: string, state: ActivityStateRow): Promise<void> {
+    const inRoster = new Set(state.roster ?? []);
+    const late = (await this.live.participants(sessionId)).filter((p) => p.online && !inRoster.has(p.id)).map((p) => p.id);
+    if (late.length === 0) return;
+    state.roster = [...(state.roster ?? []), ...late];
+    state.changed('roster', true);
   }
 
   /** The item's state, made on first use; pairs are drawn then (or again with `regroup`) from whoever is online. */
