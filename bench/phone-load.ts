@@ -143,6 +143,7 @@ async function audit(url: string, storage: Record<string, string>) {
       lcpMs: lhr.audits['largest-contentful-paint']!.numericValue ?? NaN,
       tbtMs: lhr.audits['total-blocking-time']!.numericValue ?? NaN,
       failing: [...failing('performance'), ...failing('accessibility'), ...failing('best-practices')],
+      problem: lhr.runtimeError?.message ?? null,
     };
   } finally {
     chrome.kill();
@@ -214,7 +215,7 @@ async function main(): Promise<void> {
       console.log(
         `${route.name.padEnd(18)} ${String(row.requests).padStart(3)} requests  JS ${String(row.jsKB).padStart(6)} kB  CSS ${String(row.cssKB).padStart(5)} kB  fonts ${String(row.fontKB).padStart(5)} kB  other ${String(row.otherKB).padStart(5)} kB  total ${String(row.totalKB).padStart(6)} kB  FCP ${row.fcpMs} ms (median of ${RUNS})` +
           (lh
-            ? `\n${''.padEnd(18)} Lighthouse performance ${lh.performance} accessibility ${lh.accessibility} best practices ${lh.bestPractices} (FCP ${Math.round(lh.fcpMs)} ms, LCP ${Math.round(lh.lcpMs)} ms, TBT ${Math.round(lh.tbtMs)} ms)${lh.failing.length ? `\n${''.padEnd(18)} below 1: ${lh.failing.join(', ')}` : ''}`
+            ? `\n${''.padEnd(18)} Lighthouse performance ${lh.performance} accessibility ${lh.accessibility} best practices ${lh.bestPractices} (FCP ${Math.round(lh.fcpMs)} ms, LCP ${Math.round(lh.lcpMs)} ms, TBT ${Math.round(lh.tbtMs)} ms)${lh.failing.length ? `\n${''.padEnd(18)} below 1: ${lh.failing.join(', ')}` : ''}${lh.problem ? `\n${''.padEnd(18)} Lighthouse could not finish: ${lh.problem}` : ''}`
             : ''),
       );
     }

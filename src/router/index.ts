@@ -1,5 +1,7 @@
 import { createRouter, createWebHistory, type RouteRecordRaw } from 'vue-router';
 import { useSessionStore } from '../stores/session';
+// In the first script: a phone's page then waits for one round of lazy files, not two.
+import PhoneLayout from '../layouts/PhoneLayout.vue';
 
 /**
  * Route meta: `public` routes need no sign-in; `admin` routes need the admin role; `phone` routes are a
@@ -49,14 +51,14 @@ const routes: RouteRecordRaw[] = [
   },
   {
     path: '/join',
-    component: () => import('../layouts/PhoneLayout.vue'),
+    component: PhoneLayout,
     children: [
       { path: ':code?', name: 'join', component: () => import('../pages/join.vue'), meta: { public: true, phone: true } },
     ],
   },
   {
     path: '/phone/:sessionId',
-    component: () => import('../layouts/PhoneLayout.vue'),
+    component: PhoneLayout,
     children: [{ path: '', name: 'phone', component: () => import('../pages/phone.vue'), props: true, meta: { public: true, phone: true } }],
   },
   {
