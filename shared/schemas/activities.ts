@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { typedText } from '../text';
 import type { ActivitySettings, ActivityType } from './agenda-item';
 import { SubmissionInput } from './live';
 
@@ -223,11 +224,11 @@ export function guidedFieldsSchema(kind: GuidedKind): z.ZodType<Record<string, s
 }
 
 const Id = z.string().min(1).max(64);
-const ThemeName = z
-  .string()
-  .trim()
-  .min(1, 'Give the theme a name')
-  .max(ACTIVITY_LIMITS.themeNameChars, `Keep a theme's name under ${ACTIVITY_LIMITS.themeNameChars} characters`);
+const ThemeName = typedText({
+  required: 'Give the theme a name',
+  max: ACTIVITY_LIMITS.themeNameChars,
+  tooLong: `Keep a theme's name under ${ACTIVITY_LIMITS.themeNameChars} characters`,
+});
 
 /** Payloads of the activity commands, parsed on the server with these schemas. */
 export const ActivityPayloads = {
@@ -272,11 +273,11 @@ const FormBoolean = z.enum(['true', 'false']).transform((v) => v === 'true');
 export const PhotoUploadFields = z.object({
   itemId: Id,
   clientId: z.string().min(8).max(64),
-  caption: z
-    .string()
-    .trim()
-    .min(1, 'Add a caption: what does the photo show?')
-    .max(ACTIVITY_LIMITS.captionChars, `Keep the caption under ${ACTIVITY_LIMITS.captionChars} characters`),
+  caption: typedText({
+    required: 'Add a caption: what does the photo show?',
+    max: ACTIVITY_LIMITS.captionChars,
+    tooLong: `Keep the caption under ${ACTIVITY_LIMITS.captionChars} characters`,
+  }),
   showsPeople: FormBoolean,
   peopleConsent: FormBoolean.default(false),
 });

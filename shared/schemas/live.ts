@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { ActivitySettings, ActivityType, Phase } from './agenda-item';
+import { typedText } from '../text';
 
 /** Alphabet of join codes: no 0/O, 1/I/L, so a code read off the projector is typed right. */
 export const JOIN_CODE_ALPHABET = '23456789ABCDEFGHJKMNPQRSTUVWXYZ';
@@ -162,11 +163,11 @@ export const Me = z.object({
 export type Me = z.infer<typeof Me>;
 
 /** A display name as typed on the phone. */
-export const DisplayName = z
-  .string()
-  .trim()
-  .min(1, 'Enter a name the room will know you by')
-  .max(40, 'Keep your name under 40 characters');
+export const DisplayName = typedText({
+  required: 'Enter a name the room will know you by',
+  max: 40,
+  tooLong: 'Keep your name under 40 characters',
+});
 
 /** Body of joining a live session from a phone. */
 export const JoinBody = z.object({
@@ -212,7 +213,7 @@ export const SubmissionInput = z.object({
   kind: z.enum(['note', 'point_of_view', 'how_might_we', 'feedback', 'reflection', 'frame', 'sketch']),
   /** Quadrant or part (says / thinks / does / feels, worked / didnt / questions / ideas …). */
   part: z.string().max(30).optional(),
-  text: z.string().trim().min(1, 'Write something first').max(500, 'Keep a note under 500 characters'),
+  text: typedText({ required: 'Write something first', max: 500, tooLong: 'Keep a note under 500 characters', multiline: true }),
   /** Structured fields of guided sentences (user, need, insight …). */
   fields: z
     .record(z.string().max(30), z.string().max(300))

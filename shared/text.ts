@@ -1,0 +1,58 @@
+import { z } from 'zod';
+
+/**
+ * Bidirectional embeddings, overrides and isolates (U+202A–U+202E, U+2066–U+2069): they reorder how
+ * the text around them is shown (Unicode Standard Annex #9, §2.1–2.4), so a name could look like
+ * someone else's or run backwards over the next column.
+ */
+const BIDI_CONTROLS = /[\u202A-\u202E\u2066-\u2069]/gu;
+/** Control characters (general category Cc), all of them in a one-line text. */
+const CONTROLS = /\p{Cc}/gu;
+/** Control characters but the line break and tab, for text that may run over several lines. */
+const CONTROLS_BUT_LINES = /(?![\n\t])\p{Cc}/gu;
+/**
+ * What shows nothing on a screen: white space, control and format characters (Cc, Cf: zero-width
+ * space and joiners, the byte order mark, bidi marks) and the code points Unicode says to ignore
+ * when there is nothing to show for them (Default_Ignorable_Code_Point, e.g. U+3164 Hangul filler,
+ * variation selectors).
+ */
+const INVISIBLE = /[\s\p{Cc}\p{Cf}\p{Z}\p{Default_Ignorable_Code_Point}]/gu;
+
+/**
+ * Normalises text a person typed: Unicode NFC (Unicode Standard Annex #15), without bidi overrides
+ * and control characters (line breaks and tabs kept when `multiline`), trimmed.
+ * @example normaliseText('\u202Eadmin\u0007 ') // 'admin'
+ */
+export function normaliseText(text: string, multiline = false): string {
+  return text
+    .normalize('NFC')
+    .replace(BIDI_CONTROLS, '')
+    .replace(multiline ? CONTROLS_BUT_LINES : CONTROLS, '')
+    .trim();
+}
+
+/**
+ * Whether text has anything a reader can see: something left once white space, zero-width and other
+ * invisible characters are taken out.
+ * @example hasVisibleText('\u200B\uFEFF ') // false
+ */
+export function hasVisibleText(text: string): boolean {
+  return text.replace(INVISIBLE, '').length > 0;
+}
+
+/** What a person is told when a text has nothing that shows. */
+export const INVISIBLE_TEXT_MESSAGE = 'Use letters, numbers or signs that show; this has only invisible characters';
+
+/**
+ * A zod schema for text a person types (a name, a note, a theme's name): normalised with
+ * `normaliseText`, then required, bounded and refused when nothing in it shows.
+ * @example typedText({ required: 'Enter a name', max: 40, tooLong: 'Keep it under 40 characters' })
+ */
+export function typedText(opts: { required: string; max: number; tooLong: string; multiline?: boolean }) {
+  return z
+    .string()
+    .overwrite((s) => normaliseText(s, opts.multiline ?? false))
+    .min(1, opts.required)
+    .max(opts.max, opts.tooLong)
+    .refine(hasVisibleText, INVISIBLE_TEXT_MESSAGE);
+}
