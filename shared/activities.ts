@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import type { ActivitySettings, ActivityType, AgendaItem, Criterion, Phase } from './schemas/agenda-item';
 import type { SubmissionInput } from './schemas/live';
+import { atLeast } from './numbers';
 
 /** Everything Cairn can put on a packing list. */
 export const MaterialKey = z.enum([
@@ -106,8 +107,9 @@ export const IMPACT_EFFORT_CRITERIA: readonly Criterion[] = [
   { id: 'effort', label: 'Effort' },
 ];
 
-/** The shortest cut of a timebox Cairn suggests: two thirds of it, rounded (common practice). */
+/** The shortest cut of a timebox Cairn suggests: two thirds of it, rounded (common practice); refuses a timebox that is not a finite number of 0 or more. */
 export function defaultMinTimebox(timeboxMin: number): number {
+  atLeast('The timebox', timeboxMin, 0);
   return Math.max(1, Math.round((timeboxMin * 2) / 3));
 }
 

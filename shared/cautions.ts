@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { ACTIVITY_LIBRARY } from './activities';
 import type { AgendaItem } from './schemas/agenda-item';
+import { whole } from './numbers';
 
 /** The usual cautions of a workshop day. */
 export const CautionCode = z.enum(['food_allergies', 'movement_access', 'room_capacity', 'photos_personal_data']);
@@ -21,7 +22,8 @@ const PHOTO_TYPES = new Set<AgendaItem['type']>(['sketch', 'storyboard']);
 /**
  * The cautions a plan raises: food at breaks, movement in icebreakers, the room itself (always,
  * firmer when the headcount passes a known room capacity), and photos. Cairn points to the venue's
- * rules and the organisation's policy; it does not replace them.
+ * rules and the organisation's policy; it does not replace them. Refuses a headcount that is not a whole
+ * number of 0 or more; a room capacity that is not a whole number of 1 or more is ignored (unknown).
  * @example cautionsFor(items, { headcount: 18, hasPhotos: false }).map((c) => c.code)
  */
 export function cautionsFor(
@@ -55,8 +57,9 @@ export function cautionsFor(
     });
   }
 
-  const { headcount, roomCapacity } = options;
-  const overCapacity = roomCapacity != null && roomCapacity > 0 && headcount > roomCapacity;
+  const headcount = whole('The headcount', options.headcount);
+  const roomCapacity = Number.isInteger(options.roomCapacity) && options.roomCapacity! > 0 ? options.roomCapacity! : null;
+  const overCapacity = roomCapacity !== null && headcount > roomCapacity;
   cautions.push({
     code: 'room_capacity',
     title: 'Room capacity and fire exits',

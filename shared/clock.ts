@@ -4,6 +4,8 @@
  * projector show the same remaining second.
  */
 
+import { finite } from './numbers';
+
 /** One round trip's estimate: the server clock minus the client clock, and the round-trip delay. */
 export interface ClockSample {
   /** θ: add it to the client's clock to get the server's (ms when the times are ms). */
@@ -16,21 +18,36 @@ export interface ClockSample {
  * Offset and delay of one round trip by RFC 5905 §8: θ = ((T2 − T1) + (T3 − T4)) / 2,
  * δ = (T4 − T1) − (T3 − T2), with T1 the client's send time, T2 the server's receive time,
  * T3 the server's send time and T4 the client's receive time (each by its own clock).
+ * Refuses a time that is not a finite number (RangeError naming it).
  * @example ntpSample(0, 60, 61, 21) // { offset: 50, delay: 20 }
  */
 export function ntpSample(t1: number, t2: number, t3: number, t4: number): ClockSample {
+  finite('T1', t1);
+  finite('T2', t2);
+  finite('T3', t3);
+  finite('T4', t4);
   return { offset: (t2 - t1 + (t3 - t4)) / 2, delay: t4 - t1 - (t3 - t2) };
 }
 
 /**
  * The sample of least delay, whose offset error is at most δ/2 (the idea of RFC 5905's clock
- * filter); on equal delays the later sample wins, being fresher. `null` for no samples.
+ * filter); on equal delays the later sample wins, being fresher. Ignores garbled samples (an offset or
+ * delay that is not a finite number, or a negative delay), as {@link ClockSync.add} does; `null` when
+ * no usable sample is left.
  * @example bestSample([{ offset: 9, delay: 80 }, { offset: 5, delay: 12 }]) // { offset: 5, delay: 12 }
  */
 export function bestSample<S extends ClockSample>(samples: readonly S[]): S | null {
   let best: S | null = null;
-  for (const sample of samples) if (best === null || sample.delay <= best.delay) best = sample;
+  for (const sample of samples) {
+    if (!usable(sample)) continue;
+    if (best === null || sample.delay <= best.delay) best = sample;
+  }
   return best;
+}
+
+/** Whether a sample can be trusted at all: finite offset and delay, and a delay of 0 or more. */
+function usable(sample: ClockSample): boolean {
+  return Number.isFinite(sample.offset) && Number.isFinite(sample.delay) && sample.delay >= 0;
 }
 
 /**
@@ -50,13 +67,14 @@ export class ClockSync {
 
   /** Adds one sample; a sample with a negative or non-finite delay is garbled and is ignored. */
   add(sample: ClockSample): boolean {
-    if (!Number.isFinite(sample.offset) || !Number.isFinite(sample.delay) || sample.delay < 0) return false;
+    if (!usable(sample)) return false;
     this.kept = [...this.kept, sample].slice(-ClockSync.WINDOW);
     return true;
   }
 
-  /** Adds the sample of one round trip (see {@link ntpSample}) and returns it. */
-  addRoundTrip(t1: number, t2: number, t3: number, t4: number): ClockSample {
+  /** Adds the sample of one round trip (see {@link ntpSample}) and returns it; ignores (and returns `null` for) a round trip with a time that is not a finite number. */
+  addRoundTrip(t1: number, t2: number, t3: number, t4: number): ClockSample | null {
+    if (![t1, t2, t3, t4].every(Number.isFinite)) return null;
     const sample = ntpSample(t1, t2, t3, t4);
     this.add(sample);
     return sample;
@@ -99,27 +117,33 @@ export interface Timer {
 }
 
 /**
- * The server's clock now, from the client's clock and the estimated offset.
+ * The server's clock now, from the client's clock and the estimated offset; refuses either if it is not a finite number.
  * @example serverNow(1_000, 3_600_000) // 3_601_000
  */
 export function serverNow(localNowMs: number, offsetMs: number): number {
-  return localNowMs + offsetMs;
+  return finite('The local time', localNowMs) + finite('The clock offset', offsetMs);
 }
 
 /**
  * Milliseconds left on a timer at the server time `serverNowMs`, never below 0: the whole
  * timebox when idle, nothing when ended. A running timer without `endsAt` or a paused one
- * without `remainingMs` (malformed) counts as its whole timebox.
+ * without `remainingMs` (malformed) counts as its whole timebox. Timer fields that are not finite numbers
+ * are ignored as missing (a timebox that is not one counts as 0); a server time that is not a finite
+ * number is refused.
  * @example remainingMs({ status: 'running', endsAt: 10_000, remainingMs: null, durationMs: 60_000 }, 4_000) // 6_000
  */
 export function remainingMs(timer: Timer, serverNowMs: number): number {
+  finite('The server time', serverNowMs);
+  const durationMs = Number.isFinite(timer.durationMs) ? timer.durationMs : 0;
+  const endsAt = timer.endsAt !== null && Number.isFinite(timer.endsAt) ? timer.endsAt : null;
+  const left = timer.remainingMs !== null && Number.isFinite(timer.remainingMs) ? timer.remainingMs : null;
   switch (timer.status) {
     case 'idle':
-      return Math.max(0, timer.durationMs);
+      return Math.max(0, durationMs);
     case 'running':
-      return Math.max(0, timer.endsAt === null ? timer.durationMs : timer.endsAt - serverNowMs);
+      return Math.max(0, endsAt === null ? durationMs : endsAt - serverNowMs);
     case 'paused':
-      return Math.max(0, timer.remainingMs ?? timer.durationMs);
+      return Math.max(0, left ?? durationMs);
     case 'ended':
       return 0;
   }

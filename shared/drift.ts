@@ -1,5 +1,6 @@
 import { isBreakItem } from './activities';
 import { toClock, toMinutes } from './schedule';
+import { atLeast, finite } from './numbers';
 import type { AgendaItem } from './schemas/agenda-item';
 import type { DayWindow } from './schemas/day-window';
 
@@ -43,7 +44,9 @@ export interface Drift {
 }
 
 /**
- * Drift of the live day: how far behind plan the agenda runs and when the day will end.
+ * Drift of the live day: how far behind plan the agenda runs and when the day will end. Refuses a time,
+ * a remaining time or an anchor that is not a finite number, and a timebox that is not a finite number
+ * of 0 or more (RangeError naming it); completed items whose actual minutes are not a finite number are ignored.
  * @example
  * computeDrift({ items, window, currentIndex: 2, currentStartedAtMin: 625, currentRemainingMin: 20, nowMin: 630 })
  */
@@ -52,6 +55,11 @@ export function computeDrift(input: DriftInput): Drift {
   if (!Number.isInteger(currentIndex) || currentIndex < 0 || currentIndex >= items.length) {
     throw new RangeError(`No agenda item at index ${currentIndex}`);
   }
+  finite('The current item’s start', input.currentStartedAtMin);
+  finite('The minutes left', input.currentRemainingMin);
+  finite('The time now', input.nowMin);
+  if (input.anchorMin !== undefined) finite('The anchor', input.anchorMin);
+  for (const item of items) atLeast(`The timebox of “${item.title}”`, item.timeboxMin, 0);
   const shiftMin = input.anchorMin === undefined ? 0 : input.anchorMin - toMinutes(window.start);
   const startMin = toMinutes(window.start) + shiftMin;
   let plannedStartMin = startMin;
@@ -66,7 +74,7 @@ export function computeDrift(input: DriftInput): Drift {
   let completedOverMin = 0;
   for (const c of input.completed ?? []) {
     const p = planned.get(c.id);
-    if (p !== undefined) completedOverMin += c.actualMin - p;
+    if (p !== undefined && Number.isFinite(c.actualMin)) completedOverMin += c.actualMin - p;
   }
 
   return {
@@ -93,14 +101,18 @@ export interface Shortening {
  * Cuts to the items after `fromIndex` (the current item's index) that win back `minutesToRecover`
  * (rounded up to whole minutes). Breaks and lunch are never cut, no item goes below its minimum
  * timebox, and the cut is spread in proportion to each item's slack (timebox − minimum), in whole
- * minutes by largest remainder (ties go to the larger slack, then the earlier item).
+ * minutes by largest remainder (ties go to the larger slack, then the earlier item). Refuses minutes to
+ * recover or an index that are not finite numbers; items whose timebox or minimum is not a finite number
+ * are ignored (never cut).
  * @example suggestShortening(items, 2, 10) // { cuts: [...], recoveredMin: 10, shortfallMin: 0 }
  */
 export function suggestShortening(items: AgendaItem[], fromIndex: number, minutesToRecover: number): Shortening {
+  finite('The index', fromIndex);
+  finite('The minutes to recover', minutesToRecover);
   const wanted = Math.max(0, Math.ceil(minutesToRecover));
   const candidates = items
     .slice(Math.max(0, fromIndex + 1))
-    .filter((item) => !isBreakItem(item))
+    .filter((item) => !isBreakItem(item) && Number.isFinite(item.timeboxMin) && Number.isFinite(item.minTimeboxMin))
     .map((item, order) => ({ item, order, slack: Math.max(0, item.timeboxMin - item.minTimeboxMin) }))
     .filter((c) => c.slack > 0);
   const totalSlack = candidates.reduce((sum, c) => sum + c.slack, 0);
@@ -139,16 +151,21 @@ export interface RunTimeboxes {
 }
 
 /**
- * The agenda as the live run has it: each item's timebox replaced by the run's own where cuts set one.
+ * The agenda as the live run has it: each item's timebox replaced by the run's own where cuts set one;
+ * a run timebox that is not a finite number of 0 or more is ignored (the plan's stands).
  * @example withRunTimeboxes(items, { [items[3].id]: 15 })
  */
 export function withRunTimeboxes<T extends Pick<AgendaItem, 'id' | 'timeboxMin'>>(items: T[], timeboxes: Record<string, number>): T[] {
-  return items.map((i) => (timeboxes[i.id] === undefined ? i : { ...i, timeboxMin: timeboxes[i.id]! }));
+  return items.map((i) => {
+    const run = timeboxes[i.id];
+    return run === undefined || !Number.isFinite(run) || run < 0 ? i : { ...i, timeboxMin: run };
+  });
 }
 
 /**
  * Applies cuts to a live run's timeboxes only (the stored plan is untouched), never below an item's
- * shortest timebox; what the run had before is kept so the cut can be undone in one step.
+ * shortest timebox; what the run had before is kept so the cut can be undone in one step. A cut to a
+ * number of minutes that is not finite is ignored.
  * @example cutRunTimeboxes({ timeboxes: {}, before: null }, items, [{ itemId: 'sketch', toMin: 15 }])
  */
 export function cutRunTimeboxes(
@@ -160,7 +177,7 @@ export function cutRunTimeboxes(
   const next = { ...run.timeboxes };
   for (const cut of cuts) {
     const item = planned.get(cut.itemId);
-    if (!item) continue;
+    if (!item || !Number.isFinite(cut.toMin)) continue;
     const toMin = Math.max(item.minTimeboxMin, Math.round(cut.toMin));
     if (toMin === item.timeboxMin) delete next[item.id];
     else next[item.id] = toMin;
@@ -198,6 +215,7 @@ export interface DriftAnchor {
  * against the time of day on another date.
  * @example driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-14', startedMin: 612 })
  *   // { anchorMin: 612, reason: 'late', lateMin: 12 }
+ * Refuses minutes (the window's start, the start, the grace) that are not finite numbers.
  */
 export function driftAnchor(input: {
   workshopDate: string;
@@ -210,7 +228,9 @@ export function driftAnchor(input: {
   /** Lateness below this many minutes counts as on time (default 1). */
   graceMin?: number;
 }): DriftAnchor {
-  const grace = input.graceMin ?? 1;
+  finite('The window’s start', input.windowStartMin);
+  finite('The start', input.startedMin);
+  const grace = finite('The grace', input.graceMin ?? 1);
   if (input.startedDate !== input.workshopDate) return { anchorMin: input.startedMin, reason: 'other_date', lateMin: 0 };
   const late = input.startedMin - input.windowStartMin;
   if (late >= grace) return { anchorMin: input.startedMin, reason: 'late', lateMin: late };

@@ -1,5 +1,6 @@
 import { ACTIVITY_LIBRARY, MATERIALS, MaterialKey, type MaterialRule } from './activities';
 import type { AgendaItem } from './schemas/agenda-item';
+import { whole } from './numbers';
 
 /** One line of the packing list. */
 export interface PackingLine {
@@ -34,10 +35,13 @@ function ruleQuantity(rule: MaterialRule, item: AgendaItem, headcount: number, t
  * The packing list for an agenda: each item's material rules for the headcount and teams, added up.
  * Consumables (sticky notes, paper, dots, snacks, water) are summed over the items; things used
  * again (markers, tape, projector, tablet, whiteboard, timer) take the largest any one item needs.
- * Quantities are rounded up to whole units; lines that come to nothing are left out.
+ * Quantities are rounded up to whole units; lines that come to nothing are left out. Refuses a headcount
+ * or team count that is not a whole number of 0 or more (RangeError naming it).
  * @example packingList(items, 18, 3).find((l) => l.key === 'dot_stickers')?.quantity // 162 for 3 dots × 2 criteria
  */
 export function packingList(items: AgendaItem[], headcount: number, teamCount: number): PackingLine[] {
+  whole('The headcount', headcount);
+  whole('The number of teams', teamCount);
   const lines = new Map<MaterialKey, { quantity: number; sources: Set<string>; usedBy: Set<string> }>();
   for (const item of items) {
     for (const rule of ACTIVITY_LIBRARY[item.type].materials) {

@@ -1,9 +1,11 @@
 import { competitionRanks } from './tally';
+import { atLeast } from './numbers';
 
 /**
  * One voter's preference order, most preferred first; `weight` (default 1) counts it as that many voters.
  * An option missing from `ranking` ranks below every listed one, tied with the other missing ones;
- * unknown ids and repeats (after the first) are ignored.
+ * unknown ids and repeats (after the first) are ignored. A weight that is not a finite number of 0 or more
+ * is refused (RangeError) by every count below.
  */
 export type Ballot = { ranking: string[]; weight?: number };
 
@@ -28,6 +30,11 @@ function positions(optionIndex: Map<string, number>, ballot: Ballot): { pos: num
   return { pos: pos.map((p) => (p === -1 ? listed : p)), listed };
 }
 
+/** A ballot's weight, refused unless it is a finite number of 0 or more. */
+function weightOf(ballot: Ballot): number {
+  return atLeast('A ballot’s weight', ballot.weight ?? 1, 0);
+}
+
 function indexOf(options: string[]): Map<string, number> {
   return new Map(options.map((o, i) => [o, i]));
 }
@@ -45,7 +52,7 @@ export function pairwiseMatrix(options: string[], ballots: Ballot[]): number[][]
   const n = options.length;
   const d = square(n);
   for (const ballot of ballots) {
-    const weight = ballot.weight ?? 1;
+    const weight = weightOf(ballot);
     const { pos } = positions(index, ballot);
     for (let i = 0; i < n; i++) {
       for (let j = 0; j < n; j++) if (pos[i] < pos[j]) d[i][j] += weight;
@@ -75,7 +82,7 @@ export function borda(options: string[], ballots: Ballot[]): BordaRow[] {
   const n = options.length;
   const points = new Array<number>(n).fill(0);
   for (const ballot of ballots) {
-    const weight = ballot.weight ?? 1;
+    const weight = weightOf(ballot);
     const { pos, listed } = positions(index, ballot);
     const missingShare = (n - listed - 1) / 2; // average of the points n−listed−1 … 0
     for (let i = 0; i < n; i++) {

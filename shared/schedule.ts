@@ -3,6 +3,7 @@ import { ACTIVITY_LIBRARY, PHASE_LABELS, isBreakItem } from './activities';
 import { Phase, type AgendaItem } from './schemas/agenda-item';
 import type { DayWindow, RuleSettings } from './schemas/day-window';
 import { percentText } from './words';
+import { atLeast, finite } from './numbers';
 
 /** The rules of the trade a plan can break. */
 export const ScheduleWarningCode = z.enum([
@@ -68,20 +69,25 @@ export const CORE_PHASES: readonly Phase[] = ['empathize', 'define', 'ideate', '
 const PHASE_ORDER: readonly Phase[] = Phase.options.filter((p) => p !== 'break');
 
 /**
- * Minutes since midnight of a `HH:MM` clock time.
+ * Minutes since midnight of a `HH:MM` clock time; refuses anything but a time of day (00:00–23:59), e.g. "25:99".
  * @example toMinutes('09:30') // 570
  */
 export function toMinutes(clock: string): number {
   const match = /^(\d{1,2}):(\d{2})$/.exec(clock);
   if (!match) throw new RangeError(`Not a HH:MM time: ${clock}`);
-  return Number(match[1]) * 60 + Number(match[2]);
+  const hours = Number(match[1]);
+  const minutes = Number(match[2]);
+  if (hours > 23 || minutes > 59) throw new RangeError(`Not a time of day: ${clock} (hours 00–23, minutes 00–59)`);
+  return hours * 60 + minutes;
 }
 
 /**
  * The `HH:MM` clock time of minutes since midnight, rounded to the minute and wrapped past midnight.
+ * Refuses minutes that are not a finite number.
  * @example toClock(570) // '09:30'
  */
 export function toClock(min: number): string {
+  finite('Minutes since midnight', min);
   const day = 24 * 60;
   const m = ((Math.round(min) % day) + day) % day;
   return `${String(Math.floor(m / 60)).padStart(2, '0')}:${String(m % 60).padStart(2, '0')}`;
@@ -93,12 +99,16 @@ export function toClock(min: number): string {
  * "Day too short": the window cannot hold, at their shortest, one activity of each phase the agenda
  * uses (the shortest of the agenda's own items of that phase; with no activities yet, the shortest
  * library activity of each of the five core phases). Opening and closing count when used.
+ * Refuses a window that ends at or before its start (the load would read "Infinity %") and a timebox
+ * that is not a finite number of 0 or more (RangeError naming it).
  * @example computeSchedule(items, { doorsOpen: '09:00', doorsClose: '17:00', start: '10:00', end: '16:00' }, rules)
  */
 export function computeSchedule(items: AgendaItem[], window: DayWindow, rules: RuleSettings): Schedule {
   const startMin = toMinutes(window.start);
   const endMin = toMinutes(window.end);
   const windowMin = endMin - startMin;
+  if (windowMin <= 0) throw new RangeError(`The workshop ends at ${window.end}, not after it starts at ${window.start}`);
+  for (const item of items) atLeast(`The timebox of “${item.title}”`, item.timeboxMin, 0);
 
   let t = startMin;
   const scheduled: ScheduledItem[] = items.map((item) => {
@@ -108,7 +118,7 @@ export function computeSchedule(items: AgendaItem[], window: DayWindow, rules: R
   });
   const plannedMin = t - startMin;
   // Multiply first: 306 × 100 / 360 is exactly 85, where 306 / 360 × 100 is not.
-  const loadPct = windowMin > 0 ? (plannedMin * 100) / windowMin : Infinity;
+  const loadPct = (plannedMin * 100) / windowMin;
   const fullDay = windowMin >= rules.fullDayMin;
 
   const warnings: ScheduleWarning[] = [];
@@ -221,13 +231,14 @@ export function computeSchedule(items: AgendaItem[], window: DayWindow, rules: R
 
 /**
  * The fewest minutes a day needs: for each phase the agenda's activities use, the shortest minimum
- * timebox among them; with no activities, the shortest library activity of each core phase.
+ * timebox among them; with no activities, the shortest library activity of each core phase. Ignores a
+ * minimum timebox that is not a finite number of 0 or more (that item does not count).
  * @example shortestDayMin([]) // sum over empathize … test of the library's shortest minimums
  */
 export function shortestDayMin(items: AgendaItem[]): number {
   const byPhase = new Map<Phase, number>();
   for (const item of items) {
-    if (isBreakItem(item)) continue;
+    if (isBreakItem(item) || !(Number.isFinite(item.minTimeboxMin) && item.minTimeboxMin >= 0)) continue;
     byPhase.set(item.phase, Math.min(byPhase.get(item.phase) ?? Infinity, item.minTimeboxMin));
   }
   if (byPhase.size === 0) {

@@ -1,20 +1,22 @@
+import { finite } from './numbers';
+
 // Local time here is the local time of whoever computes it: the venue's laptop or the console's tablet, which share the room's clock.
 
-/** The local calendar date of a moment, as the workshop's date is written (YYYY-MM-DD). */
+/** The local calendar date of a moment, as the workshop's date is written (YYYY-MM-DD); refuses a moment that is not a finite number. */
 export function localDateOf(epochMs: number): string {
-  const d = new Date(epochMs);
+  const d = new Date(finite('The moment', epochMs));
   return `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, '0')}-${String(d.getDate()).padStart(2, '0')}`;
 }
 
-/** Minutes since local midnight of a moment (fractions kept). */
+/** Minutes since local midnight of a moment (fractions kept); refuses a moment that is not a finite number. */
 export function minutesOfDay(epochMs: number): number {
-  const d = new Date(epochMs);
+  const d = new Date(finite('The moment', epochMs));
   return d.getHours() * 60 + d.getMinutes() + d.getSeconds() / 60 + d.getMilliseconds() / 60_000;
 }
 
-/** A session as people name it: "Rehearsal" or "The day", with when it started (local time). */
+/** A session as people name it: "Rehearsal" or "The day", with when it started (local time); refuses a start that is not a finite number. */
 export function sessionName(kind: 'rehearsal' | 'day', startedAt: number): string {
-  const d = new Date(startedAt);
+  const d = new Date(finite('The start', startedAt));
   const when = `${localDateOf(startedAt)} ${String(d.getHours()).padStart(2, '0')}:${String(d.getMinutes()).padStart(2, '0')}`;
   return `${kind === 'rehearsal' ? 'Rehearsal' : 'The day'} · ${when}`;
 }

@@ -1,5 +1,6 @@
 import type { Criterion } from './schemas/agenda-item';
 import { countOf } from './words';
+import { finite, whole } from './numbers';
 
 /** The rules of one dot vote, e.g. `{ dotsPerVoter: 5, capPerOption: 2, allowStacking: true, criteria: [] }`. */
 export type DotVoteRules = {
@@ -20,7 +21,7 @@ export type Dot = { voterId: string; optionId: string; criterionId: string; coun
 export type DotChange = { optionId: string; criterionId: string; delta: number };
 
 /** Why a dot change was refused. */
-export type BallotErrorCode = 'budget_exceeded' | 'cap_exceeded' | 'stacking_off' | 'negative' | 'unknown_criterion';
+export type BallotErrorCode = 'budget_exceeded' | 'cap_exceeded' | 'stacking_off' | 'negative' | 'unknown_criterion' | 'not_a_count';
 
 /** The answer of {@link checkBallot}. */
 export type BallotCheck = { ok: true } | { ok: false; code: BallotErrorCode; message: string };
@@ -74,17 +75,21 @@ function criterionLabel(rules: DotVoteRules, criterionId: string): string {
 /**
  * Whether one voter may make a dot change, given the dots they already hold; the budget is per criterion.
  * The server calls it inside the transaction that writes the change; taking dots back is always allowed
- * down to zero.
+ * down to zero. Refuses (`not_a_count`) a change that is not a whole number of dots; dots already held
+ * whose count is not a whole number are ignored.
  * @example checkBallot(rules, myDots, { optionId: 'o1', criterionId: 'overall', delta: 1 })
  */
 export function checkBallot(rules: DotVoteRules, existingDotsOfVoter: Dot[], change: DotChange): BallotCheck {
+  if (!Number.isInteger(change.delta)) {
+    return { ok: false, code: 'not_a_count', message: 'Add or take back whole dots.' };
+  }
   if (!criterionIds(rules).includes(change.criterionId)) {
     return { ok: false, code: 'unknown_criterion', message: 'This vote has no such criterion.' };
   }
   let onOption = 0;
   let spent = 0;
   for (const dot of existingDotsOfVoter) {
-    if (dot.criterionId !== change.criterionId) continue;
+    if (dot.criterionId !== change.criterionId || !Number.isInteger(dot.count)) continue;
     spent += dot.count;
     if (dot.optionId === change.optionId) onOption += dot.count;
   }
@@ -122,19 +127,23 @@ export function checkBallot(rules: DotVoteRules, existingDotsOfVoter: Dot[], cha
  * common range, published guides; the Dotmocracy handbook's "about a quarter of the options" falls in it
  * for 12–20 options), and never more than half the options, so a vote still separates them (Cairn's own
  * limit), and at least 1. Gives 1 for up to 3 options, 2 for 4–5, 3 for 6–10, 4 for 11–13, 5 from 14 on.
+ * Refuses a number of options that is not a whole number of 0 or more.
  * @example suggestDotsPerVoter(12) // 4
  */
 export function suggestDotsPerVoter(optionCount: number): number {
+  whole('The number of options', optionCount);
   const third = Math.round(optionCount / 3);
   const common = Math.min(5, Math.max(3, third));
   return Math.max(1, Math.min(common, Math.floor(optionCount / 2)));
 }
 
 /**
- * Standard competition ranks ("1224") of scores, higher first, in the order given.
+ * Standard competition ranks ("1224") of scores, higher first, in the order given. Refuses a score that
+ * is not a finite number (NaN has no place in an order: [3, NaN, 5] would otherwise rank 1, 2, 3).
  * @example competitionRanks([5, 9, 5, 2]) // [2, 1, 2, 4]
  */
 export function competitionRanks(scores: number[]): number[] {
+  scores.forEach((score, i) => finite(`Score ${i + 1}`, score));
   const sorted = [...scores].sort((a, b) => b - a);
   const firstIndex = new Map<number, number>();
   sorted.forEach((score, i) => {
@@ -175,7 +184,8 @@ function rowsFrom(optionIds: string[], counts: Map<string, number>, margin: Near
 
 /**
  * Counts the dots per criterion and over all criteria (the sum of every criterion's dots).
- * Dots on options or criteria not listed are ignored (e.g. an option removed after voting).
+ * Dots on options or criteria not listed are ignored (e.g. an option removed after voting), and so are
+ * dots whose count is not a whole number.
  * @example tallyDots(['a', 'b'], ['overall'], dots).overall[0] // { optionId: 'a', dots: 7, rank: 1, ... }
  */
 export function tallyDots(
@@ -189,7 +199,7 @@ export function tallyDots(
   const overallCounts = new Map<string, number>();
   for (const dot of dots) {
     const counts = perCriterionCounts.get(dot.criterionId);
-    if (!counts || !options.has(dot.optionId)) continue;
+    if (!counts || !options.has(dot.optionId) || !Number.isInteger(dot.count)) continue;
     counts.set(dot.optionId, (counts.get(dot.optionId) ?? 0) + dot.count);
     overallCounts.set(dot.optionId, (overallCounts.get(dot.optionId) ?? 0) + dot.count);
   }
@@ -203,13 +213,16 @@ export function tallyDots(
 /**
  * The top N of a tally, with Cairn's tie policy: options whose whole tie group fits in the top N are
  * selected; a tie group that straddles the cut-off is returned in `tiedAtCutoff` for the facilitator to
- * break, and none of it is selected; `policy` says so in words for the console.
+ * break, and none of it is selected; `policy` says so in words for the console. Refuses an N that is not a
+ * whole number of 0 or more, and rows whose rank is not a whole number of 1 or more.
  * @example selectTopN(rows, 3) // { selected: ['a', 'b'], tiedAtCutoff: ['c', 'd'], policy: '…' }
  */
 export function selectTopN(
   rows: TallyRow[],
   n: number,
 ): { selected: string[]; tiedAtCutoff: string[]; policy: string } {
+  whole('N', n);
+  for (const row of rows) whole(`The rank of ${row.optionId}`, row.rank, 1);
   const ordered = [...rows].sort((a, b) => a.rank - b.rank);
   const groupSize = new Map<number, number>();
   for (const row of ordered) groupSize.set(row.rank, (groupSize.get(row.rank) ?? 0) + 1);
@@ -242,7 +255,8 @@ export function selectTopN(
 
 /**
  * Who of the voters present has voted, and how many of their dots are still unspent (over every criterion).
- * Dots of voters who are not present are not counted, so the rate stays between 0 and 1.
+ * Dots of voters who are not present are not counted, so the rate stays between 0 and 1; dots whose count
+ * is not a whole number are ignored; a budget (dotsPerVoter) that is not a whole number is refused.
  * @example participation(['v1', 'v2'], dots, rules) // { voters: 2, voted: 1, rate: 0.5, dotsLeft: 7 }
  */
 export function participation(
@@ -250,12 +264,13 @@ export function participation(
   dots: Dot[],
   rules: DotVoteRules,
 ): { voters: number; voted: number; rate: number; dotsLeft: number } {
+  whole('Dots per voter', rules.dotsPerVoter);
   const present = new Set(voterIds);
   const criteria = criterionIds(rules);
   const spent = new Map<string, number>(); // `${voterId}\u0000${criterionId}` → dots
   const votedIds = new Set<string>();
   for (const dot of dots) {
-    if (!present.has(dot.voterId) || !criteria.includes(dot.criterionId) || dot.count <= 0) continue;
+    if (!present.has(dot.voterId) || !criteria.includes(dot.criterionId) || !Number.isInteger(dot.count) || dot.count <= 0) continue;
     votedIds.add(dot.voterId);
     const key = `${dot.voterId}\u0000${dot.criterionId}`;
     spent.set(key, (spent.get(key) ?? 0) + dot.count);

@@ -1,8 +1,12 @@
+import { finite } from './numbers';
+
 /**
- * A count with its noun, singular for exactly one: `countOf(1, 'option')` is "1 option".
+ * A count with its noun, singular for exactly one: `countOf(1, 'option')` is "1 option". Refuses a count
+ * that is not a finite number (it would read "NaN dots").
  * @example countOf(4, 'dot') // '4 dots'
  */
 export function countOf(n: number, word: string, pluralWord = `${word}s`): string {
+  finite('A count', n);
   return `${n} ${n === 1 ? word : pluralWord}`;
 }
 
@@ -25,10 +29,13 @@ export function fillDots(prompt: string, dots: number | null | undefined): strin
 }
 
 /**
- * A percentage with a no-break space before the sign, so "85 %" never breaks across two lines.
+ * A percentage with a no-break space before the sign, so "85 %" never breaks across two lines. Refuses a
+ * value that is not a finite number (it would read "Infinity %") and digits that are not a whole number.
  * @example percentText(85.04, 1) // '85\u00a0%'
  */
 export function percentText(value: number, digits = 0): string {
+  finite('A percentage', value);
+  if (!Number.isInteger(digits) || digits < 0 || digits > 10) throw new RangeError(`Digits must be a whole number from 0 to 10, not ${digits}`);
   const f = 10 ** digits;
   return `${Math.round(value * f) / f}\u00a0%`;
 }

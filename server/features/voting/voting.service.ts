@@ -61,6 +61,7 @@ const BALLOT_ERROR: Record<BallotErrorCode, ErrorCode> = {
   stacking_off: 'cap_exceeded',
   negative: 'bad_request',
   unknown_criterion: 'bad_request',
+  not_a_count: 'bad_request',
 };
 
 /** Who asks for results: the facilitators see them any time, everyone else once they are revealed. */
