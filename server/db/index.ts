@@ -58,6 +58,12 @@ export interface Database {
    * It runs inside the group commit's transaction, before its writes, so they read afresh.
    */
   onExternalChange(fn: () => void): void;
+  /**
+   * Leaves no copy of deleted or overwritten rows in the files: copies the WAL into the database and
+   * empties it, rewrites the database (VACUUM: no free pages that still hold old rows), and empties
+   * the WAL again. Runs in the writer queue, alone.
+   */
+  scrub(): Promise<void>;
   close(): Promise<void>;
 }
 
@@ -118,6 +124,8 @@ export async function openDatabase(storage: string): Promise<Database> {
       // Per connection: in WAL mode NORMAL syncs at checkpoints, not at every commit; a killed
       // process loses nothing committed (only a power cut can lose the last transactions).
       conn.run('PRAGMA synchronous=NORMAL');
+      // Deleted rows are overwritten with zeros, not left in free space (personal data must go from the file).
+      conn.run('PRAGMA secure_delete=ON');
       conn.__cairn = true;
     }
     return conn;
@@ -147,6 +155,7 @@ export async function openDatabase(storage: string): Promise<Database> {
   await sequelize.query('PRAGMA journal_mode=WAL');
   await sequelize.query('PRAGMA synchronous=NORMAL');
   await sequelize.query('PRAGMA foreign_keys=ON');
+  await sequelize.query('PRAGMA secure_delete=ON');
 
   const umzug = new Umzug({
     migrations: MIGRATIONS.map((mig) => ({ name: mig.name, up: mig.up, down: mig.down })),
@@ -254,6 +263,38 @@ export async function openDatabase(storage: string): Promise<Database> {
         new Promise<void>((resolve, reject) => conn.run(sql, params, (err: Error | null) => (err ? reject(err) : resolve()))),
     };
   };
+  const scrub = () =>
+    new Promise<void>((resolve, reject) => {
+      pending.push({
+        solo: true,
+        run: async () => {
+          try {
+            const conn = (writer ??= prepare(await getConnection({ uuid: 'cairn-writer' })));
+            // VACUUM refuses to run while statements of its connection are open: they are prepared again when next used.
+            for (const st of statements.values()) await new Promise<void>((r) => st.finalize(() => r()));
+            statements.clear();
+            const all = (sql: string) =>
+              new Promise<Record<string, number>[]>((res, rej) => conn.all(sql, [], (err: Error | null, rows: Record<string, number>[]) => (err ? rej(err) : res(rows))));
+            const checkpoint = async () => {
+              // TRUNCATE waits (busy handler) for readers of older snapshots; busy=1 means it could not finish yet.
+              for (let tries = 0; tries < 50; tries++) {
+                const [row] = await all('PRAGMA wal_checkpoint(TRUNCATE)');
+                if (!row?.busy) return;
+                await new Promise((r) => setTimeout(r, 20));
+              }
+              throw new Error('the write-ahead log could not be emptied');
+            };
+            await checkpoint();
+            await all('VACUUM');
+            await checkpoint();
+            resolve();
+          } catch (err) {
+            reject(err);
+          }
+        },
+      });
+      void drain();
+    });
   const beforeCommit = (t: Transaction, fn: () => Promise<void>) => {
     const hooks = commitHooks.get(t);
     if (hooks) hooks.push(fn);
@@ -267,6 +308,7 @@ export async function openDatabase(storage: string): Promise<Database> {
     batchTx,
     raw,
     beforeCommit,
+    scrub,
     onExternalChange: (fn: () => void) => {
       externalListeners.push(fn);
     },

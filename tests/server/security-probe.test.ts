@@ -2,6 +2,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { Op } from 'sequelize';
 import { parse } from 'csv-parse/sync';
 import { bearer, createStranger, demoUserId, demoWorkshop, liveDay, startTestApp, type TestApp } from './helpers';
 import { DEMO_ACCOUNTS } from '../../server/db/seed';
@@ -274,6 +275,71 @@ describe('invitations (probe item 3)', () => {
     expect((await t.agent.patch(`/api/users/${made.body.user.id}`).set('Authorization', bearer(admin)).send({ role: 'facilitator' })).status).toBe(200);
     const again = await t.signIn(email, 'a long enough password');
     expect((await t.agent.post('/api/workshops').set('Authorization', bearer(again)).send({ title: 'Harbour Lane: mine', objective: 'x', date: '2027-03-14', headcount: 4 })).status).toBe(201);
+  });
+});
+
+describe('deleting personal data (probe items 9 and 13)', () => {
+  /** Every file under a folder, at any depth. */
+  function filesUnder(dir: string): string[] {
+    return fs.readdirSync(dir, { withFileTypes: true, recursive: true }).filter((e) => e.isFile()).map((e) => path.join(e.parentPath, e.name));
+  }
+
+  /** The files under the data folder whose raw bytes hold any of the strings (as UTF-8, the encoding Cairn's database uses). */
+  function filesHolding(dir: string, needles: string[]): string[] {
+    return filesUnder(dir).flatMap((file) => {
+      const bytes = fs.readFileSync(file);
+      return needles.filter((n) => bytes.includes(Buffer.from(n, 'utf8'))).map((n) => `${path.relative(dir, file)}: ${n}`);
+    });
+  }
+
+  it('removes names and addresses from the raw bytes of every file of the data folder (item 9)', async () => {
+    const own = await startTestApp();
+    try {
+      // Names and addresses no demo text contains, so any copy of them in the files is the participants'.
+      const names = ['Zephyrine Quillfeather', 'Octavian Brightwater'];
+      const emails = ['zephyrine.q@harbourlane.example', 'octavian.b@harbourlane.example'];
+      const day = await liveDay(own, {
+        title: 'Harbour Lane: retention',
+        phones: names.map((displayName) => ({ displayName })),
+        teams: [{ name: 'Team Dock', challenge: null, phones: [0, 1] }],
+        notes: [
+          { type: 'insights', phone: 0, text: 'The dock beeped twice' },
+          { type: 'insights', phone: 1, text: 'Nobody knew where to ride first' },
+        ],
+        stop: false,
+      });
+      for (const [i, phone] of day.phones.entries()) {
+        const left = await own.agent.put('/api/participant/report-email').set('Authorization', bearer(phone.answer.token)).send({ email: emails[i] });
+        expect(left.status).toBe(200);
+      }
+      const stopped = await own.agent.post(`/api/workshops/${day.workshopId}/live/stop`).set('Authorization', bearer(day.ownerToken));
+      expect(stopped.status).toBe(200);
+      const needles = [...names, ...emails];
+      expect(filesHolding(own.dataDir, needles).length, 'the names are in the files before the deletion').toBeGreaterThan(0);
+
+      const deleted = await own.agent.post(`/api/workshops/${day.workshopId}/retention/delete-now`).set('Authorization', bearer(day.ownerToken)).send({ confirm: true });
+      expect(deleted.status, JSON.stringify(deleted.body)).toBe(200);
+      expect(deleted.body.held).toEqual({ names: 0, addresses: 0, photos: 0 });
+      // The database, its -wal and -shm, uploads and anything else in the data folder.
+      expect(filesUnder(own.dataDir).some((f) => f.endsWith('-wal') || f.endsWith('.sqlite'))).toBe(true);
+      expect(filesHolding(own.dataDir, needles)).toEqual([]);
+    } finally {
+      await own.close();
+    }
+  });
+
+  it("keeps a participant's token from putting an address back after the deletion (item 13)", async () => {
+    const day = await liveDay(t, { title: 'Harbour Lane: after deletion', phones: [{ displayName: 'Ana Lima' }], notes: [] });
+    const phone = day.phones[0]!.answer.token;
+    const deleted = await t.agent.post(`/api/workshops/${day.workshopId}/retention/delete-now`).set('Authorization', bearer(day.ownerToken)).send({ confirm: true });
+    expect(deleted.status).toBe(200);
+    // The phone's token still opens its own data page, but cannot bring an address back.
+    expect((await t.agent.get('/api/participant/data').set('Authorization', bearer(phone))).status).toBe(200);
+    const again = await t.agent.put('/api/participant/report-email').set('Authorization', bearer(phone)).send({ email: 'ana@harbourlane.example' });
+    expect(again.status).toBe(409);
+    expect(again.body.error.message).toMatch(/deleted/);
+    expect(await t.cairn.ctx.db.models.Participant.count({ where: { sessionId: day.sessionId, email: { [Op.ne]: null } } })).toBe(0);
+    expect((await t.agent.get(`/api/workshops/${day.workshopId}/retention`).set('Authorization', bearer(day.ownerToken))).body.held.addresses).toBe(0);
   });
 });
 

@@ -135,6 +135,8 @@ export class RetentionService {
       return toRemove;
     });
     await this.removeFiles(files);
+    // The rows are changed, but older copies of them stay in the write-ahead log and in free pages until scrubbed.
+    await this.ctx.db.scrub();
     this.ctx.logger.info({ workshopId, photos: files.length }, 'deleted the personal data of a workshop');
     return this.status(workshopId);
   }
@@ -192,6 +194,10 @@ export class RetentionService {
     await this.ctx.db.writeTx(async (transaction) => {
       const p = await this.ctx.db.models.Participant.findByPk(participantId, { transaction });
       if (!p || p.sessionId !== sessionId) throw errors.forbidden('You are not in this session any more; join again');
+      // After "delete personal data" a participant's token still works for a while: it must not bring an address back.
+      if (email !== null && p.deviceId.startsWith(ERASED_DEVICE_PREFIX)) {
+        throw new AppError(409, 'conflict', "This workshop's personal data has been deleted; Cairn keeps no addresses for it any more");
+      }
       p.email = email;
       await p.save({ transaction });
     });
