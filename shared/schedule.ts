@@ -14,6 +14,9 @@ export const ScheduleWarningCode = z.enum([
   'talk_too_long',
   'overruns_window',
   'day_too_short',
+  'pinned_overlap',
+  'idle_end',
+  'lunch_off_midday',
 ]);
 /** A schedule warning's code. */
 export type ScheduleWarningCode = z.infer<typeof ScheduleWarningCode>;
@@ -22,6 +25,8 @@ export type ScheduleWarningCode = z.infer<typeof ScheduleWarningCode>;
 export interface ScheduleWarning {
   code: ScheduleWarningCode;
   itemIds: string[];
+  /** The one item beside which the agenda says the message (the others are only marked). */
+  atItemId?: string;
   message: string;
   origin: string;
 }
@@ -33,12 +38,16 @@ export interface ScheduledItem {
   endMin: number;
   start: string;
   end: string;
+  /** Idle minutes before the item: the gap a pinned item leaves after the item before it. */
+  bufferBeforeMin: number;
+  /** The item starts at a pinned clock time rather than after the item before. */
+  pinned: boolean;
 }
 
 /** The computed day: item times, load against the window, and the rules the plan breaks. */
 export interface Schedule {
   items: ScheduledItem[];
-  /** Sum of all timeboxes, breaks included. */
+  /** Sum of all timeboxes, breaks included (buffers before pinned items are slack, not planned time). */
   plannedMin: number;
   /** Minutes from the window's start to its end. */
   windowMin: number;
@@ -48,6 +57,13 @@ export interface Schedule {
   fullDay: boolean;
   warnings: ScheduleWarning[];
 }
+
+/** Idle minutes at the end of the window above which Cairn warns (common practice: about an hour of slack). */
+export const IDLE_END_MIN = 90;
+/** On a full day lunch starts in this span (common practice). */
+export const LUNCH_FROM = '11:30';
+/** On a full day lunch starts in this span (common practice). */
+export const LUNCH_TO = '14:00';
 
 /** Where each rule comes from, shown beside the warning. */
 export const RULE_ORIGINS: Record<ScheduleWarningCode, string> = {
@@ -60,6 +76,9 @@ export const RULE_ORIGINS: Record<ScheduleWarningCode, string> = {
   overruns_window: 'the day window set in the brief',
   day_too_short:
     'common practice: each phase the day covers needs at least one activity, at its shortest',
+  pinned_overlap: 'the clock time the item is pinned to (e.g. when the catering arrives)',
+  idle_end: `common practice: keep about an hour of slack at the end; more than ${IDLE_END_MIN} min leaves the room idle`,
+  lunch_off_midday: `common practice: on a full day, lunch starts between ${LUNCH_FROM} and ${LUNCH_TO}`,
 };
 
 /** The phases a design day needs when the agenda is still empty. */
@@ -110,13 +129,25 @@ export function computeSchedule(items: AgendaItem[], window: DayWindow, rules: R
   if (windowMin <= 0) throw new RangeError(`The workshop ends at ${window.end}, not after it starts at ${window.start}`);
   for (const item of items) atLeast(`The timebox of “${item.title}”`, item.timeboxMin, 0);
 
+  // Items run back to back from the start; a pinned item starts at its clock time, leaving a buffer
+  // when the items before it end earlier, and overlapping them (a warning) when they end later.
   let t = startMin;
-  const scheduled: ScheduledItem[] = items.map((item) => {
-    const s = t;
-    t += item.timeboxMin;
-    return { id: item.id, startMin: s, endMin: t, start: toClock(s), end: toClock(t) };
+  const overlaps: { item: AgendaItem; pinnedMin: number; runsUntil: number; first: boolean }[] = [];
+  const scheduled: ScheduledItem[] = items.map((item, i) => {
+    let s = t;
+    let bufferBeforeMin = 0;
+    const pinned = !!item.pinnedAt;
+    if (item.pinnedAt) {
+      const p = toMinutes(item.pinnedAt);
+      if (p >= t) bufferBeforeMin = p - t;
+      else overlaps.push({ item, pinnedMin: p, runsUntil: t, first: i === 0 });
+      s = p;
+    }
+    const e = s + item.timeboxMin;
+    t = Math.max(t, e);
+    return { id: item.id, startMin: s, endMin: e, start: toClock(s), end: toClock(e), bufferBeforeMin, pinned };
   });
-  const plannedMin = t - startMin;
+  const plannedMin = items.reduce((sum, item) => sum + item.timeboxMin, 0);
   // Multiply first: 306 × 100 / 360 is exactly 85, where 306 / 360 × 100 is not.
   const loadPct = (plannedMin * 100) / windowMin;
   const fullDay = windowMin >= rules.fullDayMin;
@@ -151,17 +182,41 @@ export function computeSchedule(items: AgendaItem[], window: DayWindow, rules: R
     }
   }
 
+  for (const o of overlaps) {
+    warn(
+      'pinned_overlap',
+      [o.item.id],
+      o.first
+        ? `“${o.item.title}” is pinned at ${toClock(o.pinnedMin)}, before the workshop starts at ${window.start}.`
+        : `“${o.item.title}” is pinned at ${toClock(o.pinnedMin)}, but the items before it run until ${toClock(o.runsUntil)}: ` +
+            `${o.runsUntil - o.pinnedMin} min overlap. Shorten or move an item before it.`,
+    );
+  }
+
   // Stretches of activities between breaks.
   let stretch: AgendaItem[] = [];
   let stretchMin = 0;
   const closeStretch = () => {
     if (stretchMin > rules.maxStretchMin) {
       const from = scheduled[items.indexOf(stretch[0]!)]!;
-      warn(
-        'no_break_stretch',
-        stretch.map((i) => i.id),
-        `${stretchMin} min without a break from ${from.start}, longer than ${rules.maxStretchMin} min. Add a break.`,
-      );
+      // A break fits after the last item that still ends within the limit (or after the first item).
+      let fit = stretch[0]!;
+      let sum = 0;
+      for (const item of stretch) {
+        sum += item.timeboxMin;
+        if (sum > rules.maxStretchMin) break;
+        fit = item;
+      }
+      const at = scheduled[items.indexOf(fit)]!;
+      warnings.push({
+        code: 'no_break_stretch',
+        itemIds: stretch.map((i) => i.id),
+        atItemId: fit.id,
+        message:
+          `${stretchMin} min without a break from ${from.start}, longer than ${rules.maxStretchMin} min. ` +
+          `A break would fit after “${fit.title}” (ends ${at.end}).`,
+        origin: RULE_ORIGINS.no_break_stretch,
+      });
     }
     stretch = [];
     stretchMin = 0;
@@ -189,6 +244,21 @@ export function computeSchedule(items: AgendaItem[], window: DayWindow, rules: R
     }
   }
 
+  if (fullDay) {
+    const [from, to] = [toMinutes(LUNCH_FROM), toMinutes(LUNCH_TO)];
+    for (const [i, item] of items.entries()) {
+      if (item.type !== 'lunch') continue;
+      const at = scheduled[i]!;
+      if (at.startMin < from || at.startMin > to) {
+        warn(
+          'lunch_off_midday',
+          [item.id],
+          `“${item.title}” starts at ${at.start}, outside ${LUNCH_FROM}–${LUNCH_TO}. Pin it to a time around midday.`,
+        );
+      }
+    }
+  }
+
   for (const item of items) {
     if (ACTIVITY_LIBRARY[item.type].talkOnly && item.timeboxMin > rules.maxTalkMin) {
       warn(
@@ -205,6 +275,15 @@ export function computeSchedule(items: AgendaItem[], window: DayWindow, rules: R
       'overruns_window',
       scheduled.filter((s) => s.endMin > endMin).map((s) => s.id),
       `The plan ends at ${toClock(t)}, ${t - endMin} min after the workshop should end at ${window.end}.`,
+    );
+  }
+
+  if (items.length > 0 && endMin - t > IDLE_END_MIN) {
+    warn(
+      'idle_end',
+      [],
+      `The plan ends at ${toClock(t)}, ${endMin - t} min before the workshop ends at ${window.end}. ` +
+        'Plan more, or end the day earlier.',
     );
   }
 

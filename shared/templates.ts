@@ -20,6 +20,7 @@ interface ItemOverrides {
   timeboxMin?: number;
   prompt?: string;
   settings?: ActivitySettings;
+  pinnedAt?: string;
 }
 
 // A template item from the library's defaults; a shorter timebox gets a minimum of two thirds of it.
@@ -34,6 +35,7 @@ function step(type: ActivityType, overrides: ItemOverrides = {}): Omit<AgendaIte
     minTimeboxMin: def.isBreak ? timeboxMin : Math.min(def.minTimeboxMin, defaultMinTimebox(timeboxMin)),
     prompt: overrides.prompt ?? def.defaultPrompt,
     settings: { ...structuredClone(def.defaultSettings), ...overrides.settings },
+    ...(overrides.pinnedAt ? { pinnedAt: overrides.pinnedAt } : {}),
   };
 }
 
@@ -84,10 +86,10 @@ const FULL_DAY: AgendaTemplate = {
       title: 'How might we questions',
       prompt: 'Turn a need into a question: How might we [do something] for {people} so that [outcome]?',
     }),
-    step('lunch'),
+    step('lunch', { pinnedAt: '12:00' }),
     step('dot_vote', {
       title: 'Pick the challenges',
-      prompt: 'Spend your {dots} on the questions you most want to work on.',
+      prompt: 'Spend your {dots} dots on the questions you most want to work on.',
     }),
     step('team_sort', {
       title: 'Form the teams',
@@ -158,7 +160,7 @@ const HALF_DAY: AgendaTemplate = {
     }),
     step('dot_vote', {
       title: 'Pick the challenges',
-      prompt: 'Spend your {dots} on the questions you most want to work on.',
+      prompt: 'Spend your {dots} dots on the questions you most want to work on.',
     }),
     step('team_sort', {
       title: 'Form the teams',
@@ -230,7 +232,7 @@ export function fillTemplateText(text: string, fill: TemplateFill): string {
 /**
  * The prompt as the results and the report show it: a dot vote's count of dots ("{dots}", "three
  * dots") follows the item's budget, as the live screens do (fillDots).
- * @example showPrompt({ type: 'dot_vote', prompt: 'Spend your {dots}', settings: { dotsPerVoter: 5 } }) // 'Spend your 5 dots'
+ * @example showPrompt({ type: 'dot_vote', prompt: 'Spend your {dots} dots', settings: { dotsPerVoter: 5 } }) // 'Spend your 5 dots'
  */
 export function showPrompt(item: Pick<AgendaItem, 'type' | 'prompt' | 'settings'>): string {
   if (item.type !== 'dot_vote') return item.prompt;

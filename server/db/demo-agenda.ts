@@ -52,7 +52,7 @@ const DEMO_WORDING: { type: AgendaItem['type']; title: string; prompt: string }[
   {
     type: 'dot_vote',
     title: 'Pick the challenges',
-    prompt: 'Spend your {dots} on the questions you most want to work on this afternoon.',
+    prompt: 'Spend your {dots} dots on the questions you most want to work on this afternoon.',
   },
   {
     type: 'team_sort',

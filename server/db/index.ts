@@ -11,6 +11,7 @@ import * as m0004 from './migrations/0004-activities';
 import * as m0005 from './migrations/0005-voting';
 import * as m0006 from './migrations/0006-retention';
 import * as m0007 from './migrations/0007-session-kind';
+import * as m0008 from './migrations/0008-pinned-items';
 
 /** Versioned migrations, in order; add a file and a line here for each schema change. */
 export const MIGRATIONS = [
@@ -21,6 +22,7 @@ export const MIGRATIONS = [
   { name: '0005-voting', ...m0005 },
   { name: '0006-retention', ...m0006 },
   { name: '0007-session-kind', ...m0007 },
+  { name: '0008-pinned-items', ...m0008 },
 ];
 
 /** An open Cairn database: Sequelize, its models and a serialised writer. */

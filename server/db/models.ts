@@ -75,6 +75,8 @@ export interface AgendaItemRow extends Model<InferAttributes<AgendaItemRow>, Inf
   minTimeboxMin: number;
   prompt: string;
   settings: ActivitySettings;
+  /** A clock time the item is pinned to (`HH:MM`), or null to follow the item before. */
+  pinnedAt: CreationOptional<string | null>;
   createdAt: CreationOptional<Date>;
   updatedAt: CreationOptional<Date>;
 }
@@ -361,6 +363,7 @@ export function defineModels(sequelize: Sequelize): Models {
       minTimeboxMin: { type: DataTypes.INTEGER, allowNull: false },
       prompt: { type: DataTypes.TEXT, allowNull: false },
       settings: { type: DataTypes.JSON, allowNull: false },
+      pinnedAt: { type: DataTypes.STRING(5), allowNull: true, defaultValue: null },
       ...timestamps,
     },
     { tableName: 'agenda_items' },

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { ClockTime } from './day-window';
 
 /** Every activity type Cairn can put on an agenda (the trade's names, plus Cairn's own). */
 export const ActivityType = z.enum([
@@ -92,6 +93,8 @@ export const AgendaItem = z.object({
   /** What the phones show. */
   prompt: z.string().max(1000),
   settings: ActivitySettings,
+  /** A clock time the item starts at whatever runs before it (lunch when the catering comes); absent: after the item before. */
+  pinnedAt: ClockTime.nullish(),
 });
 /** One timeboxed item of a workshop's agenda. */
 export type AgendaItem = z.infer<typeof AgendaItem>;

@@ -197,6 +197,25 @@ describe('the agenda', () => {
     expect((await agendaOf(w.id))[2]).toMatchObject({ id, title: 'Ride-along interviews', timeboxMin: 40 });
   });
 
+  it('pins an item to a clock time, unpins it, refuses a time that is not one, and copies with a told-apart title', async () => {
+    const w = await ownWorkshop('full-day');
+    const index = w.agenda.findIndex((i: AgendaItem) => i.type === 'lunch');
+    const { id, ...lunch } = w.agenda[index];
+    // The full-day template pins lunch at 12:00 (common practice: lunch 11:30–14:00 on a full day).
+    expect(lunch.pinnedAt).toBe('12:00');
+    const later = await as(owner).put(`/api/workshops/${w.id}/agenda/${id}`, { ...lunch, pinnedAt: '12:30' });
+    expect(later.status).toBe(200);
+    const plan = await as(owner).get(`/api/workshops/${w.id}/plan`);
+    // The morning ends at 12:00 (template counted by hand), so 30 min of buffer before lunch at 12:30.
+    expect(plan.body.schedule.items[index]).toMatchObject({ start: '12:30', bufferBeforeMin: 30, pinned: true });
+    const loose = await as(owner).put(`/api/workshops/${w.id}/agenda/${id}`, { ...lunch, pinnedAt: null });
+    expect(loose.body.pinnedAt).toBeUndefined();
+    const bad = await as(owner).put(`/api/workshops/${w.id}/agenda/${id}`, { ...lunch, pinnedAt: '25:99' });
+    expect(bad.status).toBe(400);
+    const copy = await as(owner).post(`/api/workshops/${w.id}/agenda/${w.agenda[0].id}/duplicate`);
+    expect(copy.body.title).toBe(`${w.agenda[0].title} (copy)`);
+  });
+
   it('refuses an update with a shortest timebox above the timebox, or a timebox of 0', async () => {
     const w = await ownWorkshop();
     const { id, ...item } = w.agenda[2];
@@ -224,7 +243,8 @@ describe('the agenda', () => {
     expect(res.body.id).not.toBe(source.id);
     const { id: _a, ...copy } = res.body;
     const { id: _b, ...original } = source;
-    expect(copy).toEqual(original);
+    // Everything is copied but the title, which tells the copy from the original.
+    expect(copy).toEqual({ ...original, title: `${original.title} (copy)` });
     const agenda = await agendaOf(w.id);
     expect(agenda).toHaveLength(w.agenda.length + 1);
     expect(agenda[4].id).toBe(res.body.id);

@@ -252,7 +252,7 @@ describe('computeSchedule', () => {
     const items = [item('sketch', 320), item('welcome', 40), item('lunch', 20)];
     const s = computeSchedule(items, FULL_DAY, rules);
     expect(new Set(s.warnings.map((w) => w.code))).toEqual(
-      new Set(['load_above_ceiling', 'phases_out_of_order', 'no_break_stretch', 'short_lunch', 'talk_too_long', 'overruns_window']),
+      new Set(['load_above_ceiling', 'phases_out_of_order', 'no_break_stretch', 'short_lunch', 'talk_too_long', 'overruns_window', 'lunch_off_midday']),
     );
     for (const w of s.warnings) {
       expect(w.message.length).toBeGreaterThan(10);
@@ -260,3 +260,58 @@ describe('computeSchedule', () => {
     }
   });
 });
+
+describe('pinned items (times counted by hand)', () => {
+  it('flows around a pinned lunch: a gap before it is a buffer, later items follow it', () => {
+    // 09:00–16:00; 3 × 60 min from 09:00 end at 12:00; lunch pinned at 12:30 → 30 min buffer,
+    // lunch 12:30–13:15, then 60 min 13:15–14:15.
+    const w: DayWindow = { doorsOpen: '08:30', doorsClose: '17:00', start: '09:00', end: '16:00' };
+    const items = [item('sketch', 60), item('break', 15), item('sketch', 45), item('lunch', 45, { pinnedAt: '12:30' }), item('storyboard', 60)];
+    const s = computeSchedule(items, w, { ...rules, maxStretchMin: 90 });
+    expect(s.items.map((x) => `${x.start}-${x.end}`)).toEqual(['09:00-10:00', '10:00-10:15', '10:15-11:00', '12:30-13:15', '13:15-14:15']);
+    expect(s.items.map((x) => x.bufferBeforeMin)).toEqual([0, 0, 0, 90, 0]);
+    expect(s.items[3]!.pinned).toBe(true);
+    // Planned time counts timeboxes only: 60 + 15 + 45 + 45 + 60 = 225 of 420 min.
+    expect(s.plannedMin).toBe(225);
+    expect(s.endsAt).toBe('14:15');
+    // 16:00 − 14:15 = 105 min idle at the end, above the 90 min of the idle-end rule (common practice).
+    expect(s.warnings.map((x) => x.code)).toContain('idle_end');
+    expect(s.warnings.map((x) => x.code)).not.toContain('pinned_overlap');
+  });
+
+  it('warns when the items before a pinned item run into it', () => {
+    // 10:00 + 150 min = 12:30, lunch pinned at 12:00 → 30 min overlap; lunch 12:00–12:45; next from 12:45.
+    const items = [item('sketch', 80), item('break', 15), item('sketch', 55), item('lunch', 45, { pinnedAt: '12:00' }), item('closing', 10)];
+    const s = computeSchedule(items, FULL_DAY, rules);
+    expect(s.items[3]).toMatchObject({ start: '12:00', end: '12:45', bufferBeforeMin: 0 });
+    expect(s.items[4]).toMatchObject({ start: '12:45', end: '12:55' });
+    const overlap = s.warnings.find((x) => x.code === 'pinned_overlap')!;
+    expect(overlap.itemIds).toEqual([items[3]!.id]);
+    expect(overlap.message).toMatch(/run until 12:30: 30 min overlap/);
+  });
+
+  it('moving the day keeps a pinned lunch at its time (the day 09:00–16:00)', () => {
+    const w: DayWindow = { doorsOpen: '08:30', doorsClose: '17:00', start: '09:00', end: '16:00' };
+    const unpinned = [item('sketch', 60), item('break', 15), item('sketch', 45), item('lunch', 45), item('storyboard', 60)];
+    // Unpinned, lunch runs on from the morning: 09:00 + 120 = 11:00, before 11:30 (common practice: lunch 11:30–14:00).
+    const off = computeSchedule(unpinned, w, rules);
+    expect(off.items[3]!.start).toBe('11:00');
+    const lunchWarning = off.warnings.find((x) => x.code === 'lunch_off_midday')!;
+    expect(lunchWarning.message).toMatch(/starts at 11:00, outside 11:30–14:00/);
+    const pinned = unpinned.map((x) => (x.type === 'lunch' ? { ...x, pinnedAt: '12:00' } : x));
+    const on = computeSchedule(pinned, w, rules);
+    expect(on.items[3]!.start).toBe('12:00');
+    expect(on.warnings.map((x) => x.code)).not.toContain('lunch_off_midday');
+  });
+
+  it('says a stretch without a break once, with where a break would fit', () => {
+    // 40 + 30 + 30 + 20 = 120 min from 10:00, over 90; 40 + 30 = 70 fits, 40 + 30 + 30 = 100 does not:
+    // a break fits after the second item, which ends at 11:10.
+    const items = [item('interview', 40), item('empathy_map', 30), item('insights', 30), item('how_might_we', 20)];
+    const w = computeSchedule(items, FULL_DAY, rules).warnings.filter((x) => x.code === 'no_break_stretch');
+    expect(w).toHaveLength(1);
+    expect(w[0]!.atItemId).toBe(items[1]!.id);
+    expect(w[0]!.message).toMatch(/A break would fit after “.+” \(ends 11:10\)/);
+  });
+});
+

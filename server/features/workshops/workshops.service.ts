@@ -21,7 +21,9 @@ import { AgendaItem, type ActivityType, type AgendaItemInput } from '../../../sh
 const DEFAULT_WINDOW = { doorsOpen: '09:00', doorsClose: '17:00', start: '10:00', end: '16:00' };
 
 /** The columns of an agenda item row that the shared schema describes. */
-export type AgendaItemFields = Pick<AgendaItemRow, 'id' | 'type' | 'phase' | 'title' | 'timeboxMin' | 'minTimeboxMin' | 'prompt' | 'settings'>;
+export type AgendaItemFields = Pick<AgendaItemRow, 'id' | 'type' | 'phase' | 'title' | 'timeboxMin' | 'minTimeboxMin' | 'prompt' | 'settings'> & {
+  pinnedAt?: string | null;
+};
 
 /** An agenda item row as the shared schema describes it. */
 export function toAgendaItem(row: AgendaItemFields): AgendaItem {
@@ -34,6 +36,7 @@ export function toAgendaItem(row: AgendaItemFields): AgendaItem {
     minTimeboxMin: row.minTimeboxMin,
     prompt: row.prompt,
     settings: row.settings ?? {},
+    ...(row.pinnedAt ? { pinnedAt: row.pinnedAt } : {}),
   });
 }
 
@@ -193,7 +196,8 @@ export class WorkshopsService {
   /** Replaces an item's fields. */
   async updateItem(workshopId: string, itemId: string, input: AgendaItemInput): Promise<AgendaItem> {
     const row = await this.itemRow(workshopId, itemId);
-    await row.update({ ...input });
+    // An input without a pinned time unpins the item: the dialog sends the whole item.
+    await row.update({ ...input, pinnedAt: input.pinnedAt ?? null });
     return toAgendaItem(row);
   }
 
