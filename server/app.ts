@@ -201,6 +201,7 @@ export async function createApp(config: Config): Promise<CairnApp> {
   watchAccountChanges(io, ctx);
   const teams = new TeamsService(ctx);
   teams.attach(io);
+  voting.useTeams(teams);
   activities.attach(io);
   voting.attach(io);
   const participantSockets = new ParticipantSockets();

@@ -107,6 +107,8 @@ export interface ClientToServerEvents {
   'vote:sources': (payload: Record<string, never>, ack: AckFn<VoteSources>) => void;
   /** Console: Cairn's teams from the current team sort, to adjust and confirm with `teams:set`. */
   'teams:propose': (payload: z.input<typeof ProposeTeamsPayload>, ack: AckFn<TeamProposal>) => void;
+  /** Console: confirm a team sort's teams (as adjusted): sets them, closes the vote and records the confirmation. */
+  'teams:confirm': (payload: z.input<typeof SetTeamsPayload>, ack: AckFn<Team[]>) => void;
   /** Any screen: what an activity shows of an item (a phone: its own and its team's notes; others: the room's, no names, nothing hidden). */
   'activity:board': (payload: z.input<typeof ActivityPayloads.item>, ack: AckFn<ActivityBoard>) => void;
   /** Console: every note of an item with names, hidden and merged ones, themes and promotions, to moderate. */
@@ -195,6 +197,7 @@ export const COMMAND_ACCESS = {
   'vote:choose': 'runner',
   'vote:sources': 'runner',
   'teams:propose': 'runner',
+  'teams:confirm': 'runner',
   'activity:board': 'screen',
   'notes:list': 'runner',
   'notes:hide': 'runner',

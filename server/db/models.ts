@@ -161,6 +161,8 @@ export interface TeamRow extends Model<InferAttributes<TeamRow>, InferCreationAt
   name: string;
   challenge: string | null;
   position: number;
+  /** When teams were formed again and this one gave way (it stays, so earlier activities keep its name); `null` for a current team. */
+  retiredAt: CreationOptional<Date | null>;
   createdAt: CreationOptional<Date>;
   updatedAt: CreationOptional<Date>;
 }
@@ -467,6 +469,7 @@ export function defineModels(sequelize: Sequelize): Models {
       name: str(60),
       challenge: { type: DataTypes.TEXT, allowNull: true },
       position: { type: DataTypes.INTEGER, allowNull: false },
+      retiredAt: { type: DataTypes.DATE, allowNull: true, defaultValue: null },
       ...timestamps,
     },
     { tableName: 'teams' },

@@ -153,7 +153,10 @@ export const VoteView = z.object({
   ready: z.boolean(),
   options: z.array(VoteOption),
   rules: VoteRules,
-  /** The options carried forward once the facilitator confirmed the top N (dot and preference votes). */
+  /**
+   * The options carried forward once the facilitator confirmed the top N (dot and preference votes);
+   * for a team sort, its challenges once the facilitator confirmed the teams (`null` until then).
+   */
   chosen: z.array(z.string()).nullable(),
   mine: MyBallot.nullable(),
 });
@@ -264,8 +267,23 @@ export type TeamProposal = z.infer<typeof TeamProposal>;
 
 /** What the facilitator may turn into options: earlier notes of the session and earlier votes' chosen options. */
 export const VoteSources = z.object({
+  /**
+   * The notes and themes the facilitators promoted to options of a later vote, in the order promoted:
+   * offered first. A note is taken by its `submissionId`, a theme by its name (`text`).
+   */
+  promoted: z.array(
+    z.object({
+      promotionId: z.string(),
+      sourceKind: z.enum(['note', 'theme']),
+      submissionId: z.string().nullable(),
+      itemId: z.string(),
+      itemTitle: z.string(),
+      text: z.string(),
+    }),
+  ),
+  /** Earlier notes, newest first; `promoted` marks those promoted to a vote. */
   notes: z.array(
-    z.object({ submissionId: z.string(), itemId: z.string(), itemTitle: z.string(), kind: z.string(), text: z.string() }),
+    z.object({ submissionId: z.string(), itemId: z.string(), itemTitle: z.string(), kind: z.string(), text: z.string(), promoted: z.boolean() }),
   ),
   winners: z.array(z.object({ itemId: z.string(), itemTitle: z.string(), texts: z.array(z.string()) })),
 });

@@ -3,6 +3,7 @@ import { computed, ref, shallowRef } from 'vue';
 import { ClockSync } from '../../shared/clock';
 import type { Ack, ClientToServerEvents } from '../../shared/events';
 import type { LiveState, Me, ParticipantView, ScreenState, SubmissionInput, SubmissionView } from '../../shared/schemas/live';
+import type { Team } from '../../shared/schemas/team';
 import { connectSocket, type CairnSocket } from '../socket/client';
 import { newId } from '../socket/ids';
 
@@ -30,6 +31,8 @@ export const useLiveStore = defineStore('live', () => {
   const ended = ref(false);
   const me = ref<Me | null>(null);
   const participants = ref<ParticipantView[]>([]);
+  /** The session's current teams (the console's room list names them). */
+  const teams = ref<Team[]>([]);
   const submissions = ref<SubmissionView[]>([]);
   const lastMessage = ref<{ id: string; text: string; sentAt: number } | null>(null);
   const offsetMs = ref(0);
@@ -210,6 +213,12 @@ export const useLiveStore = defineStore('live', () => {
     // The account lost its rights while this screen was open (signed out, disabled, removed): say why.
     s.on('access:revoked', (p) => (connectError.value = p.message));
     s.on('participants:updated', (p) => (participants.value = p));
+    s.on('teams:updated', (t) => {
+      teams.value = t;
+      // The room list follows at once: everyone's team is in the new teams (or none).
+      const teamOf = new Map(t.flatMap((team) => team.members.map((m) => [m.id, team.id] as const)));
+      participants.value = participants.value.map((p) => ({ ...p, teamId: teamOf.get(p.id) ?? null }));
+    });
     s.on('submission:created', (sub) => {
       if (!submissions.value.some((x) => x.id === sub.id)) submissions.value = [...submissions.value, sub];
     });
@@ -225,6 +234,7 @@ export const useLiveStore = defineStore('live', () => {
     ended.value = false;
     me.value = null;
     participants.value = [];
+    teams.value = [];
     submissions.value = [];
     lastMessage.value = null;
     outbox.value = [];
@@ -252,7 +262,9 @@ export const useLiveStore = defineStore('live', () => {
 
   /** The console's list of who is in the room. */
   async function loadParticipants(): Promise<void> {
-    participants.value = await ask<ParticipantView[]>('participants:list', {});
+    const [people, formed] = await Promise.all([ask<ParticipantView[]>('participants:list', {}), ask<Team[]>('teams:list', {})]);
+    participants.value = people;
+    teams.value = formed;
   }
 
   /** The submissions of an item so far (console). */
@@ -275,6 +287,7 @@ export const useLiveStore = defineStore('live', () => {
     ended,
     me,
     participants,
+    teams,
     submissions,
     lastMessage,
     offsetMs,

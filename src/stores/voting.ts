@@ -252,7 +252,7 @@ export const useVotingStore = defineStore('voting', () => {
 
   /** Confirms teams (after any moves the facilitator made). */
   async function confirmTeams(payload: { teams: { name: string; challenge: string; memberIds: string[] }[] }): Promise<void> {
-    teams.value = await ask<Team[]>('teams:set', payload);
+    teams.value = await ask<Team[]>('teams:confirm', payload);
   }
 
   return {

@@ -2,9 +2,10 @@ import fs from 'node:fs/promises';
 import crypto from 'node:crypto';
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { bearer, commandData, liveDay, nextEvent, startTestApp, type LiveDay, type TestApp } from './helpers';
+import { bearer, command, commandData, liveDay, nextEvent, startTestApp, type LiveDay, type TestApp } from './helpers';
 import { WorkshopResults, voteScoreLabel, type ResultSection } from '../../shared/schemas/results';
 import { feedbackOfRound } from '../../shared/schemas/activities';
+import { mergeTeams, suggestTeamCount, teamSizeWarnings } from '../../shared/team-size';
 
 // Each activity hands the next what it made, and each change reaches every screen (the invented Harbour Lane Bike Co-op).
 let t: TestApp;
@@ -205,5 +206,104 @@ describe('rules the screens share', () => {
     ];
     expect(feedbackOfRound(notes, 0).map((n) => n.text)).toEqual(['round 1', 'no round: the first']);
     expect(feedbackOfRound(notes, 1).map((n) => n.text)).toEqual(['round 2']);
+  });
+});
+
+describe('teams through the day', () => {
+  it('keeps the names of the teams each activity ran with after a team sort, and confirming closes the sort', async () => {
+    const day = await liveDay(t, {
+      phones: ['Ana Lima', 'Ben Okafor', 'Chidi Brandt', 'Dora Wilde', 'Emil Sato'].map((displayName) => ({ displayName })),
+      teams: [
+        { name: 'Team Dock', challenge: null, phones: [0, 1, 2] },
+        { name: 'Team Route', challenge: null, phones: [3, 4] },
+      ],
+      notes: [
+        { type: 'empathy_map', phone: 0, part: 'says_does', text: 'I never know which dock is free' },
+        { type: 'empathy_map', phone: 3, part: 'says_does', text: 'The first ride felt long' },
+      ],
+      stop: false,
+    });
+    await commandData(day.owner, 'session:goto', { index: indexOf(day, 'team_sort') });
+    const vote = await commandData(day.owner, 'vote:setup', { options: [{ text: 'Find a free dock' }, { text: 'Make unlocking obvious' }] });
+    await commandData(day.owner, 'vote:open', {});
+    const [dock, unlock] = vote.options.map((o) => o.id) as [string, string];
+    for (const [i, p] of day.phones.entries()) {
+      await commandData(p.socket, 'vote:rank', { clientId: `r-${crypto.randomUUID()}`, ranking: i < 3 ? [dock, unlock] : [unlock, dock] });
+    }
+    // While the room ranks, the sort has no confirmed teams: phones show none for it.
+    expect((await commandData(day.phones[0]!.socket, 'vote:state', {})).chosen).toBeNull();
+    const proposal = await commandData(day.owner, 'teams:propose', {});
+    const heard = nextEvent(day.phones[0]!.socket, 'vote:updated', (v) => v.status === 'closed', 1000);
+    const teams = await commandData(day.owner, 'teams:confirm', {
+      teams: proposal.teams.map((team, i) => ({ name: `Team ${i + 1}`, challenge: team.challenge, memberIds: team.memberIds })),
+    });
+    expect(teams.map((team) => team.name)).toEqual(['Team 1', 'Team 2']);
+    // Voting closes with the confirmation, and the confirmation is kept for a console that reloads.
+    expect((await heard).chosen).toEqual([dock, unlock]);
+    const state = await commandData(day.owner, 'vote:state', {});
+    expect([state.status, state.chosen]).toEqual(['closed', [dock, unlock]]);
+    const late = await command(day.phones[0]!.socket, 'vote:rank', { clientId: `r-${crypto.randomUUID()}`, ranking: [unlock, dock] });
+    expect('error' in late).toBe(true);
+    expect((await commandData(day.owner, 'teams:list', {})).map((team) => team.name)).toEqual(['Team 1', 'Team 2']);
+
+    const r = await results(day);
+    const map = sections(r, 'empathy_map', 'notes')[0]!;
+    expect(map.byTeam.map((g) => [g.label, g.notes.map((n) => n.text)])).toEqual([
+      ['Team Dock', ['I never know which dock is free']],
+      ['Team Route', ['The first ride felt long']],
+    ]);
+    expect(r.teams.map((team) => [team.name, team.challenge])).toEqual([
+      ['Team 1', 'Find a free dock'],
+      ['Team 2', 'Make unlocking obvious'],
+    ]);
+  });
+
+  it('suggests the teams formed, else the plan’s number, and warns outside 3–7 people with a merge to offer', () => {
+    // Common practice (university design-thinking guides): teams of 3–7, ideally 5, at most 4 in a room.
+    expect(suggestTeamCount({ people: 5, planned: 3, current: 0 })).toBe(3);
+    expect(suggestTeamCount({ people: 5, planned: 3, current: 2 })).toBe(2);
+    expect(suggestTeamCount({ people: 18 })).toBe(4);
+    expect(suggestTeamCount({ people: 5 })).toBe(1);
+    expect(teamSizeWarnings([2, 2, 1])).toEqual([
+      { index: 0, size: 2, problem: 'small', mergeInto: 2 },
+      { index: 1, size: 2, problem: 'small', mergeInto: 2 },
+      { index: 2, size: 1, problem: 'small', mergeInto: 0 },
+    ]);
+    expect(teamSizeWarnings([5, 5, 4])).toEqual([]);
+    expect(teamSizeWarnings([8, 3])).toEqual([{ index: 0, size: 8, problem: 'large', mergeInto: null }]);
+    expect(mergeTeams([['a', 'b'], ['c', 'd'], ['e']], 2, 0)).toEqual([['a', 'b', 'e'], ['c', 'd']]);
+  });
+});
+
+describe('promoted notes and themes in the next vote', () => {
+  it('offers what was promoted first, notes marked, themes by name, each ready to take', async () => {
+    const day = await liveDay(t, {
+      phones: [{ displayName: 'Ana Lima' }, { displayName: 'Ben Okafor' }],
+      notes: [
+        { type: 'insights', phone: 0, text: 'Unlocking took three tries' },
+        { type: 'insights', phone: 1, text: 'Nobody knew where to ride first' },
+        { type: 'insights', phone: 1, text: 'The dock beeped twice' },
+      ],
+      stop: false,
+    });
+    const item = day.agenda[indexOf(day, 'insights')]!.id;
+    const notes = (await commandData(day.owner, 'notes:list', { itemId: item })).notes;
+    const byText = (text: string) => notes.find((n) => n.text === text)!.id;
+    const theme = await commandData(day.owner, 'themes:create', { itemId: item, name: 'Docks confuse newcomers', noteIds: [byText('The dock beeped twice')] });
+    await commandData(day.owner, 'notes:promote', { sourceKind: 'note', sourceId: byText('Unlocking took three tries') });
+    await commandData(day.owner, 'notes:promote', { sourceKind: 'theme', sourceId: theme.id });
+
+    await commandData(day.owner, 'session:goto', { index: indexOf(day, 'dot_vote') });
+    const sources = await commandData(day.owner, 'vote:sources', {});
+    expect(sources.promoted.map((p) => [p.sourceKind, p.text, p.submissionId])).toEqual([
+      ['note', 'Unlocking took three tries', byText('Unlocking took three tries')],
+      ['theme', 'Docks confuse newcomers', null],
+    ]);
+    expect(sources.notes.filter((n) => n.promoted).map((n) => n.text)).toEqual(['Unlocking took three tries']);
+    // Taking them as the set-up does: a note by its id, a theme by its name.
+    const vote = await commandData(day.owner, 'vote:setup', {
+      options: sources.promoted.map((p) => (p.submissionId ? { submissionId: p.submissionId } : { text: p.text })),
+    });
+    expect(vote.options.map((o) => o.text)).toEqual(['Unlocking took three tries', 'Docks confuse newcomers']);
   });
 });

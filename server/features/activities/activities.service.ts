@@ -170,7 +170,7 @@ export class ActivitiesService {
           only(['hostTeamId', 'round']);
           if (input.part === undefined) throw refuse('File the feedback under one part of the grid');
           const host = await Team.findByPk(fields.hostTeamId ?? '', { transaction });
-          if (!host || host.sessionId !== participant.sessionId) throw refuse('Choose the team whose prototype you tested');
+          if (!host || host.sessionId !== participant.sessionId || host.retiredAt) throw refuse('Choose the team whose prototype you tested');
           if (host.id === participant.teamId) throw refuse('Test another team’s prototype, not your own team’s');
           if (fields.round !== undefined && !/^\d{1,2}$/.test(fields.round)) throw refuse('The round is a number');
           return;
@@ -511,7 +511,7 @@ export class ActivitiesService {
   async teams(sessionId: string): Promise<TeamRef[]> {
     const { Team, Participant } = this.ctx.db.models;
     const [teams, people] = await Promise.all([
-      Team.findAll({ where: { sessionId }, order: [['position', 'ASC']] }),
+      Team.findAll({ where: { sessionId, retiredAt: null }, order: [['position', 'ASC']] }),
       Participant.findAll({ where: { sessionId }, attributes: ['id', 'teamId', 'joinedAt'], order: [['joinedAt', 'ASC']] }),
     ]);
     return teams.map((t) => ({ id: t.id, name: t.name, memberIds: people.filter((p) => p.teamId === t.id).map((p) => p.id) }));

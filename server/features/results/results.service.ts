@@ -416,7 +416,8 @@ export function agendaAsRun(input: Pick<ResultsInput, 'workshop' | 'agenda' | 's
 
 /** Teams of every session covered with their challenges and members. */
 function teamResults(input: ResultsInput): TeamResult[] {
-  return input.teams.map((t) => ({
+  // Teams that gave way to later ones still name the notes of the activities they ran, but the day's teams are the last ones.
+  return input.teams.filter((t) => !t.retiredAt).map((t) => ({
     id: t.id,
     session: input.sessionNames.get(t.sessionId) ?? '',
     name: t.name,

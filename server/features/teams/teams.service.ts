@@ -20,7 +20,7 @@ export class TeamsService {
   async list(sessionId: string): Promise<Team[]> {
     const { Team: TeamModel, Participant } = this.ctx.db.models;
     const [teams, people] = await Promise.all([
-      TeamModel.findAll({ where: { sessionId }, order: [['position', 'ASC']] }),
+      TeamModel.findAll({ where: { sessionId, retiredAt: null }, order: [['position', 'ASC']] }),
       Participant.findAll({ where: { sessionId }, attributes: ['id', 'displayName', 'teamId', 'joinedAt'], order: [['joinedAt', 'ASC']] }),
     ]);
     return teams.map((t) => ({
@@ -52,7 +52,10 @@ export class TeamsService {
     return this.set(sessionId, { teams });
   }
 
-  /** Replaces the session's teams; everyone not named is left without a team. */
+  /**
+   * Replaces the session's teams; everyone not named is left without a team. The teams before stay,
+   * retired, so the activities they ran keep their names.
+   */
   async set(sessionId: string, payload: SetTeamsPayload): Promise<Team[]> {
     const { Team: TeamModel, Participant } = this.ctx.db.models;
     const seen = new Set<string>();
@@ -66,11 +69,11 @@ export class TeamsService {
       (await Participant.findAll({ where: { sessionId }, attributes: ['id'] })).map((p) => p.id),
     );
     if (![...seen].every((id) => known.has(id))) throw errors.badRequest('Every team member must have joined this session');
-    const oldIds = (await TeamModel.findAll({ where: { sessionId }, attributes: ['id'] })).map((t) => t.id);
+    const oldIds = (await TeamModel.findAll({ where: { sessionId, retiredAt: null }, attributes: ['id'] })).map((t) => t.id);
     const made = payload.teams.map((t, position) => ({ id: crypto.randomUUID(), ...t, position }));
     await this.ctx.db.writeTx(async (transaction) => {
       await Participant.update({ teamId: null }, { where: { sessionId }, transaction });
-      await TeamModel.destroy({ where: { sessionId }, transaction });
+      await TeamModel.update({ retiredAt: new Date() }, { where: { sessionId, retiredAt: null }, transaction });
       for (const t of made) {
         await TeamModel.create({ id: t.id, sessionId, name: t.name, challenge: t.challenge ?? null, position: t.position }, { transaction });
         if (t.memberIds.length) await Participant.update({ teamId: t.id }, { where: { sessionId, id: t.memberIds }, transaction });

@@ -20,6 +20,7 @@ import {
 } from '../../../shared/tally';
 import { borda, schulze } from '../../../shared/preference';
 import { sortIntoTeams } from '../../../shared/team-sort';
+import type { SetTeamsPayload, Team } from '../../../shared/schemas/team';
 import { fieldErrors, type ErrorCode } from '../../../shared/errors';
 import type { LiveItem, LiveState, ParticipantView } from '../../../shared/schemas/live';
 import {
@@ -185,6 +186,7 @@ function toView(row: VoteRow, mine: MyBallot | null): VoteView {
  */
 export class VotingService {
   private io: LiveIo | null = null;
+  private teamSetter: { set(sessionId: string, payload: SetTeamsPayload): Promise<Team[]> } | null = null;
   private tallyTicks = new Map<string, { timer: NodeJS.Timeout | null; lastAt: number; itemId: string }>();
   private closed = false;
   // The dot path is the hottest in a room (every phone, several times, within seconds), so it keeps
@@ -213,6 +215,11 @@ export class VotingService {
   /** Broadcasts through this socket.io server from now on. */
   attach(io: LiveIo): void {
     this.io = io;
+  }
+
+  /** Where a confirmed team sort sets its teams (server/features/teams). */
+  useTeams(teams: { set(sessionId: string, payload: SetTeamsPayload): Promise<Team[]> }): void {
+    this.teamSetter = teams;
   }
 
   /** Stops pending tally announcements (the app is shutting down). */
@@ -531,10 +538,11 @@ export class VotingService {
 
   /** What the facilitator may turn into options: earlier notes of the session and the options earlier votes carried forward. */
   async sources(sessionId: string): Promise<VoteSources> {
-    const { Submission, Vote, AgendaItem, LiveSession } = this.ctx.db.models;
+    const { Submission, Vote, AgendaItem, LiveSession, Promotion } = this.ctx.db.models;
     const session = await LiveSession.findByPk(sessionId, { attributes: ['id', 'workshopId'] });
     if (!session) throw errors.notFound('That live session');
-    const [notes, votes, items] = await Promise.all([
+    const [promotions, notes, votes, items] = await Promise.all([
+      Promotion.findAll({ where: { sessionId }, order: [['position', 'ASC']] }),
       Submission.findAll({
         where: { sessionId, hidden: false, kind: PROMOTABLE_KINDS },
         order: [['createdAt', 'DESC']],
@@ -545,8 +553,32 @@ export class VotingService {
       AgendaItem.findAll({ where: { workshopId: session.workshopId }, attributes: ['id', 'title'] }),
     ]);
     const title = new Map(items.map((i) => [i.id, i.title]));
+    const promotedNotes = new Set(promotions.filter((p) => p.sourceKind === 'note').map((p) => p.sourceId));
+    // A promoted note that was hidden since is not offered; themes are offered by their name as promoted.
+    const hidden = new Set(
+      promotedNotes.size
+        ? (await Submission.findAll({ where: { sessionId, id: [...promotedNotes], hidden: true }, attributes: ['id'] })).map((n) => n.id)
+        : [],
+    );
     return {
-      notes: notes.map((n) => ({ submissionId: n.id, itemId: n.itemId, itemTitle: title.get(n.itemId) ?? '', kind: n.kind, text: n.text })),
+      promoted: promotions
+        .filter((p) => !(p.sourceKind === 'note' && hidden.has(p.sourceId)))
+        .map((p) => ({
+          promotionId: p.id,
+          sourceKind: p.sourceKind,
+          submissionId: p.sourceKind === 'note' ? p.sourceId : null,
+          itemId: p.itemId,
+          itemTitle: title.get(p.itemId) ?? '',
+          text: p.text,
+        })),
+      notes: notes.map((n) => ({
+        submissionId: n.id,
+        itemId: n.itemId,
+        itemTitle: title.get(n.itemId) ?? '',
+        kind: n.kind,
+        text: n.text,
+        promoted: promotedNotes.has(n.id),
+      })),
       winners: votes
         .filter((v) => v.chosen && v.chosen.length > 0)
         .map((v) => ({
@@ -605,6 +637,30 @@ export class VotingService {
       await fresh.save({ transaction });
     });
     return proposal;
+  }
+
+  /**
+   * Confirms the current team sort's teams: sets them (every phone moves to its team), closes the
+   * vote so nobody's ranking moves any more, and records the confirmation (every challenge became a
+   * team), so a reloaded console shows the confirmed teams and phones show a team only from now on.
+   */
+  async confirmTeams(sessionId: string, payload: SetTeamsPayload): Promise<Team[]> {
+    if (!this.teamSetter) throw new Error('confirmTeams needs useTeams first');
+    const item = await this.currentVoteItem(sessionId);
+    const row = await this.readyVote(sessionId, item.id);
+    if (row.kind !== 'team_sort') throw errors.badRequest('Only a team sort confirms teams');
+    const teams = await this.teamSetter.set(sessionId, payload);
+    const saved = await this.ctx.db.writeTx(async (transaction) => {
+      this.forgetVotes();
+      const fresh = await this.ctx.db.models.Vote.findByPk(row.id, { transaction });
+      if (!fresh) throw errors.notFound('That vote');
+      fresh.status = 'closed';
+      setJson(fresh, 'chosen', fresh.options.map((o) => o.id));
+      await fresh.save({ transaction });
+      return fresh;
+    });
+    this.announce(saved);
+    return teams;
   }
 
   /**

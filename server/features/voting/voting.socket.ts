@@ -4,6 +4,7 @@ import type { LiveCommands, LiveSocket } from '../live/live.socket';
 import type { VotingService } from './voting.service';
 import { LivePayloads } from '../../../shared/events';
 import { ChoosePayload, DotPayload, ProposeTeamsPayload, RankPayload, VoteSetupPayload } from '../../../shared/schemas/voting';
+import { SetTeamsPayload } from '../../../shared/schemas/team';
 
 /**
  * Voting commands on a live socket: the facilitators set up, open, close and carry forward; phones
@@ -47,4 +48,5 @@ export function registerVotingSocket({ on, parse }: LiveCommands, voting: Voting
     return voting.sources(who.sessionId);
   });
   on('teams:propose', async (payload, who) => voting.propose(who.sessionId, parse(ProposeTeamsPayload, payload ?? {})));
+  on('teams:confirm', async (payload, who) => voting.confirmTeams(who.sessionId, parse(SetTeamsPayload, payload)));
 }
