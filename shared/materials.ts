@@ -12,6 +12,32 @@ export interface PackingLine {
   sources: string[];
   /** The agenda items that need it, in agenda order. */
   usedBy: string[];
+  /** How the quantity is made: each activity's share, in words and numbers, so it can be checked by hand. */
+  shares: { itemId: string; title: string; quantity: number; how: string }[];
+  /** Added up over the activities (used up), or the most any one activity needs (used again). */
+  adds: 'sum' | 'max';
+  /** Dot stickers when the votes run on the phones: a paper fallback, not a requirement. */
+  fallback: boolean;
+}
+
+// A factor as the packing list writes it: 1.5 stays 1.5, 2 stays 2.
+const num = (n: number) => String(Math.round(n * 100) / 100);
+
+// How one item's share of a material is made, in Cairn's words.
+function shareWords(rule: MaterialRule, item: AgendaItem, headcount: number, teamCount: number, quantity: number): string {
+  switch (rule.per) {
+    case 'person':
+      return `${num(rule.quantity)} × ${headcount} people = ${num(quantity)}`;
+    case 'team':
+      return `${num(rule.quantity)} × ${teamCount} teams = ${num(quantity)}`;
+    case 'fixed':
+      return `${num(quantity)} for the room`;
+    case 'voter_dot': {
+      const dots = item.settings.dotsPerVoter ?? ACTIVITY_LIBRARY[item.type].defaultSettings.dotsPerVoter ?? 1;
+      const criteria = Math.max(1, item.settings.criteria?.length ?? 0);
+      return `${dots} dots × ${criteria} ${criteria === 1 ? 'criterion' : 'criteria'} × ${headcount} people × ${num(rule.quantity)} (with spares) = ${num(quantity)}`;
+    }
+  }
 }
 
 // How much of a material one item asks for under one rule.
@@ -42,19 +68,20 @@ function ruleQuantity(rule: MaterialRule, item: AgendaItem, headcount: number, t
 export function packingList(items: AgendaItem[], headcount: number, teamCount: number): PackingLine[] {
   whole('The headcount', headcount);
   whole('The number of teams', teamCount);
-  const lines = new Map<MaterialKey, { quantity: number; sources: Set<string>; usedBy: Set<string> }>();
+  const lines = new Map<MaterialKey, { quantity: number; sources: Set<string>; usedBy: Set<string>; shares: PackingLine['shares'] }>();
   for (const item of items) {
     for (const rule of ACTIVITY_LIBRARY[item.type].materials) {
       if (rule.onlyIfSetting && item.settings[rule.onlyIfSetting] !== true) continue;
       const quantity = ruleQuantity(rule, item, headcount, teamCount);
       let line = lines.get(rule.item);
       if (!line) {
-        line = { quantity: 0, sources: new Set(), usedBy: new Set() };
+        line = { quantity: 0, sources: new Set(), usedBy: new Set(), shares: [] };
         lines.set(rule.item, line);
       }
       line.quantity = MATERIALS[rule.item].consumable ? line.quantity + quantity : Math.max(line.quantity, quantity);
       line.sources.add(rule.source);
       line.usedBy.add(item.id);
+      line.shares.push({ itemId: item.id, title: item.title, quantity, how: shareWords(rule, item, headcount, teamCount, quantity) });
     }
   }
   // Lines in the catalogue's order, so the list reads the same every time.
@@ -71,6 +98,10 @@ export function packingList(items: AgendaItem[], headcount: number, teamCount: n
         unit: MATERIALS[key].unit,
         sources: [...line.sources],
         usedBy: [...line.usedBy],
+        shares: line.shares,
+        adds: MATERIALS[key].consumable ? ('sum' as const) : ('max' as const),
+        // Cairn's dot votes run on the phones; the stickers are there if the room has to vote on paper.
+        fallback: key === 'dot_stickers',
       },
     ];
   });

@@ -178,3 +178,31 @@ describe('cautionsFor', () => {
     for (const x of c) expect(x.title.length).toBeGreaterThan(0);
   });
 });
+
+describe('why this many', () => {
+  it('says how the dot stickers are made, the criteria factor included (counted by hand)', () => {
+    // Common practice (a published facilitation guide): dots per voter × voters, plus 50 % spare;
+    // two criteria double the dots: 5 × 2 × 24 × 1.5 = 360.
+    const vote = { ...newAgendaItem('dot_vote', 'v1'), title: 'Pick the challenges', settings: { dotsPerVoter: 5, criteria: [{ id: 'impact', label: 'Impact' }, { id: 'effort', label: 'Effort' }] } };
+    const line = packingList([vote], 24, 3).find((l) => l.key === 'dot_stickers')!;
+    expect(line.quantity).toBe(360);
+    expect(line.shares).toEqual([{ itemId: 'v1', title: 'Pick the challenges', quantity: 360, how: '5 dots × 2 criteria × 24 people × 1.5 (with spares) = 360' }]);
+    expect(line.adds).toBe('sum');
+    // Votes run on the phones: paper dots are the fallback.
+    expect(line.fallback).toBe(true);
+    // The words on screen name no source.
+    for (const l of packingList([vote], 24, 3)) for (const s of l.shares) expect(s.how).not.toMatch(/guide|handbook|practice|d\.school/i);
+  });
+
+  it('adds the shares of used-up things and takes the largest of things used again', () => {
+    const a = { ...newAgendaItem('insights', 'a'), title: 'A' };
+    const b = { ...newAgendaItem('insights', 'b'), title: 'B' };
+    const lines = packingList([a, b], 10, 2);
+    for (const l of lines) {
+      const total = l.shares.reduce((sum, s) => sum + s.quantity, 0);
+      const most = Math.max(...l.shares.map((s) => s.quantity));
+      expect(l.quantity).toBe(Math.ceil(l.adds === 'sum' ? total : most));
+    }
+  });
+});
+
