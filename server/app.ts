@@ -5,7 +5,7 @@ import fs from 'node:fs';
 import helmet from 'helmet';
 import cookieParser from 'cookie-parser';
 import compression from 'compression';
-import { pino } from 'pino';
+import { pino, type DestinationStream, type Logger } from 'pino';
 import { pinoHttp } from 'pino-http';
 import { Server } from 'socket.io';
 import type { Config } from './config/env';
@@ -81,6 +81,65 @@ export function keepDataFolderPrivate(config: Config): void {
   }
 }
 
+/** Log fields that carry credentials (bearer tokens, refresh cookies), hidden by pino's `redact`. */
+export const LOG_REDACT_PATHS = [
+  'req.headers.authorization',
+  'req.headers.cookie',
+  'res.headers["set-cookie"]',
+  'headers.authorization',
+  'headers.cookie',
+  '*.token',
+  '*.accessToken',
+  '*.password',
+];
+
+/** Query parameters that carry a credential (display tokens in QR links, reset and invitation tokens). */
+const SECRET_PARAMS = /^(display|token|access_token|t)$/i;
+
+/**
+ * A request URL for the log, with the values of credential query parameters hidden.
+ * @example redactUrl('/projector/abc?display=eyJ...') // '/projector/abc?display=[hidden]'
+ */
+export function redactUrl(url: string): string {
+  const q = url.indexOf('?');
+  if (q < 0) return url;
+  const params = url
+    .slice(q + 1)
+    .split('&')
+    .map((pair) => {
+      const [name = ''] = pair.split('=', 1);
+      let decoded = name;
+      try {
+        decoded = decodeURIComponent(name);
+      } catch {
+        // A malformed name is logged as sent.
+      }
+      return SECRET_PARAMS.test(decoded) ? `${name}=[hidden]` : pair;
+    });
+  return `${url.slice(0, q)}?${params.join('&')}`;
+}
+
+/** Cairn's logger: pino at a level, credentials hidden (see {@link LOG_REDACT_PATHS}); to stdout unless a stream is given. */
+export function createLogger(level: Config['logLevel'], stream?: DestinationStream): Logger {
+  // Whatever logs a request or its headers: credentials never reach the log.
+  return pino({ level, redact: { paths: LOG_REDACT_PATHS, censor: '[hidden]' } }, stream);
+}
+
+/** Logs one short line a request at info (method, path with credentials hidden, status, time), errors at error; never headers. */
+export function requestLogger(logger: Logger, autoLogging: boolean) {
+  return pinoHttp({
+    logger,
+    autoLogging,
+    serializers: {
+      req: (req: { method?: string; url?: string }) => ({ method: req.method, url: redactUrl(req.url ?? '') }),
+      res: (res: { statusCode?: number }) => ({ statusCode: res.statusCode }),
+    },
+    customSuccessMessage: (req, res, ms) => `${req.method} ${redactUrl(req.url ?? '')} ${res.statusCode} ${Math.round(ms)} ms`,
+    customErrorMessage: (req, res) => `${req.method} ${redactUrl(req.url ?? '')} ${res.statusCode} failed`,
+    customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : 'info'),
+  });
+}
+
 /** Where the built client lives. */
 const DIST_DIR = path.resolve(import.meta.dirname, '..', 'dist');
 
@@ -89,7 +148,7 @@ const DIST_DIR = path.resolve(import.meta.dirname, '..', 'dist');
  * and socket handler. Never listens; `index.ts` does, and tests use the returned server.
  */
 export async function createApp(config: Config): Promise<CairnApp> {
-  const logger = pino({ level: config.logLevel });
+  const logger = createLogger(config.logLevel);
   keepDataFolderPrivate(config);
   const db = await openDatabase(config.databasePath);
   if (config.seedDemo) {
@@ -139,7 +198,7 @@ export async function createApp(config: Config): Promise<CairnApp> {
       strictTransportSecurity: config.publicUrl?.startsWith('https:') ?? false,
     }),
   );
-  app.use(pinoHttp({ logger, autoLogging: config.nodeEnv !== 'test' }));
+  app.use(requestLogger(logger, config.nodeEnv !== 'test'));
   // Dynamic answers (JSON, CSV, the report); the built client is compressed at build time (serveClient).
   app.use(compression());
   app.use(cookieParser());

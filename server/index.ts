@@ -14,7 +14,9 @@ async function main(): Promise<void> {
   const { logger } = cairn.ctx;
   await new Promise<void>((resolve) => cairn.server.listen(config.port, config.host, resolve));
   const local = `http://localhost:${config.port}`;
-  logger.info(`Cairn is running at ${local} (phones join at ${joinBaseUrl(config)})`);
+  logger.info(`Cairn is running at ${local}`);
+  // Its own line, so the address to put on the wall is easy to find.
+  logger.info(`Phones join at ${joinBaseUrl(config)}`);
   if (config.seedDemo) logger.info(`demo facilitator: ${DEMO_ACCOUNTS.facilitator.email} / ${DEMO_ACCOUNTS.facilitator.password}`);
   if (cairn.ctx.mail.dev) logger.info(`dev inbox: ${local}/dev/inbox (local SMTP on 127.0.0.1:${cairn.ctx.mail.dev.port})`);
 

@@ -3,6 +3,9 @@ import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Op } from 'sequelize';
+import express from 'express';
+import supertest from 'supertest';
+import { createLogger, redactUrl, requestLogger } from '../../server/app';
 import { parse } from 'csv-parse/sync';
 import { bearer, createStranger, demoUserId, demoWorkshop, liveDay, startTestApp, type TestApp } from './helpers';
 import { DEMO_ACCOUNTS } from '../../server/db/seed';
@@ -340,6 +343,34 @@ describe('deleting personal data (probe items 9 and 13)', () => {
     expect(again.body.error.message).toMatch(/deleted/);
     expect(await t.cairn.ctx.db.models.Participant.count({ where: { sessionId: day.sessionId, email: { [Op.ne]: null } } })).toBe(0);
     expect((await t.agent.get(`/api/workshops/${day.workshopId}/retention`).set('Authorization', bearer(day.ownerToken))).body.held.addresses).toBe(0);
+  });
+});
+
+describe('the server log (probe item 10)', () => {
+  it('logs one short line a request with no bearer token, cookie or display token, and hides credentials in anything else logged', async () => {
+    const lines: string[] = [];
+    const stream = { write: (line: string) => void lines.push(line) };
+    const logger = createLogger('info', stream);
+    const app = express();
+    app.use(requestLogger(logger, true));
+    app.get('/{*any}', (_req, res) => {
+      res.cookie('cairn_refresh', 'refresh-secret-value');
+      res.json({ ok: true });
+    });
+    const display = 'eyJhbGciOiJIUzI1NiJ9.display-secret.signature';
+    await supertest(app)
+      .get(`/projector/abc?display=${display}&view=wall`)
+      .set('Authorization', 'Bearer bearer-secret-value')
+      .set('Cookie', 'cairn_refresh=cookie-secret-value');
+    expect(lines).toHaveLength(1);
+    const entry = JSON.parse(lines[0]!) as { msg: string; level: number; req: unknown };
+    expect(entry.msg).toMatch(/^GET \/projector\/abc\?display=\[hidden\]&view=wall 200 \d+ ms$/);
+    expect(entry.level).toBe(30);
+    for (const secret of ['bearer-secret-value', 'cookie-secret-value', 'refresh-secret-value', 'display-secret']) expect(lines[0]).not.toContain(secret);
+    // Headers logged some other way are hidden too.
+    logger.info({ req: { headers: { authorization: 'Bearer bearer-secret-value', cookie: 'c=cookie-secret-value' } }, body: { token: 'reset-secret' } }, 'x');
+    expect(lines[1]).not.toMatch(/secret-value|reset-secret/);
+    expect(redactUrl('/join?token=abc&t=1&x=2')).toBe('/join?token=[hidden]&t=[hidden]&x=2');
   });
 });
 
