@@ -206,7 +206,7 @@ describe('password reset', () => {
   function resetTokenSentTo(email: string): string {
     const messages = t.cairn.ctx.mail.dev!.messages.filter((m) => m.to.includes(email));
     const text = messages.at(-1)?.text ?? '';
-    const link = /(https?:\/\/\S+\/reset-password\?token=(\S+))/.exec(text);
+    const link = /(https?:\/\/\S+\/reset-password\?token=([^&\s]+)\S*)/.exec(text);
     if (!link) throw new Error(`no reset link in: ${text}`);
     return decodeURIComponent(link[2]);
   }

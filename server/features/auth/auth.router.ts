@@ -224,7 +224,8 @@ export const RESET_MAILS_PER_HOUR = 5;
 async function sendResetLink(app: AppContext, auth: AuthService, email: string): Promise<void> {
   const started = await auth.startReset(email);
   if (!started) return;
-  const link = `${mailLinkBase(app.config)}/reset-password?token=${encodeURIComponent(started.token)}`;
+  // The address rides along so the page can say which account it resets (it goes only to that mailbox).
+  const link = `${mailLinkBase(app.config)}/reset-password?token=${encodeURIComponent(started.token)}&account=${encodeURIComponent(started.user.email)}`;
   await app.mail.send({
     to: started.user.email,
     subject: 'Reset your Cairn password',
