@@ -20,13 +20,15 @@ const INVISIBLE = /[\s\p{Cc}\p{Cf}\p{Z}\p{Default_Ignorable_Code_Point}]/gu;
 
 /**
  * Normalises text a person typed: Unicode NFC (Unicode Standard Annex #15), without bidi overrides
- * and control characters (line breaks and tabs kept when `multiline`), trimmed.
+ * and control characters (line breaks, as LF, and tabs kept when `multiline`), trimmed.
  * @example normaliseText('\u202Eadmin\u0007 ') // 'admin'
  */
 export function normaliseText(text: string, multiline = false): string {
   return text
     .normalize('NFC')
     .replace(BIDI_CONTROLS, '')
+    // A line break typed on another system (CRLF, or a lone CR) stays one line break.
+    .replace(/\r\n?/g, multiline ? '\n' : ' ')
     .replace(multiline ? CONTROLS_BUT_LINES : CONTROLS, '')
     .trim();
 }

@@ -3,6 +3,7 @@ import { parse } from 'csv-parse/sync';
 import { bearer, liveDay, startTestApp, type LiveDay, type TestApp } from './helpers';
 import { toCsv } from '../../server/features/results/export.service';
 import { WorkshopResults } from '../../shared/schemas/results';
+import { normaliseText } from '../../shared/text';
 
 // Notes that break naive CSV writers: commas, quotes, line breaks (LF and CRLF), non-Latin text, formulas.
 const HARD = [
@@ -17,6 +18,8 @@ const HARD = [
   '-5 minutes late, +2 bikes missing',
   '@front desk: inner   spaces\tand a tab',
 ];
+/** The notes as Cairn stores them: typed text is normalised (NFC, a CRLF line break kept as one LF). */
+const STORED = HARD.map((n) => normaliseText(n, true));
 
 /** OWASP "CSV Injection": a leading = + - @ (or tab, CR) gets an apostrophe; everything else is unchanged. */
 function neutralised(n: string): string {
@@ -116,7 +119,7 @@ describe('CSV exports (RFC 4180)', () => {
         '',
         'note',
         '',
-        neutralised(HARD[i]!),
+        neutralised(STORED[i]!),
         '',
         new Date(note.createdAt).toISOString(),
       ]);
@@ -128,9 +131,9 @@ describe('CSV exports (RFC 4180)', () => {
     const { raw, text } = await download('notes.csv', '?bom=true');
     expect([...raw.subarray(0, 3)]).toEqual([0xef, 0xbb, 0xbf]);
     const [, ...rows] = rfc4180(text);
-    expect(rows.map((row) => row[9])).toEqual(HARD.map(neutralised));
+    expect(rows.map((row) => row[9])).toEqual(STORED.map(neutralised));
     const [, ...rawRows] = rfc4180((await download('notes.csv', '?raw=true')).text);
-    expect(rawRows.map((row) => row[9])).toEqual(HARD);
+    expect(rawRows.map((row) => row[9])).toEqual(STORED);
   });
 
   it('removes names on request: authors and members become "Participant N"', async () => {
@@ -181,7 +184,7 @@ describe('CSV exports (RFC 4180)', () => {
     const { text, headers } = await download('results.json');
     expect(headers['content-type']).toMatch(/^application\/json/);
     const parsed = WorkshopResults.parse(JSON.parse(text));
-    expect(parsed.notes.map((n) => n.text)).toEqual(HARD);
+    expect(parsed.notes.map((n) => n.text)).toEqual(STORED);
     expect(parsed.workshop.title).toBe('Harbour Lane: exports');
     expect(parsed.agenda).toHaveLength(day.agenda.length);
   });

@@ -15,6 +15,12 @@ describe('normaliseText', () => {
   it('keeps line breaks and tabs in text that may run over several lines', () => {
     expect(normaliseText('Dock was full\n\tagain\u0008', true)).toBe('Dock was full\n\tagain');
   });
+
+  it('keeps a line break typed as CRLF or a lone CR as one LF, and as a space in one-line text', () => {
+    expect(normaliseText('Windows line\r\nbreak', true)).toBe('Windows line\nbreak');
+    expect(normaliseText('old\rline', true)).toBe('old\nline');
+    expect(normaliseText('Ana\r\nLima')).toBe('Ana Lima');
+  });
 });
 
 describe('hasVisibleText', () => {
