@@ -88,8 +88,10 @@ test('a dot vote with two criteria tallied live, revealed, carried forward into 
   await expect(phones[0]!.getByTestId('vote-closed')).toBeVisible();
   await consolePage.getByTestId('reveal').click();
   await expect(projector.getByTestId('projector-results')).toBeVisible();
-  await expect(projector.getByTestId('projector-results').locator('canvas').first()).toBeVisible();
-  await expect(projector.getByTestId('criteria-matrix')).toContainText(DOCK);
+  // Every option in full, in rank order, with its marks counted beside them; the matrix names options by their place in that list.
+  await expect(projector.getByTestId('dot-row').first()).toContainText(DOCK);
+  await expect(projector.getByTestId('dot-row').first().getByTestId('dot-count')).toHaveText(['A 5', 'B 5']);
+  await expect(projector.getByTestId('criteria-matrix')).toBeVisible();
   await consolePage.getByTestId('carry-forward').click();
   await expect(consolePage.getByTestId('carried')).toBeVisible();
   await expect(consolePage.getByTestId('carry-forward-panel')).toContainText(UNLOCK);

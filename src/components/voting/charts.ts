@@ -10,6 +10,8 @@ import {
 } from 'chart.js';
 import { LIGHT, PROJECTOR } from '../../theme/palette';
 import type { ChartTheme } from './marks';
+import { OVERALL_CRITERION } from '../../../shared/tally';
+import type { DotVoteResults } from '../../../shared/schemas/voting';
 
 // Only the parts the voting charts use, so the bundle stays small (vue-chartjs registers each chart's controller).
 Chart.register(BarElement, CategoryScale, LinearScale, PointElement, Tooltip, Legend);
@@ -43,4 +45,14 @@ export function barOptions(theme: ChartTheme, stacked: boolean): ChartOptions<'b
       tooltip: { enabled: theme === 'light' },
     },
   };
+}
+
+/** A dot vote's rows in the order its rules rank them (overall, or by the chosen criterion). */
+export function rankedRows(results: DotVoteResults): DotVoteResults['overall'] {
+  return results.rules.rankBy === OVERALL_CRITERION ? results.overall : (results.perCriterion[results.rules.rankBy] ?? results.overall);
+}
+
+/** Each option's short key on the projector: its place in the ranked list (1, 2, 3 …), unique even where ranks tie. */
+export function optionKeys(results: DotVoteResults): Map<string, number> {
+  return new Map(rankedRows(results).map((r, i) => [r.optionId, i + 1]));
 }
