@@ -47,9 +47,26 @@ export async function joinPhone(browser: Browser, joinUrl: string, name: string,
   return page;
 }
 
+/**
+ * Presses "Run live" on a workshop's plan page and leaves the start dialog open. Where an earlier
+ * browser test left the workshop live, the console reopens that session: it is ended first, as a
+ * facilitator would before the day, so every test starts a fresh session.
+ */
+export async function openStartDialog(page: Page): Promise<void> {
+  const dialog = page.getByRole('radio', { name: 'A rehearsal' });
+  const running = page.getByTestId('stop-session');
+  await page.getByTestId('run-live').click();
+  await dialog.or(running).first().waitFor();
+  if (await dialog.isVisible()) return;
+  await running.click();
+  await page.getByRole('button', { name: 'End it' }).click();
+  await page.getByTestId('run-live').click();
+  await dialog.waitFor();
+}
+
 /** Presses "Run live" on a workshop's plan page and starts the session as a rehearsal or the day. */
 export async function runLive(page: Page, kind: 'rehearsal' | 'day' = 'day'): Promise<void> {
-  await page.getByTestId('run-live').click();
+  await openStartDialog(page);
   await page.getByRole('radio', { name: kind === 'day' ? 'The day itself' : 'A rehearsal' }).click();
   await page.getByRole('button', { name: 'Start the session' }).click();
 }

@@ -1,5 +1,5 @@
 import { test, expect, type Page } from '@playwright/test';
-import { DEMO, expectAccessible, joinPhone, shot, signIn } from './fixtures';
+import { DEMO, expectAccessible, joinPhone, openStartDialog, shot, signIn } from './fixtures';
 
 const TITLE = "A new member's first ride";
 const REHEARSAL_NOTE = 'Rehearsal: the dock app froze on the second try';
@@ -28,7 +28,7 @@ test('a rehearsal, then the day: the console starts each afresh, the results cov
   await consolePage.getByRole('link', { name: TITLE }).click();
 
   // The rehearsal: the demo's date is not today, so Cairn offers a rehearsal first.
-  await consolePage.getByTestId('run-live').click();
+  await openStartDialog(consolePage);
   await expect(consolePage.getByRole('radio', { name: 'A rehearsal' })).toHaveAttribute('aria-checked', 'true');
   await shot(consolePage, 'sessions-start-dialog');
   await consolePage.getByRole('button', { name: 'Start the session' }).click();
