@@ -44,7 +44,8 @@ const fill = (seed: string, n: number) => {
   while (s.length < n) s += ` ${seed}`;
   return s.slice(0, n).trimEnd().padEnd(n, '.');
 };
-const TITLE = (what: string) => fill(`${what}: a new member's first ride at Harbour Lane Bike Co-op, from the app to the dock and back`, 120);
+// Not the demo workshop's own title inside it: later specs find the demo workshop by its name.
+const TITLE = (what: string) => fill(`${what}: the first ride of someone who just joined Harbour Lane Bike Co-op, from the app to the dock and back`, 120);
 const PROMPT = fill(
   'Think of the first ride of a new member of the co-op: finding the dock, unlocking the bike, choosing a calm route, parking it again and knowing it is locked. Write what you heard, saw and felt, in your own words, one thought a note.',
   1000,
