@@ -1,4 +1,5 @@
 import { defineConfig } from '@playwright/test';
+import { CHROMIUM_FLAGS } from './e2e/chromium';
 
 const port = Number(process.env.E2E_PORT ?? 4318);
 const dataDir = process.env.E2E_DATA_DIR ?? '.test-output/e2e-data';
@@ -18,16 +19,7 @@ export default defineConfig({
     testIdAttribute: 'data-test',
     launchOptions: {
       executablePath: '/usr/bin/chromium',
-      args: [
-        '--headless',
-        '--no-sandbox',
-        '--disable-gpu',
-        '--disable-background-networking',
-        '--disable-component-update',
-        '--no-first-run',
-        '--disable-sync',
-        '--disable-quic',
-      ],
+      args: CHROMIUM_FLAGS,
     },
     screenshot: 'only-on-failure',
     trace: 'off',

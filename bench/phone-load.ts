@@ -6,6 +6,7 @@
  * by kind, reads the first contentful paint, and runs Lighthouse (`--no-lighthouse` skips it). Prints a
  * table against the targets and writes JSON (`--json FILE`, default bench/results/phone-load.json).
  */
+import { CHROMIUM_FLAGS } from '../e2e/chromium';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
@@ -27,17 +28,6 @@ const JSON_FILE = arg('json', path.join('bench', 'results', 'phone-load.json'));
 const RUNS = Number(arg('runs', '3'));
 const WITH_LIGHTHOUSE = !args.includes('--no-lighthouse');
 const CHROME = process.env.CHROME_PATH ?? '/usr/bin/chromium';
-// The same switches as playwright.config.ts: Debian's Chromium in a container, nothing fetched.
-const CHROME_FLAGS = [
-  '--headless',
-  '--no-sandbox',
-  '--disable-gpu',
-  '--disable-background-networking',
-  '--disable-component-update',
-  '--no-first-run',
-  '--disable-sync',
-  '--disable-quic',
-];
 /** Lighthouse's mobile preset (lighthouse core/config/constants.js, `throttling.mobileSlow4G`): 150 ms, 1,638.4 kbit/s, 4× CPU. */
 const PHONE = { rttMs: 150, downKbps: 1638.4, upKbps: 750, cpuSlowdown: 4 };
 /** The issue's targets for each phone route. */
@@ -108,7 +98,7 @@ async function loadOnce(browser: Browser, url: string, ready: string, storage: R
 
 /** Lighthouse's mobile run on `url` (its default config), with `storage` put in localStorage first. */
 async function audit(url: string, storage: Record<string, string>) {
-  const chrome = await chromeLauncher.launch({ chromePath: CHROME, chromeFlags: CHROME_FLAGS });
+  const chrome = await chromeLauncher.launch({ chromePath: CHROME, chromeFlags: CHROMIUM_FLAGS });
   try {
     // Lighthouse resets storage before it loads a page; the joined phone needs its token, so the
     // storage is set here and only the cache and service worker are cleared.
@@ -189,7 +179,7 @@ async function main(): Promise<void> {
         index: agenda.findIndex((i) => i.type === 'dot_vote'),
       },
     ];
-    const browser = await chromium.launch({ executablePath: CHROME, args: CHROME_FLAGS });
+    const browser = await chromium.launch({ executablePath: CHROME, args: CHROMIUM_FLAGS });
     const rows: Record<string, unknown>[] = [];
     for (const route of routes) {
       if (route.index !== undefined) await goto(route.index);
