@@ -31,33 +31,41 @@ export default tseslint.config(
       'vue/no-v-html': 'error',
     },
   },
-  // The architecture's "nevers" (DEVELOPERS.md): shared/ imports neither the server, the client
-  // nor Node; the client never imports the server; a service never imports a handler.
-  {
-    files: ['shared/**/*.ts'],
-    rules: {
-      'no-restricted-imports': ['error', {
-        patterns: [
-          { group: ['**/server/**', '../server', '**/src/**', '../src', '@/*'], message: 'shared/ is imported by the client and the server; it imports neither.' },
-          { group: ['node:*', 'fs', 'path', 'crypto', 'os', 'vue', 'quasar', 'pinia'], message: 'shared/ runs in the browser and in Node: no runtime-specific modules.' },
-        ],
-      }],
-    },
-  },
-  {
-    files: ['src/**/*.ts', 'src/**/*.vue'],
-    rules: {
-      'no-restricted-imports': ['error', {
-        patterns: [{ group: ['**/server/**', '../server'], message: 'The client talks to the server over HTTP and sockets, never by import.' }],
-      }],
-    },
-  },
-  {
-    files: ['server/**/*.service.ts'],
-    rules: {
-      'no-restricted-imports': ['error', {
-        patterns: [{ group: ['**/*.socket', '**/*.socket.js', '**/*.router', '**/*.router.js'], message: 'A service holds the rules; handlers call services, never the other way round.' }],
-      }],
-    },
-  },
+  ...boundaries(),
 );
+
+/**
+ * The architecture's "nevers" (DEVELOPERS.md), as `no-restricted-imports` patterns. ESLint keeps only
+ * the last options of a rule that several blocks give one file, so every block below lists all the
+ * nevers that apply to its files; tests/server/boundaries.test.ts lints a forbidden import of each.
+ */
+function boundaries() {
+  const never = {
+    shared: [
+      { group: ['**/server/**', '../server', '**/src/**', '../src', '@/*'], message: 'shared/ is imported by the client and the server; it imports neither.' },
+      { group: ['node:*', 'fs', 'path', 'crypto', 'os', 'vue', 'quasar', 'pinia'], message: 'shared/ runs in the browser and in Node: no runtime-specific modules.' },
+    ],
+    client: [{ group: ['**/server/**', '../server'], message: 'The client talks to the server over HTTP and sockets, never by import.' }],
+    service: [{ group: ['**/*.socket', '**/*.socket.js', '**/*.router', '**/*.router.js'], message: 'A service holds the rules; handlers call services, never the other way round.' }],
+    router: [{ group: ['**/*.router', '**/*.router.js'], message: 'A router never imports another router: put what both need in the feature\'s service or in server/common/.' }],
+    db: [{ group: ['**/features/**', '../features'], message: 'The database layer never reaches into a feature: put what both need in server/common/.' }],
+    auth: [{ group: ['**/users/**', '../users'], message: 'auth and users never import each other: put what both need in server/common/.' }],
+    users: [{ group: ['**/auth/**', '../auth'], message: 'auth and users never import each other: put what both need in server/common/.' }],
+  };
+  const block = (files, ...names) => ({
+    files,
+    rules: { 'no-restricted-imports': ['error', { patterns: names.flatMap((n) => never[n]) }] },
+  });
+  const blocks = [
+    block(['shared/**/*.ts'], 'shared'),
+    block(['src/**/*.ts', 'src/**/*.vue'], 'client'),
+    block(['server/db/**/*.ts'], 'db'),
+    block(['server/**/*.service.ts'], 'service'),
+    block(['server/**/*.router.ts'], 'router'),
+  ];
+  for (const feature of ['auth', 'users']) {
+    const dir = `server/features/${feature}`;
+    blocks.push(block([`${dir}/**/*.ts`], feature), block([`${dir}/**/*.service.ts`], feature, 'service'), block([`${dir}/**/*.router.ts`], feature, 'router'));
+  }
+  return blocks;
+}

@@ -206,8 +206,8 @@ export async function createApp(config: Config): Promise<CairnApp> {
 
   const routes = new ApiRoutes(ctx);
   systemRoutes(routes, ctx, routes.meta);
-  authRoutes(routes, ctx, auth, users);
-  usersRoutes(routes, auth, users);
+  authRoutes(routes, ctx, auth, async () => (await users.settings()).signupOpen);
+  usersRoutes(routes, users);
   workshopsRoutes(routes, workshops);
   membersRoutes(routes, ctx, new MembersService(db, mail), auth);
   const live = new LiveService(ctx);

@@ -1,6 +1,6 @@
 import crypto from 'node:crypto';
 import type { Database } from './index';
-import { hashPassword } from '../features/auth/auth.service';
+import { hashPassword } from '../common/passwords';
 import { demoAgenda } from './demo-agenda';
 import { RuleSettings } from '../../shared/schemas/day-window';
 import { DEFAULT_CONSENT_TEXT } from '../../shared/schemas/workshop';

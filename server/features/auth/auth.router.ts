@@ -5,8 +5,8 @@ import type { ApiRoutes } from '../../common/route';
 import { access } from '../../common/access';
 import { AppError, errors } from '../../common/errors';
 import type { AuthService } from './auth.service';
-import { toUser } from './auth.service';
-import type { UsersService } from '../users/users.service';
+import { toUser } from '../../common/accounts';
+import { REFRESH_COOKIE, clearSession, setSession } from '../../common/session-cookie';
 import {
   ChangePasswordBody,
   ResetConfirmBody,
@@ -18,11 +18,7 @@ import {
   normaliseEmail,
 } from '../../../shared/schemas/user';
 import { mailLinkBase } from '../../common/network';
-import type { UserRow } from '../../db/models';
 import type { AppContext } from '../../context';
-
-/** Name of the HttpOnly cookie that carries the refresh token. */
-export const REFRESH_COOKIE = 'cairn_refresh';
 
 /** The e-mail address a request body names, in the one spelling accounts are looked up by (empty when none). */
 function bodyEmail(req: Request): string {
@@ -67,21 +63,11 @@ function accountLimiter(limit: number, windowMs: number, failuresOnly: boolean) 
   });
 }
 
-/** Issues the tokens of a session: the refresh token as an HttpOnly cookie, the access token in the answer. */
-export function setSession(req: Request, res: Response, auth: AuthService, user: UserRow): SessionAnswer {
-  const t = auth.issue(user);
-  res.cookie(REFRESH_COOKIE, t.refresh, {
-    httpOnly: true,
-    sameSite: 'strict',
-    secure: req.secure,
-    path: '/api/auth',
-    maxAge: 30 * 24 * 3600 * 1000,
-  });
-  return { accessToken: t.access, expiresInSec: t.expiresInSec, user: toUser(user) };
-}
-
-/** Sign-in, sign-up, refresh, sign-out, password change and reset. */
-export function authRoutes(routes: ApiRoutes, app: AppContext, auth: AuthService, users: UsersService): void {
+/**
+ * Sign-in, sign-up, refresh, sign-out, password change and reset; `signupOpen` says whether sign-up
+ * is open now (the server-wide settings), so this feature does not import the accounts feature.
+ */
+export function authRoutes(routes: ApiRoutes, app: AppContext, auth: AuthService, signupOpen: () => Promise<boolean>): void {
   const tag = 'auth';
   const limit = app.config.signInAttempts;
   // Many addresses together may guess one account's password a few times more than one address may
@@ -97,7 +83,7 @@ export function authRoutes(routes: ApiRoutes, app: AppContext, auth: AuthService
     tag,
     access: access.public,
     response: z.object({ signupOpen: z.boolean() }),
-    handler: async () => ({ signupOpen: (await users.settings()).signupOpen }),
+    handler: async () => ({ signupOpen: await signupOpen() }),
   });
 
   routes.add({
@@ -123,7 +109,7 @@ export function authRoutes(routes: ApiRoutes, app: AppContext, auth: AuthService
     response: SessionAnswer,
     status: 201,
     handler: async ({ req, res, body }) => {
-      if (!(await users.settings()).signupOpen) {
+      if (!await signupOpen()) {
         throw new AppError(403, 'signup_closed', 'Sign-up is closed here; ask your Cairn admin for an account');
       }
       const user = await auth.createUser({ ...body, role: 'facilitator' });
@@ -150,7 +136,7 @@ export function authRoutes(routes: ApiRoutes, app: AppContext, auth: AuthService
     handler: async ({ req, res }) => {
       const user = await auth.fromRefresh(req.cookies?.[REFRESH_COOKIE]).catch(() => null);
       if (user) await auth.signOutEverywhere(user);
-      res.clearCookie(REFRESH_COOKIE, { path: '/api/auth' });
+      clearSession(res);
       return undefined;
     },
   });

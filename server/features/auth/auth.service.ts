@@ -1,4 +1,3 @@
-import bcrypt from 'bcryptjs';
 import crypto from 'node:crypto';
 import type { Request } from 'express';
 import type { Transaction } from 'sequelize';
@@ -7,39 +6,9 @@ import type { UserRow } from '../../db/models';
 import type { TokenService } from '../../common/tokens';
 import type { Caller } from '../../context';
 import { AppError, errors } from '../../common/errors';
-import { normaliseEmail, type GlobalRole, type User } from '../../../shared/schemas/user';
-
-/** bcrypt cost: about 100 ms a hash on a laptop, slow enough for guessing, quick enough for sign-in. */
-const BCRYPT_COST = 10;
-/** A hash to compare against when the e-mail is unknown, so timing does not reveal accounts. */
-const DUMMY_HASH = bcrypt.hashSync('cairn-no-such-account', BCRYPT_COST);
-
-/** Hashes a password with bcrypt. */
-export function hashPassword(password: string): Promise<string> {
-  return bcrypt.hash(password, BCRYPT_COST);
-}
-
-/** Hashes a one-time token (invitation, password reset) for storage. */
-export function hashToken(token: string): string {
-  return crypto.createHash('sha256').update(token).digest('hex');
-}
-
-/** Makes a random one-time token for a link. */
-export function newToken(): string {
-  return crypto.randomBytes(32).toString('base64url');
-}
-
-/** An account row as the API shows it. */
-export function toUser(row: UserRow): User {
-  return {
-    id: row.id,
-    email: row.email,
-    name: row.name,
-    role: row.role,
-    disabled: row.disabled,
-    createdAt: row.createdAt.toISOString(),
-  };
-}
+import { checkPassword, hashPassword, hashToken, newToken } from '../../common/passwords';
+import { createAccount, findAccountByEmail } from '../../common/accounts';
+import type { GlobalRole } from '../../../shared/schemas/user';
 
 /** Accounts, passwords and tokens: the rules of signing in live here. */
 export class AuthService {
@@ -72,28 +41,20 @@ export class AuthService {
   /** Checks an e-mail and password; the same message for an unknown e-mail and a wrong password. */
   async signIn(email: string, password: string): Promise<UserRow> {
     const user = await this.findByEmail(email);
-    const ok = await bcrypt.compare(password, user?.passwordHash ?? DUMMY_HASH);
+    const ok = await checkPassword(password, user?.passwordHash);
     if (!user || !ok) throw new AppError(401, 'wrong_credentials', 'That e-mail and password do not match an account');
     if (user.disabled) throw new AppError(403, 'forbidden', 'This account is disabled; ask your Cairn admin');
     return user;
   }
 
   /** Creates an account; fails with a conflict if the e-mail is taken. */
-  async createUser(input: { email: string; name: string; password: string; role: GlobalRole }): Promise<UserRow> {
-    const existing = await this.findByEmail(input.email);
-    if (existing) throw errors.conflict('An account with that e-mail already exists');
-    return this.db.models.User.create({
-      id: crypto.randomUUID(),
-      email: normaliseEmail(input.email),
-      name: input.name,
-      role: input.role,
-      passwordHash: await hashPassword(input.password),
-    });
+  createUser(input: { email: string; name: string; password: string; role: GlobalRole }): Promise<UserRow> {
+    return createAccount(this.db, input);
   }
 
-  /** The account with this e-mail address, in whatever spelling ({@link normaliseEmail}), or null. */
+  /** The account with this e-mail address, in whatever spelling, or null. */
   findByEmail(email: string): Promise<UserRow | null> {
-    return this.db.models.User.findOne({ where: { email: normaliseEmail(email) } });
+    return findAccountByEmail(this.db, email);
   }
 
   /** Issues the access and refresh tokens of a session. */
@@ -124,7 +85,7 @@ export class AuthService {
 
   /** Changes a password after checking the current one; other sessions are signed out. */
   async changePassword(user: UserRow, current: string, next: string): Promise<UserRow> {
-    if (!(await bcrypt.compare(current, user.passwordHash))) {
+    if (!(await checkPassword(current, user.passwordHash))) {
       throw new AppError(400, 'wrong_credentials', 'Your current password is not right', { currentPassword: 'Not right' });
     }
     const hash = await hashPassword(next);

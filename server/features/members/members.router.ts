@@ -5,7 +5,7 @@ import { errors } from '../../common/errors';
 import type { AppContext } from '../../context';
 import type { MembersService } from './members.service';
 import type { AuthService } from '../auth/auth.service';
-import { setSession } from '../auth/auth.router';
+import { setSession } from '../../common/session-cookie';
 import { mailLinkBase } from '../../common/network';
 import { AcceptBody, AcceptNewBody, Invitation, InvitationInfo, InviteBody, People } from '../../../shared/schemas/member';
 import { SessionAnswer } from '../../../shared/schemas/user';

@@ -3,7 +3,7 @@ import { Op } from 'sequelize';
 import type { Database } from '../../db';
 import type { InvitationRow, UserRow } from '../../db/models';
 import { AppError, errors } from '../../common/errors';
-import { hashToken, newToken } from '../auth/auth.service';
+import { hashToken, newToken } from '../../common/passwords';
 import { normaliseEmail } from '../../../shared/schemas/user';
 import type { Mailer } from '../mail/mail.service';
 import type { Invitation, InvitationInfo, InviteBody, Member, People } from '../../../shared/schemas/member';

@@ -2,15 +2,14 @@ import { z } from 'zod';
 import type { ApiRoutes } from '../../common/route';
 import { access } from '../../common/access';
 import { errors } from '../../common/errors';
-import type { AuthService } from '../auth/auth.service';
-import { toUser } from '../auth/auth.service';
+import { toUser } from '../../common/accounts';
 import type { UsersService } from './users.service';
 import { AppSettings, CreateUserBody, UpdateUserBody, User } from '../../../shared/schemas/user';
 
 const IdParams = z.object({ userId: z.string().min(1).max(64) });
 
 /** The admin's account management and server settings. */
-export function usersRoutes(routes: ApiRoutes, auth: AuthService, users: UsersService): void {
+export function usersRoutes(routes: ApiRoutes, users: UsersService): void {
   const tag = 'accounts';
   const admin = access.global('admin');
 
@@ -33,7 +32,7 @@ export function usersRoutes(routes: ApiRoutes, auth: AuthService, users: UsersSe
     body: CreateUserBody,
     response: User,
     status: 201,
-    handler: async ({ body }) => toUser(await auth.createUser(body)),
+    handler: async ({ body }) => toUser(await users.create(body)),
   });
 
   routes.add({

@@ -1,6 +1,7 @@
 import type { Database } from '../../db';
 import { errors } from '../../common/errors';
-import type { AppSettings, UpdateUserBody } from '../../../shared/schemas/user';
+import { createAccount } from '../../common/accounts';
+import type { AppSettings, CreateUserBody, UpdateUserBody } from '../../../shared/schemas/user';
 import type { UserRow } from '../../db/models';
 
 /** Accounts and server-wide settings as the admin manages them. */
@@ -13,6 +14,11 @@ export class UsersService {
   /** Every account, oldest first. */
   list(): Promise<UserRow[]> {
     return this.db.models.User.findAll({ order: [['createdAt', 'ASC']] });
+  }
+
+  /** Creates an account as the admin asks; fails with a conflict if the e-mail is taken. */
+  create(body: CreateUserBody): Promise<UserRow> {
+    return createAccount(this.db, body);
   }
 
   /** Changes an account's name, role or disabled state; an admin cannot lock themselves out. */
