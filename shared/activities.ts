@@ -1,10 +1,9 @@
-import { z } from 'zod';
 import type { ActivitySettings, ActivityType, AgendaItem, Criterion, Phase } from './schemas/agenda-item';
 import type { SubmissionInput } from './schemas/live';
 import { atLeast } from './numbers';
 
-/** Everything Cairn can put on a packing list. */
-export const MaterialKey = z.enum([
+/** Everything Cairn can put on a packing list, in the list's order (plain data, no zod: the phone's code imports this file). */
+export const MATERIAL_KEYS = [
   'sticky_notes',
   'markers',
   'paper_a4',
@@ -17,9 +16,9 @@ export const MaterialKey = z.enum([
   'timer',
   'snacks',
   'water',
-]);
+] as const;
 /** A material's key, e.g. `'dot_stickers'`. */
-export type MaterialKey = z.infer<typeof MaterialKey>;
+export type MaterialKey = (typeof MATERIAL_KEYS)[number];
 
 /** How a material appears on the packing list and how it adds up over the agenda. */
 export interface MaterialDefinition {

@@ -1,4 +1,4 @@
-import { ACTIVITY_LIBRARY, MATERIALS, MaterialKey, type MaterialRule } from './activities';
+import { ACTIVITY_LIBRARY, MATERIALS, MATERIAL_KEYS, type MaterialKey, type MaterialRule } from './activities';
 import type { AgendaItem } from './schemas/agenda-item';
 import { whole } from './numbers';
 
@@ -85,7 +85,7 @@ export function packingList(items: AgendaItem[], headcount: number, teamCount: n
     }
   }
   // Lines in the catalogue's order, so the list reads the same every time.
-  return MaterialKey.options.flatMap((key) => {
+  return MATERIAL_KEYS.flatMap((key) => {
     const line = lines.get(key);
     if (!line) return [];
     const quantity = Math.ceil(line.quantity);

@@ -1,5 +1,3 @@
-import { z } from 'zod';
-
 /**
  * Bidirectional embeddings, overrides and isolates (U+202A–U+202E, U+2066–U+2069): they reorder how
  * the text around them is shown (Unicode Standard Annex #9, §2.1–2.4), so a name could look like
@@ -45,16 +43,23 @@ export function hasVisibleText(text: string): boolean {
 /** What a person is told when a text has nothing that shows. */
 export const INVISIBLE_TEXT_MESSAGE = 'Use letters, numbers or signs that show; this has only invisible characters';
 
+/** What text a person types must be: required (its message), at most `max` characters (its message), one line or several. */
+export interface TextRule {
+  required: string;
+  max: number;
+  tooLong: string;
+  multiline?: boolean;
+}
+
 /**
- * A zod schema for text a person types (a name, a note, a theme's name): normalised with
- * `normaliseText`, then required, bounded and refused when nothing in it shows.
- * @example typedText({ required: 'Enter a name', max: 40, tooLong: 'Keep it under 40 characters' })
+ * What is wrong with typed text under a rule, in the words `typedText` (shared/schemas/text.ts) refuses it
+ * with, or null: lets a phone say it before queueing a note, without the schema library.
+ * @example textProblem('  ', { required: 'Write something first', max: 500, tooLong: 'Too long' }) // 'Write something first'
  */
-export function typedText(opts: { required: string; max: number; tooLong: string; multiline?: boolean }) {
-  return z
-    .string()
-    .overwrite((s) => normaliseText(s, opts.multiline ?? false))
-    .min(1, opts.required)
-    .max(opts.max, opts.tooLong)
-    .refine(hasVisibleText, INVISIBLE_TEXT_MESSAGE);
+export function textProblem(text: string, rule: TextRule): string | null {
+  const clean = normaliseText(text, rule.multiline ?? false);
+  if (clean.length < 1) return rule.required;
+  if (clean.length > rule.max) return rule.tooLong;
+  if (!hasVisibleText(clean)) return INVISIBLE_TEXT_MESSAGE;
+  return null;
 }

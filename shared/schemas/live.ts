@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { ActivitySettings, ActivityType, Phase } from './agenda-item';
-import { typedText } from '../text';
+import { typedText } from './text';
+import { NOTE_TEXT } from '../notes';
 
 /** Alphabet of join codes: no 0/O, 1/I/L, so a code read off the projector is typed right. */
 export const JOIN_CODE_ALPHABET = '23456789ABCDEFGHJKMNPQRSTUVWXYZ';
@@ -213,7 +214,7 @@ export const SubmissionInput = z.object({
   kind: z.enum(['note', 'point_of_view', 'how_might_we', 'feedback', 'reflection', 'frame', 'sketch']),
   /** Quadrant or part (says / thinks / does / feels, worked / didnt / questions / ideas …). */
   part: z.string().max(30).optional(),
-  text: typedText({ required: 'Write something first', max: 500, tooLong: 'Keep a note under 500 characters', multiline: true }),
+  text: typedText(NOTE_TEXT),
   /** Structured fields of guided sentences (user, need, insight …). */
   fields: z
     .record(z.string().max(30), z.string().max(300))

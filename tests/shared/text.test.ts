@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { hasVisibleText, normaliseText, typedText } from '../../shared/text';
+import { hasVisibleText, normaliseText, textProblem } from '../../shared/text';
+import { typedText } from '../../shared/schemas/text';
 
 describe('normaliseText', () => {
   it('composes to NFC (UAX #15 §1.2: e + U+0301 COMBINING ACUTE ACCENT is canonically equivalent to U+00E9)', () => {
@@ -47,5 +48,15 @@ describe('typedText', () => {
     expect(Name.safeParse('\u200B\uFEFF').error?.issues[0]?.message).toMatch(/only invisible characters/);
     expect(Name.safeParse('   ').error?.issues[0]?.message).toBe('Enter a name');
     expect(Name.safeParse('Marchetti Cleo').error?.issues[0]?.message).toBe('Too long');
+  });
+});
+
+describe('textProblem', () => {
+  const rule = { required: 'Enter a name', max: 10, tooLong: 'Too long' };
+  const Name = typedText(rule);
+  it('says what typedText refuses, first message first, without the schema library (the phone checks a note with it)', () => {
+    for (const input of ['  \u202EAna\u202C ', '\u200B\uFEFF', '   ', 'Marchetti Cleo', 'Ine\u0301s', '', '\u0007']) {
+      expect(textProblem(input, rule)).toBe(Name.safeParse(input).error?.issues[0]?.message ?? null);
+    }
   });
 });

@@ -1,5 +1,6 @@
 import { ref, watch, type Ref } from 'vue';
-import { ROUND_TYPES, type RoundView } from '../../../shared/schemas/activities';
+import { ROUND_TYPES } from '../../../shared/notes';
+import type { RoundView } from '../../../shared/schemas/activities';
 import type { LiveItem } from '../../../shared/schemas/live';
 import type { ActivityChannel } from './useActivityChannel';
 
