@@ -102,8 +102,9 @@ export interface ActivityDefinition {
 
 /** The usual pair of dot-vote criteria, for the planner to add (common practice: impact / effort matrix). */
 export const IMPACT_EFFORT_CRITERIA: readonly Criterion[] = [
-  { id: 'impact', label: 'Impact' },
-  { id: 'effort', label: 'Effort' },
+  { id: 'impact', label: 'Impact', hint: 'a dot for each idea that would make the biggest difference', dotMeans: 'high' },
+  // A dot on effort marks an easy idea, so dots count towards "low effort" (the matrix ranks high impact, low effort first).
+  { id: 'effort', label: 'Effort', hint: 'a dot for each idea that would be easy to do', dotMeans: 'low' },
 ];
 
 /** The shortest cut of a timebox Cairn suggests: two thirds of it, rounded (common practice); refuses a timebox that is not a finite number of 0 or more. */

@@ -38,10 +38,17 @@ export const Phase = z.enum([
 /** A phase name, e.g. `'ideate'`. */
 export type Phase = z.infer<typeof Phase>;
 
+/** Longest wording of what a dot means under a criterion. */
+export const MAX_CRITERION_HINT = 120;
+
 /** A voting criterion of a dot vote, e.g. impact or effort. */
 export const Criterion = z.object({
   id: z.string().min(1).max(40),
   label: z.string().trim().min(1).max(60),
+  /** What a dot means, in the facilitator's words, shown on the phone ("a dot for each idea that would be easy to do"). */
+  hint: z.string().trim().max(MAX_CRITERION_HINT).optional(),
+  /** Whether a dot says the option is high on the criterion (impact) or low on it (effort: easy to do); high when unset. */
+  dotMeans: z.enum(['high', 'low']).optional(),
 });
 /** A voting criterion. */
 export type Criterion = z.infer<typeof Criterion>;

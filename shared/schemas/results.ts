@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { ActivityType, Phase } from './agenda-item';
 import { DayWindow } from './day-window';
 import { Email } from './user';
+import { countOf } from '../words';
 
 /** A yes/no query parameter as a link carries it (`?anonymize=true`); absent means no. */
 export const QueryFlag = z
@@ -100,12 +101,14 @@ export const VoteRow = z.object({
   tied: z.boolean(),
   nearTie: z.boolean(),
   selected: z.boolean(),
+  /** Where the option stands in the criteria matrix ("Impact high · Effort low"), in a ranking by the matrix. */
+  quadrant: z.string().nullable().optional(),
 });
 /** One option's line in a vote result. */
 export type VoteRow = z.infer<typeof VoteRow>;
 
-/** A point of the criteria matrix: one option's dots under two criteria. */
-export const MatrixPoint = z.object({ optionId: z.string(), label: z.string(), x: z.number(), y: z.number() });
+/** A point of the criteria matrix: one option's dots under two criteria, and its quadrant in words; in the matrix's rank order. */
+export const MatrixPoint = z.object({ optionId: z.string(), label: z.string(), x: z.number(), y: z.number(), quadrant: z.string() });
 
 /** The live session a results section comes from (set once the providers have built it). */
 const FromSession = { sessionId: z.string().optional(), session: z.string().optional() };
@@ -171,6 +174,8 @@ export const ResultSection = z.discriminatedUnion('kind', [
     open: z.boolean(),
     /** What the main ranking counts, e.g. "All criteria", "Impact", "Schulze method". */
     rankedBy: z.string(),
+    /** What the main ranking's score column counts where it is not what the method counts (a matrix ranking: the first criterion's dots). */
+    scoreLabel: z.string().nullable().optional(),
     /** The ranking that carries options forward (dots overall or by the ranking criterion, or the chosen method). */
     overall: z.array(VoteRow),
     /** Further rankings: one per criterion of a dot vote, or the other method of a preference vote. */
@@ -239,6 +244,8 @@ export const Participation = z.object({
       title: z.string(),
       contributors: z.number().int(),
       notes: z.number().int(),
+      /** A vote's ballots cast (who placed a dot or sent a ranking); `null` for an activity that is not a vote. */
+      ballots: z.number().int().nullable(),
       /** contributors ÷ joined, 0 when nobody joined. */
       rate: z.number(),
     }),
@@ -246,6 +253,15 @@ export const Participation = z.object({
 });
 /** Who took part, and how much. */
 export type Participation = z.infer<typeof Participation>;
+
+/**
+ * What an activity's row of the participation table counts: a vote's ballots, otherwise its notes.
+ * @example contributionsText({ notes: 0, ballots: 3 }) // '3 ballots'
+ */
+export function contributionsText(a: { notes: number; ballots: number | null }): string {
+  if (a.ballots !== null) return countOf(a.ballots, 'ballot');
+  return countOf(a.notes, 'note');
+}
 
 /** A participant as the exports list them (no address: only whether one was left). */
 export const ParticipantResult = z.object({

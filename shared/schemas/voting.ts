@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { Criterion } from './agenda-item';
 import { OVERALL_CRITERION } from '../tally';
+import { MATRIX_RANKING } from '../matrix';
 
 /** The activity types that are votes: a dot vote, a preference vote (Cairn's) and a team sort (Cairn's). */
 export const VoteKind = z.enum(['dot_vote', 'preference_vote', 'team_sort']);
@@ -45,7 +46,7 @@ export const VoteRules = z
     criteria: z.array(Criterion).max(4),
     /** How many options to carry forward. */
     topN: z.number().int().min(1).max(20),
-    /** What the top N is ranked by: `'overall'` (every criterion's dots together) or one criterion's id. */
+    /** What the top N is ranked by: `'overall'` (every criterion's dots together), `'matrix'` (two criteria: first high, second low first) or one criterion's id. */
     rankBy: z.string().min(1).max(40),
     /** Preference vote: the method whose order carries the top N forward (both are always shown). */
     method: PreferenceMethod,
@@ -54,14 +55,18 @@ export const VoteRules = z
     message: 'Give each criterion its own id',
     path: ['criteria'],
   })
-  .refine((r) => r.criteria.every((c) => c.id !== OVERALL_CRITERION), {
-    message: `'${OVERALL_CRITERION}' is kept for all criteria together; name the criterion differently`,
+  .refine((r) => r.criteria.every((c) => c.id !== OVERALL_CRITERION && c.id !== MATRIX_RANKING), {
+    message: `'${OVERALL_CRITERION}' and '${MATRIX_RANKING}' are kept for the rankings; name the criterion differently`,
     path: ['criteria'],
   })
-  .refine((r) => r.rankBy === OVERALL_CRITERION || r.criteria.some((c) => c.id === r.rankBy), {
-    message: 'Rank by all criteria together or by one of the criteria',
-    path: ['rankBy'],
-  });
+  .refine(
+    (r) =>
+      r.rankBy === OVERALL_CRITERION || (r.rankBy === MATRIX_RANKING && r.criteria.length >= 2) || r.criteria.some((c) => c.id === r.rankBy),
+    {
+      message: 'Rank by all criteria together, by the matrix of two criteria, or by one of the criteria',
+      path: ['rankBy'],
+    },
+  );
 /** The rules of a vote. */
 export type VoteRules = z.infer<typeof VoteRules>;
 
@@ -206,13 +211,28 @@ export const DotVoteResults = z.object({
   ...ResultsBase,
   perCriterion: z.record(z.string(), z.array(TallyRowView)),
   overall: z.array(TallyRowView),
+  /** The ranking the rules name (overall, one criterion, or the matrix), which the top N is cut from; every screen shows this order. */
+  ranked: z.array(TallyRowView),
   top: TopN,
-  /** With two criteria or more: each option's dots under the first two (x: the second, y: the first). */
+  /**
+   * With two criteria or more: each option's dots under the first two (x: the second, y: the first), where it
+   * stands under each (shared/matrix.ts), and its rank by the matrix, in that rank order.
+   */
   matrix: z
     .object({
       xCriterionId: z.string(),
       yCriterionId: z.string(),
-      points: z.array(z.object({ optionId: z.string(), x: z.number(), y: z.number() })),
+      points: z.array(
+        z.object({
+          optionId: z.string(),
+          x: z.number(),
+          y: z.number(),
+          xLevel: z.enum(['high', 'low']),
+          yLevel: z.enum(['high', 'low']),
+          rank: z.number().int(),
+          tied: z.boolean(),
+        }),
+      ),
     })
     .nullable(),
 });

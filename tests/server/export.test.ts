@@ -175,7 +175,7 @@ describe('CSV exports (RFC 4180)', () => {
 
   it('writes the tallies and votes tables with their headers even before any vote', async () => {
     const tallies = rfc4180((await download('tallies.csv')).text);
-    expect(tallies[0]).toEqual(['Session', 'Activity number', 'Activity', 'Method', 'Ranked by', 'Option', 'Score', 'Rank', 'Tied', 'Near tie', 'Selected']);
+    expect(tallies[0]).toEqual(['Session', 'Activity number', 'Activity', 'Method', 'Ranked by', 'Option', 'Score', 'Rank', 'Tied', 'Near tie', 'Selected', 'Matrix quadrant']);
     const votes = rfc4180((await download('votes.csv')).text);
     expect(votes[0]).toEqual(['Session', 'Activity number', 'Activity', 'Voter', 'Option', 'Criterion', 'Value']);
   });

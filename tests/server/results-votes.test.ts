@@ -84,7 +84,7 @@ describe('vote results on the results page', () => {
   it('ranks a dot vote with standard competition ranking ("1224") and flags the ties', () => {
     const v = votes('dot_vote');
     expect(v.method).toBe('dots');
-    expect(v.rankedBy).toBe('All criteria');
+    expect(v.rankedBy).toBe('All criteria together');
     // Overall = impact + effort: B 4, A 3, C 3, D 2 → ranks 1, 2, 2, 4.
     expect(v.overall.map((o) => [o.label, o.score, o.rank, o.tied])).toEqual([
       ['A welcome ride', 4, 1, false],
@@ -111,11 +111,13 @@ describe('vote results on the results page', () => {
     expect(v.matrix).toEqual({
       xLabel: 'Effort',
       yLabel: 'Impact',
+      // In the matrix's order (shared/matrix.ts; high impact and low effort first, common practice). These criteria
+      // set no direction, so a dot means "high" on both: most impact 3 (split 1.5), most effort 1 (split 0.5).
       points: [
-        { optionId: expect.any(String), label: 'A welcome ride', x: 1, y: 3 },
-        { optionId: expect.any(String), label: 'Clear unlock steps', x: 0, y: 3 },
-        { optionId: expect.any(String), label: 'Dock maps', x: 1, y: 2 },
-        { optionId: expect.any(String), label: 'Helmet lending', x: 1, y: 1 },
+        { optionId: expect.any(String), label: 'Clear unlock steps', x: 0, y: 3, quadrant: 'Impact high · Effort low' },
+        { optionId: expect.any(String), label: 'A welcome ride', x: 1, y: 3, quadrant: 'Impact high · Effort high' },
+        { optionId: expect.any(String), label: 'Dock maps', x: 1, y: 2, quadrant: 'Impact high · Effort high' },
+        { optionId: expect.any(String), label: 'Helmet lending', x: 1, y: 1, quadrant: 'Impact low · Effort high' },
       ],
     });
   });
@@ -148,12 +150,12 @@ describe('vote results on the results page', () => {
 describe('vote exports', () => {
   it('writes every ranking line to the tallies CSV, read back field by field with csv-parse', async () => {
     const [header, ...rows] = await csv('tallies.csv');
-    expect(header).toEqual(['Session', 'Activity number', 'Activity', 'Method', 'Ranked by', 'Option', 'Score', 'Rank', 'Tied', 'Near tie', 'Selected']);
+    expect(header).toEqual(['Session', 'Activity number', 'Activity', 'Method', 'Ranked by', 'Option', 'Score', 'Rank', 'Tied', 'Near tie', 'Selected', 'Matrix quadrant']);
     const expected = (['dot_vote', 'preference_vote'] as const).flatMap((type) => {
       const v = votes(type);
       const a = r.activities.find((x) => x.type === type)!;
       return [{ label: v.rankedBy, rows: v.overall }, ...v.tables].flatMap((block) =>
-        block.rows.map((o) => [v.session!, String(a.position), a.title, v.method, block.label, o.label, String(o.score), String(o.rank), o.tied ? 'yes' : 'no', o.nearTie ? 'yes' : 'no', o.selected ? 'yes' : 'no']),
+        block.rows.map((o) => [v.session!, String(a.position), a.title, v.method, block.label, o.label, String(o.score), String(o.rank), o.tied ? 'yes' : 'no', o.nearTie ? 'yes' : 'no', o.selected ? 'yes' : 'no', o.quadrant ?? '']),
       );
     });
     expect(rows).toEqual(expected);

@@ -162,7 +162,8 @@ describe('a dot vote with two criteria', () => {
       rules: { dotsPerVoter: 3, capPerOption: 2, allowStacking: true, criteria: IMPACT_EFFORT, topN: 2 },
     });
     expect(vote.options[0]).toMatchObject({ text: 'How might we help a new member find a free dock?', submissionId: noteId });
-    expect(vote.rules).toMatchObject({ dotsPerVoter: 3, capPerOption: 2, allowStacking: true, topN: 2, rankBy: 'overall' });
+    // Two criteria rank by their matrix unless the set-up says otherwise (shared/matrix.ts).
+    expect(vote.rules).toMatchObject({ dotsPerVoter: 3, capPerOption: 2, allowStacking: true, topN: 2, rankBy: 'matrix' });
     expect((await heard).status).toBe('draft');
     const [dock, unlock, route, helmet] = vote.options.map((o) => o.id);
     opt = { dock: dock!, unlock: unlock!, route: route!, helmet: helmet! };

@@ -122,11 +122,11 @@ export function talliesTable(r: WorkshopResults): CsvTable {
       if (s.kind !== 'votes') continue;
       const blocks = [{ label: s.rankedBy, rows: s.overall }, ...s.tables];
       for (const block of blocks) {
-        for (const v of block.rows) rows.push([s.session ?? '', a.position, a.title, s.method, block.label, v.label, v.score, v.rank, v.tied, v.nearTie, v.selected]);
+        for (const v of block.rows) rows.push([s.session ?? '', a.position, a.title, s.method, block.label, v.label, v.score, v.rank, v.tied, v.nearTie, v.selected, v.quadrant ?? '']);
       }
     }
   }
-  return { header: ['Session', 'Activity number', 'Activity', 'Method', 'Ranked by', 'Option', 'Score', 'Rank', 'Tied', 'Near tie', 'Selected'], rows };
+  return { header: ['Session', 'Activity number', 'Activity', 'Method', 'Ranked by', 'Option', 'Score', 'Rank', 'Tied', 'Near tie', 'Selected', 'Matrix quadrant'], rows };
 }
 
 /** Every dot placed and every ballot position, voter by voter. */

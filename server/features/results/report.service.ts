@@ -12,7 +12,7 @@ import type { ResultsService } from './results.service';
 import { exportFileName } from './export.service';
 import type { SessionSelector } from '../../../shared/sessions';
 import { ACTIVITY_LIBRARY, PHASE_LABELS } from '../../../shared/activities';
-import { voteScoreLabel } from '../../../shared/schemas/results';
+import { contributionsText, voteScoreLabel } from '../../../shared/schemas/results';
 import { partLabel } from '../../../shared/schemas/activities';
 import type {
   ActivityResult,
@@ -299,7 +299,7 @@ function writeSection(w: ReportWriter, s: ResultSection): void {
       const method = { dots: 'Dot vote', borda: 'Preference vote', schulze: 'Preference vote', first_choices: 'Team sort' }[s.method];
       w.write(`${method}: ${s.voted} of ${s.voters} voted${s.open ? ' (the vote was still open)' : ''}.`, { size: 9.5, color: INK.muted, gap: 2 });
       for (const block of [{ id: undefined as string | undefined, label: s.rankedBy, rows: s.overall }, ...s.tables]) {
-        const score = voteScoreLabel(s.method, block.id);
+        const score = (block.id === undefined ? s.scoreLabel : null) ?? voteScoreLabel(s.method, block.id);
         w.heading(block.label, 3);
         w.table(
           [
@@ -312,7 +312,7 @@ function writeSection(w: ReportWriter, s: ResultSection): void {
             String(v.rank),
             v.label,
             String(v.score),
-            [v.tied ? 'tied' : v.nearTie ? 'near tie' : '', v.selected ? 'carried forward' : ''].filter(Boolean).join(', '),
+            [v.quadrant ?? '', v.tied ? 'tied' : v.nearTie ? 'near tie' : '', v.selected ? 'carried forward' : ''].filter(Boolean).join(', '),
           ]),
         );
       }
@@ -442,11 +442,11 @@ export function renderReportPdf(r: WorkshopResults, photos: Map<string, Buffer> 
     w.table(
       [
         { label: 'Activity', width: w.contentWidth - 180 },
-        { label: 'Notes', width: 60 },
+        { label: 'Contributions', width: 60 },
         { label: 'Took part', width: 60 },
         { label: 'Share', width: 60 },
       ],
-      p.perActivity.map((a) => [a.title, String(a.notes), String(a.contributors), percentText(a.rate * 100)]),
+      p.perActivity.map((a) => [a.title, contributionsText(a), String(a.contributors), percentText(a.rate * 100)]),
     );
   }
 

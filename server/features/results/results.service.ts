@@ -6,6 +6,7 @@ import { photoCleared } from '../activities/photos.service';
 import { computeSchedule } from '../../../shared/schedule';
 import { selectSessions, sessionName, type SessionSelector } from '../../../shared/sessions';
 import { competitionRanks, OVERALL_CRITERION } from '../../../shared/tally';
+import { MATRIX_RANKING, quadrantName, rankingName } from '../../../shared/matrix';
 import type { AgendaItem } from '../../../shared/schemas/agenda-item';
 import { FEEDBACK_GRID_PARTS, PHOTO_TYPES } from '../../../shared/schemas/activities';
 import { VoteKind, type VoteResults } from '../../../shared/schemas/voting';
@@ -252,28 +253,41 @@ export function voteSection(v: VoteResults): Extract<ResultSection, { kind: 'vot
     // "Carried forward" marks the options in the ranking they were carried forward from, not in the other tables.
     const dots = (rows: { optionId: string; dots: number; rank: number; tied: boolean; nearTie: boolean }[], chosenHere = new Set<string>()) =>
       voteRows(v, rows.map((r) => ({ ...r, score: r.dots })), chosenHere);
-    const byCriterion = v.rules.rankBy !== OVERALL_CRITERION;
     const criteria = v.rules.criteria;
-    const rankedBy = byCriterion ? (criteria.find((c) => c.id === v.rules.rankBy)?.label ?? v.rules.rankBy) : criteria.length ? 'All criteria' : 'Dots';
+    const byMatrix = v.rules.rankBy === MATRIX_RANKING && v.matrix !== null;
+    const byCriterion = !byMatrix && v.rules.rankBy !== OVERALL_CRITERION;
+    const name = rankingName(v.rules);
+    const rankedBy = name.charAt(0).toUpperCase() + name.slice(1);
     const tables = [
-      ...(byCriterion ? [{ id: OVERALL_CRITERION, label: 'All criteria', rows: dots(v.overall) }] : []),
+      // All criteria together beside a ranking by one criterion; beside the matrix the sum would add effort to impact, so it is left out.
+      ...(byCriterion ? [{ id: OVERALL_CRITERION, label: 'All criteria together', rows: dots(v.overall) }] : []),
       ...(criteria.length > 1 || byCriterion
         ? criteria.filter((c) => c.id !== v.rules.rankBy).map((c) => ({ id: c.id, label: c.label, rows: dots(v.perCriterion[c.id] ?? []) }))
         : []),
     ];
     const xLabel = criteria.find((c) => c.id === v.matrix?.xCriterionId)?.label ?? '';
     const yLabel = criteria.find((c) => c.id === v.matrix?.yCriterionId)?.label ?? '';
+    const quadrant = new Map((v.matrix?.points ?? []).map((p) => [p.optionId, quadrantName(yLabel, p.yLevel, xLabel, p.xLevel)]));
+    const main = dots(v.ranked, selected).map((row) => (byMatrix ? { ...row, quadrant: quadrant.get(row.optionId) ?? null } : row));
     return {
       kind: 'votes',
       method: 'dots',
       rankedBy,
-      overall: dots(byCriterion ? (v.perCriterion[v.rules.rankBy] ?? v.overall) : v.overall, selected),
+      // The matrix ranks by quadrant, then by the first criterion's dots: its score column counts those.
+      scoreLabel: byMatrix ? `${yLabel} dots` : null,
+      overall: main,
       tables,
       topN: v.rules.topN,
       tiePolicy: v.top.policy,
       tiedAtCutoff: v.top.tiedAtCutoff.map((id) => label.get(id) ?? ''),
       ...base,
-      matrix: v.matrix ? { xLabel, yLabel, points: v.matrix.points.map((p) => ({ ...p, label: label.get(p.optionId) ?? '' })) } : null,
+      matrix: v.matrix
+        ? {
+            xLabel,
+            yLabel,
+            points: v.matrix.points.map((p) => ({ optionId: p.optionId, x: p.x, y: p.y, label: label.get(p.optionId) ?? '', quadrant: quadrant.get(p.optionId) ?? '' })),
+          }
+        : null,
     };
   }
   if (v.kind === 'preference_vote') {
@@ -448,9 +462,12 @@ function participationOf(input: ResultsInput, votes: VoteResults[]): Participati
     .map((item) => {
       const notes = input.notes.filter((n) => n.itemId === item.id);
       // A vote's contributors are those who voted (as its own "N of M voted" counts them).
-      const voted = votes.filter((v) => v.itemId === item.id).reduce((sum, v) => sum + v.participation.voted, 0);
+      const mine = votes.filter((v) => v.itemId === item.id);
+      const voted = mine.reduce((sum, v) => sum + v.participation.voted, 0);
       const contributors = Math.max(voted, new Set(notes.map((n) => n.participantId)).size);
-      return { itemId: item.id, title: item.title, contributors, notes: notes.length, rate: joined === 0 ? 0 : Math.min(1, contributors / joined) };
+      // A vote's contributions are its ballots, not notes: counting its notes would read "0 notes" beside "3 of 3 voted".
+      const ballots = VoteKind.safeParse(item.type).success ? voted : null;
+      return { itemId: item.id, title: item.title, contributors, notes: notes.length, ballots, rate: joined === 0 ? 0 : Math.min(1, contributors / joined) };
     })
     .filter((a) => a.notes > 0 || a.contributors > 0);
   return {

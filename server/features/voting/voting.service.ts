@@ -19,6 +19,7 @@ import {
   type TallyRow,
 } from '../../../shared/tally';
 import { borda, schulze } from '../../../shared/preference';
+import { MATRIX_RANKING, rankByMatrix } from '../../../shared/matrix';
 import { sortIntoTeams } from '../../../shared/team-sort';
 import type { SetTeamsPayload, Team } from '../../../shared/schemas/team';
 import { fieldErrors, type ErrorCode } from '../../../shared/errors';
@@ -105,7 +106,8 @@ export function rulesFor(item: LiveItem, optionCount: number, given: Partial<Vot
     allowStacking: given.allowStacking ?? s.allowStacking ?? true,
     criteria: given.criteria ?? s.criteria ?? [],
     topN: Math.max(1, optionCount > 0 ? Math.min(topN, optionCount) : topN),
-    rankBy: given.rankBy ?? OVERALL_CRITERION,
+    // Two criteria (impact and effort) rank by their matrix unless the facilitator says otherwise.
+    rankBy: given.rankBy ?? ((given.criteria ?? s.criteria ?? []).length >= 2 ? MATRIX_RANKING : OVERALL_CRITERION),
     method: given.method ?? 'schulze',
   });
 }
@@ -836,17 +838,25 @@ export class VotingService {
       const dots: Dot[] = rows.map((d) => ({ voterId: d.participantId, optionId: d.optionId, criterionId: d.criterionId, count: Number(d.count) }));
       const voterIds = [...new Set([...online, ...dots.map((d) => d.voterId)])];
       const tally = tallyDots(optionIds, criterionIds(row.rules), dots);
-      const ranked: TallyRow[] = row.rules.rankBy === OVERALL_CRITERION ? tally.overall : (tally.perCriterion[row.rules.rankBy] ?? tally.overall);
       const [first, second] = row.rules.criteria;
+      // Impact (the first criterion) up, effort (the second) across: the usual reading of such a matrix.
+      const byMatrix = first && second ? rankByMatrix(criteriaMatrix(tally, second.id, first.id), first.dotMeans ?? 'high', second.dotMeans ?? 'high') : null;
+      const ranked: TallyRow[] =
+        row.rules.rankBy === MATRIX_RANKING && byMatrix
+          ? // A matrix row's dots are the first criterion's: the matrix orders by quadrant, then by them.
+            byMatrix.map((m) => ({ optionId: m.optionId, dots: m.y, rank: m.rank, tied: m.tied, nearTie: false }))
+          : row.rules.rankBy === OVERALL_CRITERION
+            ? tally.overall
+            : (tally.perCriterion[row.rules.rankBy] ?? tally.overall);
       const results: DotVoteResults = {
         kind: 'dot_vote',
         ...base,
         participation: participation(voterIds, dots, row.rules),
         perCriterion: tally.perCriterion,
         overall: tally.overall,
+        ranked,
         top: selectTopN(ranked, n),
-        // Impact (the first criterion) up, effort (the second) across: the usual reading of such a matrix.
-        matrix: first && second ? { xCriterionId: second.id, yCriterionId: first.id, points: criteriaMatrix(tally, second.id, first.id) } : null,
+        matrix: first && second && byMatrix ? { xCriterionId: second.id, yCriterionId: first.id, points: byMatrix } : null,
       };
       return results;
     }

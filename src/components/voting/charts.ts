@@ -10,7 +10,6 @@ import {
 } from 'chart.js';
 import { LIGHT, PROJECTOR } from '../../theme/palette';
 import type { ChartTheme } from './marks';
-import { OVERALL_CRITERION } from '../../../shared/tally';
 import type { DotVoteResults } from '../../../shared/schemas/voting';
 
 // Only the parts the voting charts use, so the bundle stays small (vue-chartjs registers each chart's controller).
@@ -47,9 +46,9 @@ export function barOptions(theme: ChartTheme, stacked: boolean): ChartOptions<'b
   };
 }
 
-/** A dot vote's rows in the order its rules rank them (overall, or by the chosen criterion). */
+/** A dot vote's rows in the order its rules rank them (overall, by the chosen criterion, or by the matrix), as the server ranked them. */
 export function rankedRows(results: DotVoteResults): DotVoteResults['overall'] {
-  return results.rules.rankBy === OVERALL_CRITERION ? results.overall : (results.perCriterion[results.rules.rankBy] ?? results.overall);
+  return results.ranked;
 }
 
 /** Each option's short key on the projector: its place in the ranked list (1, 2, 3 …), unique even where ranks tie. */
