@@ -284,6 +284,8 @@ test('every screen fits the longest content at every device size: projector, con
       const name = `projector-${label}-${size.width}x${size.height}`;
       report.push(`${name}: smallest text ${p.minTextPx.toFixed(1)} px (limit ${minPx.toFixed(1)}), pages ${pages}`);
       if (!codeOnScreen) fail.push(`${name}: the join code is off screen`);
+      // While results show, the join panel is a corner: the code stays, the big QR code goes and leaves the room to the results.
+      if (label.endsWith('-results') && (await projector.getByTestId('projector-qr').count())) fail.push(`${name}: the QR code still takes room over the results`);
       for (const [k, list] of Object.entries({ crossing: p.crossing, clipped: p.clipped, smallText: p.smallText })) {
         if (list.length) fail.push(`${name} ${k}: ${list.slice(0, 4).join(' | ')}${list.length > 4 ? ` (+${list.length - 4})` : ''}`);
       }
@@ -328,6 +330,26 @@ test('every screen fits the longest content at every device size: projector, con
       }
       await snap(phone, name);
     }
+  };
+
+  // The console steps the projector's pages ("page n of m", previous / next); with nobody stepping, the pages turn by themselves.
+  const stepPages = async () => {
+    await projector.setViewportSize(PROJECTORS[0]!);
+    const words = consolePage.getByTestId('projector-page-words');
+    const mark = projector.getByTestId('projector-page');
+    await expect(words).toHaveText(/^Projector page \d+ of \d+$/);
+    const [from, of] = (await mark.textContent())!.split('/').map(Number) as [number, number];
+    const at = (n: number) => (((n - 1) % of) + of) % of + 1;
+    await consolePage.getByTestId('page-next').click();
+    await expect(mark).toHaveText(`${at(from + 1)}/${of}`);
+    await expect(words).toHaveText(`Projector page ${at(from + 1)} of ${of}`);
+    await consolePage.getByTestId('page-back').click();
+    await consolePage.getByTestId('page-back').click();
+    await expect(mark).toHaveText(`${at(from - 1)}/${of}`);
+    await expect(words).toHaveText(`Projector page ${at(from - 1)} of ${of}`);
+    // The next turn by itself comes a full turn (12 s) after the last step.
+    await expect(mark).toHaveText(`${at(from)}/${of}`, { timeout: 15_000 });
+    await expect(words).toHaveText(`Projector page ${at(from)} of ${of}`);
   };
 
   const parts: Record<string, string[]> = {
@@ -426,6 +448,7 @@ test('every screen fits the longest content at every device size: projector, con
       await cmd(ownerSock, 'session:reveal', { revealed: true });
       if (t === 'dot_vote' || t === 'preference_vote') await expect(projector.getByTestId('projector-results')).toBeVisible();
       await checkProjector(`${t}-results`);
+      if (t === 'insights') await stepPages();
       await cmd(ownerSock, 'session:reveal', { revealed: false });
     }
     write();

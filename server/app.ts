@@ -37,6 +37,8 @@ import { SessionsService } from './features/live/sessions.service';
 import { registerLiveSocket, watchAccountChanges } from './features/live/live.socket';
 import { TeamsService } from './features/teams/teams.service';
 import { registerTeamsSocket } from './features/teams/teams.socket';
+import { PagesService } from './features/live/pages.service';
+import { registerPagesSocket } from './features/live/pages.socket';
 import { ActivitiesService } from './features/activities/activities.service';
 import { registerActivitiesSocket } from './features/activities/activities.socket';
 import { PhotosService } from './features/activities/photos.service';
@@ -263,6 +265,8 @@ export async function createApp(config: Config): Promise<CairnApp> {
   voting.useTeams(teams);
   activities.attach(io);
   voting.attach(io);
+  const pages = new PagesService();
+  pages.attach(io);
   const participantSockets = new ParticipantSockets();
   io.on('connection', (socket) => {
     // Facilitators' screens are trusted more than a room of phones, but every socket is throttled; a
@@ -274,6 +278,7 @@ export async function createApp(config: Config): Promise<CairnApp> {
     registerTeamsSocket(commands, teams);
     registerActivitiesSocket(commands, activities);
     registerVotingSocket(commands, voting, socket, ctx);
+    registerPagesSocket(commands, pages);
   });
 
   return {

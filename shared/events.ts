@@ -46,7 +46,19 @@ export const LivePayloads = {
   consent: z.object({ photoConsent: z.boolean() }),
   /** Payload of `submission:list`. */
   submissionList: z.object({ itemId: z.string().min(1).max(64) }),
+  /** Payload of `pages:show`: the page a projector shows of the view `key` (item and whether results show). */
+  pagesShow: z
+    .object({ key: z.string().max(100), page: z.number().int().min(0).max(998), pages: z.number().int().min(1).max(999) })
+    .strict()
+    .refine((p) => p.page < p.pages, { message: 'The page is not one of the pages', path: ['page'] }),
+  /** Payload of `pages:turn`: one page on or back, on the view `key` the console saw. */
+  pagesTurn: z.object({ key: z.string().max(100), step: z.union([z.literal(1), z.literal(-1)]) }).strict(),
 };
+
+/** The page a projector shows of a view that does not fit one screen (its pager's "2/5"). */
+export type PagesShown = z.infer<typeof LivePayloads.pagesShow>;
+/** A page turn the console asked for, to the projectors. */
+export type PagesTurn = z.infer<typeof LivePayloads.pagesTurn>;
 
 /** Events a client sends to the server (commands are `entity:verb`; each answers through its ack). */
 export interface ClientToServerEvents {
@@ -146,6 +158,12 @@ export interface ClientToServerEvents {
   'storyboard:reorder': (payload: z.input<typeof ActivityPayloads.reorder>, ack: AckFn<string[]>) => void;
   /** Console: put any storyboard's frames in order. */
   'storyboard:arrange': (payload: z.input<typeof ActivityPayloads.arrange>, ack: AckFn<string[]>) => void;
+  /** Projector: which page of a paged view it shows (after every turn, by itself or asked), for the console. */
+  'pages:show': (payload: z.input<typeof LivePayloads.pagesShow>, ack: AckFn<PagesShown>) => void;
+  /** Console: turn the projectors' page; answers with the page last shown (the projectors say the new one once turned). */
+  'pages:turn': (payload: z.input<typeof LivePayloads.pagesTurn>, ack: AckFn<PagesShown | null>) => void;
+  /** Console: the page a projector said it shows last (null when none pages), for a console opened meanwhile. */
+  'pages:get': (payload: Record<string, never>, ack: AckFn<PagesShown | null>) => void;
 }
 
 /** A live-session command: every client-to-server event but the clock's ping, which any socket may send. */
@@ -154,10 +172,11 @@ export type Command = Exclude<keyof ClientToServerEvents, 'clock:ping'>;
 /**
  * Who may send a command: `account` (a signed-in facilitator or observer, before watching),
  * `screen` (any screen attached to a session: a phone, a projector, or an account watching it),
+ * `display` (a screen of the room that is not a phone: a projector, or an account watching),
  * `participant` (a phone that joined), `runner` (an owner or co-facilitator watching the session,
  * checked afresh on every command).
  */
-export type CommandAccess = 'account' | 'screen' | 'participant' | 'runner';
+export type CommandAccess = 'account' | 'screen' | 'display' | 'participant' | 'runner';
 
 /**
  * Who may send each live command: the one declaration the server's socket registry authorises by
@@ -215,6 +234,9 @@ export const COMMAND_ACCESS = {
   'rounds:set': 'runner',
   'storyboard:reorder': 'participant',
   'storyboard:arrange': 'runner',
+  'pages:show': 'display',
+  'pages:turn': 'runner',
+  'pages:get': 'runner',
 } as const satisfies Record<Command, CommandAccess>;
 
 /** Why an open console lost its rights: its account was signed out everywhere or disabled, or its role taken away. */
@@ -254,6 +276,10 @@ export interface ServerToClientEvents {
   'rounds:updated': (round: RoundView) => void;
   /** The session's promoted notes and themes changed (to the facilitators). */
   'promotions:updated': (options: PromotedOption[]) => void;
+  /** A projector turned the page of a paged view (to the facilitators, so the console says "page 2 of 5"). */
+  'pages:shown': (shown: PagesShown) => void;
+  /** The console asked the projectors to turn the page (to the session's screens). */
+  'pages:turned': (turn: PagesTurn) => void;
 }
 
 /** What the server remembers about each socket once it has authenticated. */

@@ -1,7 +1,7 @@
 import { defineStore } from 'pinia';
 import { computed, ref, shallowRef } from 'vue';
 import { ClockSync } from '../../shared/clock';
-import type { Ack, ClientToServerEvents } from '../../shared/events';
+import type { Ack, ClientToServerEvents, PagesShown, PagesTurn } from '../../shared/events';
 import type { LiveState, Me, ParticipantView, ScreenState, SubmissionInput, SubmissionView } from '../../shared/schemas/live';
 import type { Team } from '../../shared/schemas/team';
 import { connectSocket, type CairnSocket } from '../socket/client';
@@ -38,6 +38,10 @@ export const useLiveStore = defineStore('live', () => {
   const offsetMs = ref(0);
   const errorBoundMs = ref(Infinity);
   const outbox = ref<SubmissionInput[]>([]);
+  /** Console: the page a projector shows of a view that does not fit one screen. */
+  const pagesShown = ref<PagesShown | null>(null);
+  /** Projector: the last page turn the console asked for (a new object each time, to watch). */
+  const pageTurn = shallowRef<PagesTurn | null>(null);
   const socket = shallowRef<CairnSocket | null>(null);
   /** Goes up each time the socket is attached to the session (after every (re)connection), for the activity and voting views to reload. */
   const attached = ref(0);
@@ -219,6 +223,8 @@ export const useLiveStore = defineStore('live', () => {
       const teamOf = new Map(t.flatMap((team) => team.members.map((m) => [m.id, team.id] as const)));
       participants.value = participants.value.map((p) => ({ ...p, teamId: teamOf.get(p.id) ?? null }));
     });
+    s.on('pages:shown', (p) => (pagesShown.value = p));
+    s.on('pages:turned', (t) => (pageTurn.value = { ...t }));
     s.on('submission:created', (sub) => {
       if (!submissions.value.some((x) => x.id === sub.id)) submissions.value = [...submissions.value, sub];
     });
@@ -237,6 +243,8 @@ export const useLiveStore = defineStore('live', () => {
     teams.value = [];
     submissions.value = [];
     lastMessage.value = null;
+    pagesShown.value = null;
+    pageTurn.value = null;
     outbox.value = [];
     outboxKey = '';
     rejected.value = null;
@@ -290,6 +298,8 @@ export const useLiveStore = defineStore('live', () => {
     teams,
     submissions,
     lastMessage,
+    pagesShown,
+    pageTurn,
     offsetMs,
     errorBoundMs,
     outbox,

@@ -156,6 +156,7 @@ const KINDS: Kind[] = ['phone', 'projector', 'observer', 'runner', 'revoked'];
 const ALLOWS: Record<CommandAccess, Kind[]> = {
   account: ['observer', 'runner'],
   screen: ['phone', 'projector', 'observer', 'runner'],
+  display: ['projector', 'observer', 'runner'],
   participant: ['phone'],
   runner: ['runner'],
 };
@@ -170,6 +171,8 @@ const PINNED: Partial<Record<Command, Kind[]>> = {
   'vote:dot': ['phone'],
   'session:sync': ['phone', 'projector', 'observer', 'runner'],
   'activity:board': ['phone', 'projector', 'observer', 'runner'],
+  'pages:show': ['projector', 'observer', 'runner'],
+  'pages:turn': ['runner'],
 };
 
 describe('every socket command from every kind of socket', () => {

@@ -96,8 +96,11 @@ export function registerLiveSocket(socket: LiveSocket, ctx: AppContext, live: Li
     });
   });
 
-  const allow = async (need: Need): Promise<Allowed> => {
+  const allow = async (declared: Need): Promise<Allowed> => {
     await ready;
+    // A display command is a screen command that phones never send.
+    if (declared === 'display' && data.kind === 'participant') throw errors.forbidden('Only the room’s screens can do that');
+    const need = declared === 'display' ? 'screen' : declared;
     if (need === 'participant' || (need === 'screen' && data.kind === 'participant')) {
       if (!participant) throw errors.forbidden(data.kind === 'participant' ? 'Join the session again' : 'Only participants can do that');
       return { sessionId: participant.sessionId, participantId: participant.id };
@@ -137,7 +140,7 @@ export function registerLiveSocket(socket: LiveSocket, ctx: AppContext, live: Li
     // A phone or a projector can never run a facilitator's command, nor a projector a phone's: such
     // sockets do not carry those handlers at all (a room of phones is most of the server's memory);
     // the catch-all below answers `forbidden` for them.
-    if ((need === 'runner' && data.kind !== 'user') || (need === 'participant' && data.kind !== 'participant')) {
+    if ((need === 'runner' && data.kind !== 'user') || (need === 'participant' && data.kind !== 'participant') || (need === 'display' && data.kind === 'participant')) {
       refused.add(event);
       return;
     }

@@ -52,3 +52,6 @@ export function teamName(board: ActivityBoard | null, teamId: string | null): st
   if (!teamId) return 'Without a team';
   return board?.teams.find((t) => t.id === teamId)?.name ?? 'An earlier team';
 }
+
+/** Notes longer than this (characters) may continue in the projector's next column instead of leaving most of a column empty. */
+export const LONG_NOTE = 160;

@@ -55,3 +55,6 @@ export function rankedRows(results: DotVoteResults): DotVoteResults['overall'] {
 export function optionKeys(results: DotVoteResults): Map<string, number> {
   return new Map(rankedRows(results).map((r, i) => [r.optionId, i + 1]));
 }
+
+/** Options longer than this (characters) may continue in the projector's next column instead of leaving most of a column empty. */
+export const LONG_OPTION = 160;
