@@ -133,6 +133,12 @@ async function audit(url: string, storage: Record<string, string>) {
       lcpMs: lhr.audits['largest-contentful-paint']!.numericValue ?? NaN,
       tbtMs: lhr.audits['total-blocking-time']!.numericValue ?? NaN,
       failing: [...failing('performance'), ...failing('accessibility'), ...failing('best-practices')],
+      // What a failing best-practices or accessibility audit found, so a point lost says where.
+      findings: [...failing('accessibility'), ...failing('best-practices')].map((f) => {
+        const id = f.split(' ')[0]!;
+        const items = (lhr.audits[id]!.details as { items?: unknown[] } | undefined)?.items ?? [];
+        return `${id}: ${JSON.stringify(items).slice(0, 600)}`;
+      }),
       problem: lhr.runtimeError?.message ?? null,
     };
   } finally {
@@ -181,7 +187,9 @@ async function main(): Promise<void> {
     ];
     const browser = await chromium.launch({ executablePath: CHROME, args: CHROMIUM_FLAGS });
     const rows: Record<string, unknown>[] = [];
-    for (const route of routes) {
+    // `--only TEXT`: just the routes whose name holds it (e.g. `--only welcome`).
+    const only = arg('only', '');
+    for (const route of routes.filter((r) => r.name.includes(only))) {
       if (route.index !== undefined) await goto(route.index);
       const loads: Load[] = [];
       for (let i = 0; i < RUNS; i++) loads.push(await loadOnce(browser, route.url, route.ready, route.storage));
@@ -205,7 +213,7 @@ async function main(): Promise<void> {
       console.log(
         `${route.name.padEnd(18)} ${String(row.requests).padStart(3)} requests  JS ${String(row.jsKB).padStart(6)} kB  CSS ${String(row.cssKB).padStart(5)} kB  fonts ${String(row.fontKB).padStart(5)} kB  other ${String(row.otherKB).padStart(5)} kB  total ${String(row.totalKB).padStart(6)} kB  FCP ${row.fcpMs} ms (median of ${RUNS})` +
           (lh
-            ? `\n${''.padEnd(18)} Lighthouse performance ${lh.performance} accessibility ${lh.accessibility} best practices ${lh.bestPractices} (FCP ${Math.round(lh.fcpMs)} ms, LCP ${Math.round(lh.lcpMs)} ms, TBT ${Math.round(lh.tbtMs)} ms)${lh.failing.length ? `\n${''.padEnd(18)} below 1: ${lh.failing.join(', ')}` : ''}${lh.problem ? `\n${''.padEnd(18)} Lighthouse could not finish: ${lh.problem}` : ''}`
+            ? `\n${''.padEnd(18)} Lighthouse performance ${lh.performance} accessibility ${lh.accessibility} best practices ${lh.bestPractices} (FCP ${Math.round(lh.fcpMs)} ms, LCP ${Math.round(lh.lcpMs)} ms, TBT ${Math.round(lh.tbtMs)} ms)${lh.failing.length ? `\n${''.padEnd(18)} below 1: ${lh.failing.join(', ')}` : ''}${lh.findings.map((f) => `\n${''.padEnd(18)} ${f}`).join('')}${lh.problem ? `\n${''.padEnd(18)} Lighthouse could not finish: ${lh.problem}` : ''}`
             : ''),
       );
     }

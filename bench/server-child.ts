@@ -10,7 +10,7 @@ import path from 'node:path';
 import type { AddressInfo } from 'node:net';
 import { monitorEventLoopDelay } from 'node:perf_hooks';
 import { Session } from 'node:inspector/promises';
-import { writeFileSync, mkdirSync } from 'node:fs';
+import { writeFileSync, mkdirSync, rmSync } from 'node:fs';
 import { Server } from 'socket.io';
 import { createApp, type CairnApp } from '../server/app';
 import { loadConfig } from '../server/config/env';
@@ -26,6 +26,8 @@ let profiler: Session | null = null;
 let dataDir = '';
 
 type Request = { id: number; type: 'stats' | 'gc' | 'reset' | 'dots' | 'broadcast' | 'close'; payload?: unknown };
+/** What the current measuring window is called (the CPU profile's file name). */
+let windowName = 'burst';
 
 function reply(id: number, data: unknown): void {
   process.send?.({ id, data });
@@ -46,13 +48,18 @@ async function main(): Promise<void> {
     bareIo.on('connection', (socket) => {
       void socket.join('room');
       socket.on('ping:ack', (_p: unknown, ack: (a: unknown) => void) => ack({ data: true }));
+      // The burst's baseline: every dot acknowledged at once, nothing checked or stored.
+      socket.on('vote:dot', (_p: unknown, ack: (a: unknown) => void) => ack({ data: { duplicate: false } }));
     });
   }
   await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
   process.send?.({ ready: true, port: (server.address() as AddressInfo).port });
 
   // The benchmark stopped (finished or failed): so does this server.
-  process.on('disconnect', () => process.exit(0));
+  process.on('disconnect', () => {
+    if (dataDir) rmSync(dataDir, { recursive: true, force: true });
+    process.exit(0);
+  });
   process.on('message', async (msg: Request) => {
     switch (msg.type) {
       case 'gc':
@@ -60,6 +67,7 @@ async function main(): Promise<void> {
         reply(msg.id, process.memoryUsage().heapUsed);
         break;
       case 'reset':
+        windowName = (msg.payload as { name?: string } | undefined)?.name ?? 'burst';
         // BENCH_PROFILE=1: a CPU profile of the burst alone, for finding the hot path.
         if (process.env.BENCH_PROFILE) {
           profiler = new Session();
@@ -76,7 +84,7 @@ async function main(): Promise<void> {
         if (profiler) {
           const { profile } = await profiler.post('Profiler.stop');
           mkdirSync('.test-output/prof', { recursive: true });
-          writeFileSync(`.test-output/prof/burst-${mode}.cpuprofile`, JSON.stringify(profile));
+          writeFileSync(`.test-output/prof/${windowName}-${mode}.cpuprofile`, JSON.stringify(profile));
           profiler = null;
         }
         reply(msg.id, {
@@ -100,10 +108,10 @@ async function main(): Promise<void> {
         reply(msg.id, true);
         break;
       case 'close':
+        // The SQLite file stays for bench/run.ts to check against what was acknowledged; it removes the folder.
         if (cairn) await cairn.close();
         else await new Promise<void>((resolve) => bareIo!.close(() => resolve()));
-        if (dataDir) await fs.rm(dataDir, { recursive: true, force: true });
-        reply(msg.id, true);
+        reply(msg.id, cairn ? { dataDir, databasePath: cairn.ctx.config.databasePath } : null);
         process.exit(0);
     }
   });
