@@ -1,5 +1,5 @@
 import { isBreakItem } from './activities';
-import { toClock, toMinutes } from './schedule';
+import { flowTimes, toClock, toMinutes } from './schedule';
 import { atLeast, finite } from './numbers';
 import type { AgendaItem } from './schemas/agenda-item';
 import type { DayWindow } from './schemas/day-window';
@@ -22,6 +22,22 @@ export interface DriftInput {
    * moves with it, so the session keeps the day's length. Times may then pass midnight (> 1440).
    */
   anchorMin?: number;
+  /**
+   * How far pinned clock times move with the anchor ({@link DriftAnchor.pinnedShiftMin}): 0 on the
+   * workshop's own date, where the catering comes at 12:30 however the day started. Defaults to the
+   * anchor's whole shift (the plan moves as one).
+   */
+  pinnedShiftMin?: number;
+}
+
+/** When an item from the current one on is now expected to run, in minutes since midnight. */
+export interface ProjectedTime {
+  id: string;
+  startMin: number;
+  endMin: number;
+  /** Idle minutes left before a pinned item: the buffer still there after the drift so far. */
+  bufferBeforeMin: number;
+  pinned: boolean;
 }
 
 /** The live day against the plan. */
@@ -34,8 +50,13 @@ export interface Drift {
   driftMin: number;
   /** The agenda's end by the plan. */
   plannedEndMin: number;
-  /** Now + what is left of the current item + the timeboxes of every later item. */
+  /**
+   * Now + what is left of the current item + the later items as they flow: back to back, a pinned
+   * item at its clock time or, when the items before it run past that, as soon as they end.
+   */
   projectedEndMin: number;
+  /** The current and later items as now expected, pinned items at their clock time while the buffer lasts. */
+  projected: ProjectedTime[];
   projectedEnd: string;
   /** Projected end − window end: positive when the day runs past its end, negative when early. */
   overrunMin: number;
@@ -61,14 +82,21 @@ export function computeDrift(input: DriftInput): Drift {
   if (input.anchorMin !== undefined) finite('The anchor', input.anchorMin);
   for (const item of items) atLeast(`The timebox of “${item.title}”`, item.timeboxMin, 0);
   const shiftMin = input.anchorMin === undefined ? 0 : input.anchorMin - toMinutes(window.start);
+  const pinShiftMin = input.pinnedShiftMin === undefined ? shiftMin : finite('The shift of pinned times', input.pinnedShiftMin);
   const startMin = toMinutes(window.start) + shiftMin;
-  let plannedStartMin = startMin;
-  for (let i = 0; i < currentIndex; i++) plannedStartMin += items[i]!.timeboxMin;
-  let laterMin = 0;
-  for (let i = currentIndex + 1; i < items.length; i++) laterMin += items[i]!.timeboxMin;
+  // The plan and the projection flow by the one rule of shared/schedule (flowTimes): a pinned item keeps
+  // its clock time and the gap before it is buffer; live, that buffer absorbs drift before the pin moves.
+  const plan = flowTimes(items, startMin, { pinShiftMin });
+  const plannedStartMin = plan[currentIndex]!.startMin;
+  const plannedEndMin = plan.reduce((end, p) => Math.max(end, p.endMin), startMin);
 
-  const plannedEndMin = plannedStartMin + items[currentIndex]!.timeboxMin + laterMin;
-  const projectedEndMin = input.nowMin + input.currentRemainingMin + laterMin;
+  const currentEndMin = input.nowMin + input.currentRemainingMin;
+  const later = flowTimes(items.slice(currentIndex + 1), currentEndMin, { pinShiftMin, lateStart: 'wait' });
+  const projected: ProjectedTime[] = [
+    { id: items[currentIndex]!.id, startMin: input.currentStartedAtMin, endMin: currentEndMin, bufferBeforeMin: 0, pinned: !!items[currentIndex]!.pinnedAt },
+    ...later.map((f, i) => ({ id: items[currentIndex + 1 + i]!.id, startMin: f.startMin, endMin: f.endMin, bufferBeforeMin: f.bufferBeforeMin, pinned: f.pinned })),
+  ];
+  const projectedEndMin = later.reduce((end, f) => Math.max(end, f.endMin), currentEndMin);
 
   const planned = new Map(items.map((i) => [i.id, i.timeboxMin]));
   let completedOverMin = 0;
@@ -83,6 +111,7 @@ export function computeDrift(input: DriftInput): Drift {
     driftMin: projectedEndMin - plannedEndMin,
     plannedEndMin,
     projectedEndMin,
+    projected,
     projectedEnd: toClock(projectedEndMin),
     overrunMin: projectedEndMin - (toMinutes(window.end) + shiftMin),
     completedOverMin,
@@ -205,6 +234,12 @@ export interface DriftAnchor {
   reason: DriftAnchorReason;
   /** How late the first item started against the plan (0 unless `reason` is `'late'`). */
   lateMin: number;
+  /**
+   * How far pinned clock times move: 0 on the workshop's date (lunch pinned at 12:30 stays at 12:30
+   * when the day started late: the buffer before it takes the late minutes), the whole shift on another
+   * date (a rehearsal keeps the day's shape).
+   */
+  pinnedShiftMin: number;
 }
 
 /**
@@ -231,8 +266,10 @@ export function driftAnchor(input: {
   finite('The window’s start', input.windowStartMin);
   finite('The start', input.startedMin);
   const grace = finite('The grace', input.graceMin ?? 1);
-  if (input.startedDate !== input.workshopDate) return { anchorMin: input.startedMin, reason: 'other_date', lateMin: 0 };
+  if (input.startedDate !== input.workshopDate) {
+    return { anchorMin: input.startedMin, reason: 'other_date', lateMin: 0, pinnedShiftMin: input.startedMin - input.windowStartMin };
+  }
   const late = input.startedMin - input.windowStartMin;
-  if (late >= grace) return { anchorMin: input.startedMin, reason: 'late', lateMin: late };
-  return { anchorMin: input.windowStartMin, reason: 'plan', lateMin: 0 };
+  if (late >= grace) return { anchorMin: input.startedMin, reason: 'late', lateMin: late, pinnedShiftMin: 0 };
+  return { anchorMin: input.windowStartMin, reason: 'plan', lateMin: 0, pinnedShiftMin: 0 };
 }

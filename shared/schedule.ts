@@ -112,8 +112,57 @@ export function toClock(min: number): string {
   return `${String(Math.floor(m / 60)).padStart(2, '0')}:${String(m % 60).padStart(2, '0')}`;
 }
 
+/** When one item runs as the agenda flows (see {@link flowTimes}), in minutes since midnight. */
+export interface FlowedTime {
+  startMin: number;
+  endMin: number;
+  /** Idle minutes before a pinned item whose clock time comes after the items before it end. */
+  bufferBeforeMin: number;
+  pinned: boolean;
+  /** When the items before a pinned item run past its clock time: when they end (the overlap's end); else null. */
+  overlapUntilMin: number | null;
+}
+
 /**
- * Lays the items back to back from the window's start and checks the plan against the rules.
+ * The one rule of how an agenda flows, for the plan and the live projection alike: items run back to
+ * back from `startMin`; a pinned item starts at its clock time (moved by `pinShiftMin`, e.g. for a
+ * rehearsal on another date), leaving a buffer when the items before it end earlier. In the plan
+ * (`lateStart: 'overlap'`) a pinned item still starts at its time when the items before it run later
+ * (an overlap, which the plan warns about); live (`lateStart: 'wait'`) it starts when they end, so
+ * a buffer absorbs drift and only drift beyond it moves the pinned item.
+ * @example flowTimes([{ timeboxMin: 30, pinnedAt: null }, { timeboxMin: 60, pinnedAt: '12:30' }], 600)[1] // { startMin: 750, endMin: 810, bufferBeforeMin: 120, … }
+ */
+export function flowTimes(
+  items: readonly Pick<AgendaItem, 'timeboxMin' | 'pinnedAt'>[],
+  startMin: number,
+  options: { pinShiftMin?: number; lateStart?: 'overlap' | 'wait' } = {},
+): FlowedTime[] {
+  finite('The start', startMin);
+  const shift = finite('The shift of pinned times', options.pinShiftMin ?? 0);
+  let t = startMin;
+  return items.map((item) => {
+    let s = t;
+    let bufferBeforeMin = 0;
+    let overlapUntilMin: number | null = null;
+    if (item.pinnedAt) {
+      const p = toMinutes(item.pinnedAt) + shift;
+      if (p >= t) {
+        bufferBeforeMin = p - t;
+        s = p;
+      } else if (options.lateStart !== 'wait') {
+        overlapUntilMin = t;
+        s = p;
+      }
+    }
+    const e = s + item.timeboxMin;
+    t = Math.max(t, e);
+    return { startMin: s, endMin: e, bufferBeforeMin, pinned: !!item.pinnedAt, overlapUntilMin };
+  });
+}
+
+/**
+ * Lays the items out from the window's start ({@link flowTimes}: back to back, pinned items at their
+ * clock time) and checks the plan against the rules.
  * Load counts every planned minute, breaks included, against the window from start to end.
  * "Day too short": the window cannot hold, at their shortest, one activity of each phase the agenda
  * uses (the shortest of the agenda's own items of that phase; with no activities yet, the shortest
@@ -129,24 +178,14 @@ export function computeSchedule(items: AgendaItem[], window: DayWindow, rules: R
   if (windowMin <= 0) throw new RangeError(`The workshop ends at ${window.end}, not after it starts at ${window.start}`);
   for (const item of items) atLeast(`The timebox of “${item.title}”`, item.timeboxMin, 0);
 
-  // Items run back to back from the start; a pinned item starts at its clock time, leaving a buffer
-  // when the items before it end earlier, and overlapping them (a warning) when they end later.
-  let t = startMin;
   const overlaps: { item: AgendaItem; pinnedMin: number; runsUntil: number; first: boolean }[] = [];
-  const scheduled: ScheduledItem[] = items.map((item, i) => {
-    let s = t;
-    let bufferBeforeMin = 0;
-    const pinned = !!item.pinnedAt;
-    if (item.pinnedAt) {
-      const p = toMinutes(item.pinnedAt);
-      if (p >= t) bufferBeforeMin = p - t;
-      else overlaps.push({ item, pinnedMin: p, runsUntil: t, first: i === 0 });
-      s = p;
-    }
-    const e = s + item.timeboxMin;
-    t = Math.max(t, e);
-    return { id: item.id, startMin: s, endMin: e, start: toClock(s), end: toClock(e), bufferBeforeMin, pinned };
+  const scheduled: ScheduledItem[] = flowTimes(items, startMin).map((f, i) => {
+    const item = items[i]!;
+    if (f.overlapUntilMin !== null) overlaps.push({ item, pinnedMin: f.startMin, runsUntil: f.overlapUntilMin, first: i === 0 });
+    return { id: item.id, startMin: f.startMin, endMin: f.endMin, start: toClock(f.startMin), end: toClock(f.endMin), bufferBeforeMin: f.bufferBeforeMin, pinned: f.pinned };
   });
+  // When the last item to finish ends (a pinned item may end before the items it overlaps).
+  const t = scheduled.reduce((end, x) => Math.max(end, x.endMin), startMin);
   const plannedMin = items.reduce((sum, item) => sum + item.timeboxMin, 0);
   // Multiply first: 306 × 100 / 360 is exactly 85, where 306 / 360 × 100 is not.
   const loadPct = (plannedMin * 100) / windowMin;

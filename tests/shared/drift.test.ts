@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { newAgendaItem } from '../../shared/activities';
 import { computeDrift, cutRunTimeboxes, driftAnchor, suggestShortening, undoRunCut, withRunTimeboxes } from '../../shared/drift';
-import { computeSchedule, toMinutes } from '../../shared/schedule';
+import { computeSchedule, flowTimes, toMinutes } from '../../shared/schedule';
 import { instantiateTemplate } from '../../shared/templates';
 import type { ActivityType, AgendaItem } from '../../shared/schemas/agenda-item';
 import { RuleSettings, type DayWindow } from '../../shared/schemas/day-window';
@@ -228,20 +228,86 @@ describe('suggestShortening', () => {
   });
 });
 
+describe('drift around an item pinned to a clock time', () => {
+  // Worked by hand (Cairn's own rule, issue "items at a fixed time": catering arrives at 12:30).
+  // Plan 10:00–14:00: A 10:00–11:00, B 11:00–12:00, 30 min buffer, lunch pinned 12:30–13:15, C 13:15–14:00.
+  const DAY: DayWindow = { doorsOpen: '09:30', doorsClose: '14:30', start: '10:00', end: '14:00' };
+  const PINNED = [
+    item('A', 'interview', 60, 40),
+    item('B', 'insights', 60, 40),
+    { ...item('L', 'lunch', 45, 45), pinnedAt: '12:30' },
+    item('C', 'sketch', 45, 30),
+  ];
+  const at = (d: ReturnType<typeof computeDrift>, id: string) => d.projected.find((p) => p.id === id)!;
+
+  it('plans the lunch at its clock time, with the gap before it as buffer, the same as the plan page', () => {
+    const d = computeDrift({ items: PINNED, window: DAY, currentIndex: 1, currentStartedAtMin: 660, currentRemainingMin: 50, nowMin: 670 });
+    expect(d).toMatchObject({ plannedStartMin: 660, startedLateMin: 0, driftMin: 0, plannedEndMin: 840, projectedEnd: '14:00', overrunMin: 0 });
+    expect(at(d, 'L')).toEqual({ id: 'L', startMin: 750, endMin: 795, bufferBeforeMin: 30, pinned: true });
+    // The plan page's schedule lays the day out by the same flow.
+    const plan = computeSchedule(PINNED, DAY, RuleSettings.parse({}));
+    expect(plan.items.find((i) => i.id === 'L')).toMatchObject({ start: '12:30', bufferBeforeMin: 30 });
+    expect(plan.endsAt).toBe('14:00');
+  });
+
+  it('lets the buffer absorb drift: 20 min late, lunch still starts at 12:30 and the day ends on plan', () => {
+    // A ran 20 min over; B started 11:20 and ends 12:20; 10 min of buffer are left before lunch.
+    const d = computeDrift({ items: PINNED, window: DAY, currentIndex: 1, currentStartedAtMin: 680, currentRemainingMin: 50, nowMin: 690 });
+    expect(d).toMatchObject({ startedLateMin: 20, driftMin: 0, projectedEnd: '14:00', overrunMin: 0 });
+    expect(at(d, 'L')).toMatchObject({ startMin: 750, bufferBeforeMin: 10 });
+    // Without the pin the same run ends 20 min late: 12:20 + 45 + 45 = 13:50 against a 13:30 plan.
+    const unpinned = PINNED.map((i) => ({ ...i, pinnedAt: null }));
+    expect(computeDrift({ items: unpinned, window: DAY, currentIndex: 1, currentStartedAtMin: 680, currentRemainingMin: 50, nowMin: 690 }).driftMin).toBe(20);
+  });
+
+  it('moves the pinned item only by the drift beyond its buffer: 40 min late, lunch at 12:40 and the day 10 min over', () => {
+    const d = computeDrift({ items: PINNED, window: DAY, currentIndex: 1, currentStartedAtMin: 700, currentRemainingMin: 50, nowMin: 710 });
+    expect(at(d, 'L')).toMatchObject({ startMin: 760, endMin: 805, bufferBeforeMin: 0 });
+    expect(d).toMatchObject({ driftMin: 10, projectedEnd: '14:10', overrunMin: 10 });
+  });
+
+  it('starts ahead of the buffer when early: lunch still waits for 12:30', () => {
+    // B ends 11:50 (10 min early): 40 min of buffer, nothing gained at the end.
+    const d = computeDrift({ items: PINNED, window: DAY, currentIndex: 1, currentStartedAtMin: 650, currentRemainingMin: 40, nowMin: 670 });
+    expect(at(d, 'L')).toMatchObject({ startMin: 750, bufferBeforeMin: 40 });
+    expect(d).toMatchObject({ driftMin: 0, projectedEnd: '14:00' });
+  });
+
+  it('keeps the pin at its clock time after a late start on the day, and moves it with a rehearsal on another date', () => {
+    // Started 20 min late on the workshop's date: the plan counts from 10:20, lunch stays at 12:30.
+    const late = driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-14', startedMin: 620 });
+    const d = computeDrift({ items: PINNED, window: DAY, currentIndex: 0, currentStartedAtMin: 620, currentRemainingMin: 50, nowMin: 630, anchorMin: late.anchorMin, pinnedShiftMin: late.pinnedShiftMin });
+    expect(at(d, 'L')).toMatchObject({ startMin: 750, bufferBeforeMin: 10 });
+    expect(d).toMatchObject({ plannedStartMin: 620, startedLateMin: 0, driftMin: 0, projectedEnd: '14:00' });
+    // A rehearsal at 23:00 the evening before: the whole day moves by 13 h, lunch to 01:30.
+    const rehearsal = driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-13', startedMin: 1380 });
+    const r = computeDrift({ items: PINNED, window: DAY, currentIndex: 0, currentStartedAtMin: 1380, currentRemainingMin: 60, nowMin: 1380, anchorMin: rehearsal.anchorMin, pinnedShiftMin: rehearsal.pinnedShiftMin });
+    expect(at(r, 'L')).toMatchObject({ startMin: 1530, bufferBeforeMin: 30 });
+    expect(r).toMatchObject({ driftMin: 0, projectedEnd: '03:00', overrunMin: 0 });
+  });
+
+  it('flows the plan and the live projection by one rule: the plan overlaps a pin, live waits for the items before it', () => {
+    const items = [{ timeboxMin: 90, pinnedAt: null }, { timeboxMin: 30, pinnedAt: '11:00' }];
+    expect(flowTimes(items, 600)[1]).toEqual({ startMin: 660, endMin: 690, bufferBeforeMin: 0, pinned: true, overlapUntilMin: 690 });
+    expect(flowTimes(items, 600, { lateStart: 'wait' })[1]).toEqual({ startMin: 690, endMin: 720, bufferBeforeMin: 0, pinned: true, overlapUntilMin: null });
+    expect(() => flowTimes(items, Number.NaN)).toThrow(RangeError);
+  });
+});
+
 describe('driftAnchor', () => {
   // Worked by hand: the window starts at 10:00 (600 min); Cairn's own rule (issue of a rehearsal the evening before).
   it('keeps the plan when the session runs on the workshop date and starts on time or early', () => {
-    expect(driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-14', startedMin: 600 })).toEqual({ anchorMin: 600, reason: 'plan', lateMin: 0 });
-    expect(driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-14', startedMin: 585 })).toEqual({ anchorMin: 600, reason: 'plan', lateMin: 0 });
+    expect(driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-14', startedMin: 600 })).toEqual({ anchorMin: 600, reason: 'plan', lateMin: 0, pinnedShiftMin: 0 });
+    expect(driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-14', startedMin: 585 })).toEqual({ anchorMin: 600, reason: 'plan', lateMin: 0, pinnedShiftMin: 0 });
   });
 
   it('anchors at the first start when the session starts late on the day', () => {
-    expect(driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-14', startedMin: 612 })).toEqual({ anchorMin: 612, reason: 'late', lateMin: 12 });
+    expect(driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-14', startedMin: 612 })).toEqual({ anchorMin: 612, reason: 'late', lateMin: 12, pinnedShiftMin: 0 });
   });
 
   it('anchors at the first start on any other date, early or late in the day', () => {
-    expect(driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-13', startedMin: 23 * 60 })).toEqual({ anchorMin: 1380, reason: 'other_date', lateMin: 0 });
-    expect(driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-20', startedMin: 480 })).toEqual({ anchorMin: 480, reason: 'other_date', lateMin: 0 });
+    expect(driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-13', startedMin: 23 * 60 })).toEqual({ anchorMin: 1380, reason: 'other_date', lateMin: 0, pinnedShiftMin: 780 });
+    expect(driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-20', startedMin: 480 })).toEqual({ anchorMin: 480, reason: 'other_date', lateMin: 0, pinnedShiftMin: -120 });
   });
 
   it('measures a rehearsal at 23:00 against its own start, not the time of day', () => {
