@@ -187,7 +187,7 @@ export function suggestThemes(notes: readonly ThemeNote[], options: ThemeOptions
   // changes only the rows that mention the two groups.
   const groups = candidates.map((index) => [index]);
   // The groups still open, in order; loops walk these instead of every slot as groups merge away.
-  let alive = candidates.map((_, i) => i);
+  const alive = candidates.map((_, i) => i);
   const bestAverage = new Float64Array(m).fill(-1);
   const bestPartner = new Int32Array(m).fill(-1);
   const refresh = (i: number): void => {
@@ -199,7 +199,10 @@ export function suggestThemes(notes: readonly ThemeNote[], options: ThemeOptions
       const sum = sums[i * m + j];
       if (sum === 0) continue;
       const value = sum / (size * groups[j].length);
-      if (value > average) [average, partner] = [value, j];
+      if (value > average) {
+        average = value;
+        partner = j;
+      }
     }
     bestAverage[i] = average;
     bestPartner[i] = partner;
@@ -210,9 +213,11 @@ export function suggestThemes(notes: readonly ThemeNote[], options: ThemeOptions
     for (const i of alive) if (bestPartner[i] >= 0 && (into < 0 || bestAverage[i] > bestAverage[into])) into = i;
     if (into < 0 || bestAverage[into] < minSimilarity) break;
     const from = bestPartner[into];
-    groups[into] = [...groups[into], ...groups[from]].sort((x, y) => x - y);
+    // In place: a join allocates nothing, so a wall of notes makes little garbage to collect.
+    groups[into].push(...groups[from]);
+    groups[into].sort((x, y) => x - y);
     groups[from] = [];
-    alive = alive.filter((k) => k !== from);
+    alive.splice(alive.indexOf(from), 1);
     for (const k of alive) {
       if (k === into) continue;
       const sum = sums[into * m + k] + sums[from * m + k];
@@ -229,7 +234,10 @@ export function suggestThemes(notes: readonly ThemeNote[], options: ThemeOptions
         const sum = sums[k * m + into];
         if (sum === 0) continue;
         const value = sum / (groups[k].length * groups[into].length);
-        if (value > bestAverage[k] || (value === bestAverage[k] && into < bestPartner[k])) [bestAverage[k], bestPartner[k]] = [value, into];
+        if (value > bestAverage[k] || (value === bestAverage[k] && into < bestPartner[k])) {
+          bestAverage[k] = value;
+          bestPartner[k] = into;
+        }
       }
     }
   }
