@@ -34,7 +34,8 @@ import { LiveService } from './features/live/live.service';
 import { liveRoutes } from './features/live/live.router';
 import { sessionsRoutes } from './features/live/sessions.router';
 import { SessionsService } from './features/live/sessions.service';
-import { registerLiveSocket, watchAccountChanges } from './features/live/live.socket';
+import { liveSessions, registerLiveCommands, watchAccountChanges } from './features/live/live.socket';
+import { SocketCommands } from './common/command';
 import { TeamsService } from './features/teams/teams.service';
 import { registerTeamsSocket } from './features/teams/teams.socket';
 import { PagesService } from './features/live/pages.service';
@@ -58,6 +59,8 @@ export interface CairnApp {
   server: http.Server;
   io: Server<ClientToServerEvents, ServerToClientEvents, Record<string, never>, SocketData>;
   ctx: AppContext;
+  /** The socket command registry (its `list()` names every command and whether a handler serves it). */
+  commands: SocketCommands;
   /** Closes sockets, the HTTP server, mail and the database. */
   close(): Promise<void>;
 }
@@ -267,18 +270,21 @@ export async function createApp(config: Config): Promise<CairnApp> {
   voting.attach(io);
   const pages = new PagesService();
   pages.attach(io);
+  // Every socket command, declared in shared/events.ts, gets its handler once here.
+  const commands = new SocketCommands(liveSessions(ctx, live), ctx.logger);
+  registerClockSocket(commands);
+  registerLiveCommands(commands, ctx, live);
+  registerTeamsSocket(commands, teams);
+  registerActivitiesSocket(commands, activities);
+  registerVotingSocket(commands, voting, ctx);
+  registerPagesSocket(commands, pages);
   const participantSockets = new ParticipantSockets();
   io.on('connection', (socket) => {
     // Facilitators' screens are trusted more than a room of phones, but every socket is throttled; a
     // participant's sockets are bounded in number and share one budget.
     if (socket.data.kind === 'participant' && socket.data.participantId) participantSockets.add(socket.data.participantId, socket);
     else limitSocketEvents(socket, { burst: 200, perSecond: 100 });
-    registerClockSocket(socket);
-    const commands = registerLiveSocket(socket, ctx, live);
-    registerTeamsSocket(commands, teams);
-    registerActivitiesSocket(commands, activities);
-    registerVotingSocket(commands, voting, socket, ctx);
-    registerPagesSocket(commands, pages);
+    commands.attach(socket);
   });
 
   return {
@@ -286,6 +292,7 @@ export async function createApp(config: Config): Promise<CairnApp> {
     server,
     io,
     ctx,
+    commands,
     async close() {
       // First, so the disconnects below schedule no announcements against a closing database.
       live.close();

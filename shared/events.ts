@@ -1,21 +1,21 @@
 import { z } from 'zod';
 import type { ErrorCode } from './errors';
-import type { LiveState, Me, ParticipantView, ScreenState, SubmissionView } from './schemas/live';
-import type { FormTeamsPayload, SetTeamsPayload, Team } from './schemas/team';
-import type {
-  BallotAnswer,
+import { SubmissionInput, type LiveState, type Me, type ParticipantView, type ScreenState, type SubmissionView } from './schemas/live';
+import { FormTeamsPayload, SetTeamsPayload, type Team } from './schemas/team';
+import {
   ChoosePayload,
   DotPayload,
-  MyBallot,
   ProposeTeamsPayload,
   RankPayload,
-  TeamProposal,
-  VoteResults,
   VoteSetupPayload,
-  VoteSources,
-  VoteView,
+  type BallotAnswer,
+  type MyBallot,
+  type TeamProposal,
+  type VoteResults,
+  type VoteSources,
+  type VoteView,
 } from './schemas/voting';
-import type { ActivityBoard, ActivityPayloads, PromotedOption, NoteView, RoundView, ThemeView } from './schemas/activities';
+import { ActivityPayloads, type ActivityBoard, type PromotedOption, type NoteView, type RoundView, type ThemeView } from './schemas/activities';
 
 /** Every socket command answers through an acknowledgement of this shape. */
 export type Ack<T> = { data: T } | { error: { code: ErrorCode; message: string } };
@@ -60,184 +60,111 @@ export type PagesShown = z.infer<typeof LivePayloads.pagesShow>;
 /** A page turn the console asked for, to the projectors. */
 export type PagesTurn = z.infer<typeof LivePayloads.pagesTurn>;
 
-/** Events a client sends to the server (commands are `entity:verb`; each answers through its ack). */
-export interface ClientToServerEvents {
-  'clock:ping': (payload: z.input<typeof ClockPing>, ack: AckFn<ClockPong>) => void;
-  /** Facilitator or display screen: join a session's rooms and get its state. */
-  'session:watch': (payload: z.input<typeof LivePayloads.watch>, ack: AckFn<LiveState>) => void;
-  /** Any screen: the current state again (after a reconnect); a phone gets a phone's state (no counts, no runs). */
-  'session:sync': (payload: Record<string, never>, ack: AckFn<ScreenState>) => void;
-  'session:next': (payload: Record<string, never>, ack: AckFn<LiveState>) => void;
-  'session:back': (payload: Record<string, never>, ack: AckFn<LiveState>) => void;
-  'session:goto': (payload: z.input<typeof LivePayloads.goto>, ack: AckFn<LiveState>) => void;
-  'timer:start': (payload: Record<string, never>, ack: AckFn<LiveState>) => void;
-  'timer:pause': (payload: Record<string, never>, ack: AckFn<LiveState>) => void;
-  'timer:resume': (payload: Record<string, never>, ack: AckFn<LiveState>) => void;
-  'timer:adjust': (payload: z.input<typeof LivePayloads.adjust>, ack: AckFn<LiveState>) => void;
-  'session:lock': (payload: z.input<typeof LivePayloads.lock>, ack: AckFn<LiveState>) => void;
-  'session:reveal': (payload: z.input<typeof LivePayloads.reveal>, ack: AckFn<LiveState>) => void;
-  'session:message': (payload: z.input<typeof LivePayloads.message>, ack: AckFn<LiveState>) => void;
-  /** Apply a shortening suggestion to the remaining items of this live run (the stored plan stays). */
-  'agenda:shorten': (payload: z.input<typeof LivePayloads.shorten>, ack: AckFn<LiveState>) => void;
-  /** Undo the last cut to this live run's timeboxes. */
-  'agenda:undo-cuts': (payload: Record<string, never>, ack: AckFn<LiveState>) => void;
-  /** Write this live run's cut timeboxes into the stored plan. */
-  'agenda:keep-cuts': (payload: Record<string, never>, ack: AckFn<LiveState>) => void;
-  /** Console: who is in the room. */
-  'participants:list': (payload: Record<string, never>, ack: AckFn<ParticipantView[]>) => void;
-  /** Phone: who am I (after a reload). */
-  'participant:me': (payload: Record<string, never>, ack: AckFn<Me>) => void;
-  /** Phone: change photo consent. */
-  'participant:consent': (payload: z.input<typeof LivePayloads.consent>, ack: AckFn<Me>) => void;
-  /** Phone: submit a note; a repeated clientId answers with the first result. */
-  'submission:create': (payload: unknown, ack: AckFn<{ id: string; duplicate: boolean }>) => void;
-  /** Console: the submissions of an item so far. */
-  'submission:list': (payload: { itemId: string }, ack: AckFn<SubmissionView[]>) => void;
-  /** Any screen: the session's teams. */
-  'teams:list': (payload: Record<string, never>, ack: AckFn<Team[]>) => void;
-  /** Console: split the room into teams as even as possible. */
-  'teams:form': (payload: z.input<typeof FormTeamsPayload>, ack: AckFn<Team[]>) => void;
-  /** Console: set the teams as decided (moves people, names challenges). */
-  'teams:set': (payload: z.input<typeof SetTeamsPayload>, ack: AckFn<Team[]>) => void;
-  /** Any screen: the current item's vote (a phone also gets its own ballot). */
-  'vote:state': (payload: Record<string, never>, ack: AckFn<VoteView>) => void;
-  /** Console: set the current item's vote up (options and rules) before it opens. */
-  'vote:setup': (payload: z.input<typeof VoteSetupPayload>, ack: AckFn<VoteView>) => void;
-  /** Console: open the current item's vote (again). */
-  'vote:open': (payload: Record<string, never>, ack: AckFn<VoteView>) => void;
-  /** Console: close the current item's vote; votes are final. */
-  'vote:close': (payload: Record<string, never>, ack: AckFn<VoteView>) => void;
-  /** Phone: add or take back one dot; a repeated clientId is applied once. */
-  'vote:dot': (payload: z.input<typeof DotPayload>, ack: AckFn<BallotAnswer>) => void;
-  /** Phone: put the options in order; a repeated clientId is applied once. */
-  'vote:rank': (payload: z.input<typeof RankPayload>, ack: AckFn<BallotAnswer>) => void;
-  /** Console any time, other screens once revealed: the current vote's results. */
-  'vote:results': (payload: Record<string, never>, ack: AckFn<VoteResults>) => void;
-  /** Console: carry the top N forward, with ties at the cut-off broken by the facilitator. */
-  'vote:choose': (payload: z.input<typeof ChoosePayload>, ack: AckFn<VoteView>) => void;
-  /** Console: what may become options: earlier notes and earlier votes' chosen options. */
-  'vote:sources': (payload: Record<string, never>, ack: AckFn<VoteSources>) => void;
-  /** Console: Cairn's teams from the current team sort, to adjust and confirm with `teams:set`. */
-  'teams:propose': (payload: z.input<typeof ProposeTeamsPayload>, ack: AckFn<TeamProposal>) => void;
-  /** Console: confirm a team sort's teams (as adjusted): sets them, closes the vote and records the confirmation. */
-  'teams:confirm': (payload: z.input<typeof SetTeamsPayload>, ack: AckFn<Team[]>) => void;
-  /** Any screen: what an activity shows of an item (a phone: its own and its team's notes; others: the room's, no names, nothing hidden). */
-  'activity:board': (payload: z.input<typeof ActivityPayloads.item>, ack: AckFn<ActivityBoard>) => void;
-  /** Console: every note of an item with names, hidden and merged ones, themes and promotions, to moderate. */
-  'notes:list': (payload: z.input<typeof ActivityPayloads.item>, ack: AckFn<ActivityBoard>) => void;
-  /** Console: hide notes from the room, or show them again (the undo). */
-  'notes:hide': (payload: z.input<typeof ActivityPayloads.hide>, ack: AckFn<NoteView[]>) => void;
-  /** Console: merge duplicates under the note to keep. */
-  'notes:merge': (payload: z.input<typeof ActivityPayloads.merge>, ack: AckFn<NoteView[]>) => void;
-  /** Console: a merged duplicate stands on its own again. */
-  'notes:unmerge': (payload: z.input<typeof ActivityPayloads.unmerge>, ack: AckFn<NoteView[]>) => void;
-  /** Console: make a note or a theme an option of a later vote (promoting twice answers with the first). */
-  'notes:promote': (payload: z.input<typeof ActivityPayloads.promote>, ack: AckFn<PromotedOption>) => void;
-  /** Console: take a promotion back. */
-  'notes:unpromote': (payload: z.input<typeof ActivityPayloads.unpromote>, ack: AckFn<PromotedOption[]>) => void;
-  /**
-   * Any screen: the notes and themes promoted to options of a later vote, in the order they were
-   * promoted (the whole session's, or one item's): `{ id, text, sourceKind: 'note' | 'theme', sourceId, itemId }[]`.
-   */
-  'notes:promoted': (payload: z.input<typeof ActivityPayloads.promoted>, ack: AckFn<PromotedOption[]>) => void;
-  /** Console: a new affinity theme, with the notes dropped into it. */
-  'themes:create': (payload: z.input<typeof ActivityPayloads.themeCreate>, ack: AckFn<ThemeView>) => void;
-  /** Console: accept suggested themes (as the facilitator changed them). */
-  'themes:apply': (payload: z.input<typeof ActivityPayloads.themeApply>, ack: AckFn<ThemeView[]>) => void;
-  /** Console: rename a theme (its promotion, if any, follows). */
-  'themes:rename': (payload: z.input<typeof ActivityPayloads.themeRename>, ack: AckFn<ThemeView>) => void;
-  /** Console: remove a theme; its notes go back to the ungrouped ones. */
-  'themes:delete': (payload: z.input<typeof ActivityPayloads.themeDelete>, ack: AckFn<{ id: string }>) => void;
-  /** Console: move notes into a theme (`themeId: null` takes them out). */
-  'themes:assign': (payload: z.input<typeof ActivityPayloads.themeAssign>, ack: AckFn<NoteView[]>) => void;
-  /** Any screen: the current round of an item run in rounds (rotating pairs, test rounds' visits). */
-  'rounds:get': (payload: z.input<typeof ActivityPayloads.item>, ack: AckFn<RoundView>) => void;
-  /** Console: go to a round, or draw the pairs again from whoever is online (`regroup`). */
-  'rounds:set': (payload: z.input<typeof ActivityPayloads.roundSet>, ack: AckFn<RoundView>) => void;
-  /** Phone: put the own team's storyboard frames in order. */
-  'storyboard:reorder': (payload: z.input<typeof ActivityPayloads.reorder>, ack: AckFn<string[]>) => void;
-  /** Console: put any storyboard's frames in order. */
-  'storyboard:arrange': (payload: z.input<typeof ActivityPayloads.arrange>, ack: AckFn<string[]>) => void;
-  /** Projector: which page of a paged view it shows (after every turn, by itself or asked), for the console. */
-  'pages:show': (payload: z.input<typeof LivePayloads.pagesShow>, ack: AckFn<PagesShown>) => void;
-  /** Console: turn the projectors' page; answers with the page last shown (the projectors say the new one once turned). */
-  'pages:turn': (payload: z.input<typeof LivePayloads.pagesTurn>, ack: AckFn<PagesShown | null>) => void;
-  /** Console: the page a projector said it shows last (null when none pages), for a console opened meanwhile. */
-  'pages:get': (payload: Record<string, never>, ack: AckFn<PagesShown | null>) => void;
+/**
+ * Who may send a command: `any` (every socket, e.g. the clock's ping), `account` (a signed-in
+ * facilitator or observer, before watching), `screen` (any screen attached to a session: a phone, a
+ * projector, or an account watching it), `display` (a screen of the room that is not a phone: a
+ * projector, or an account watching), `participant` (a phone that joined), `runner` (an owner or
+ * co-facilitator watching the session, its account checked afresh on every command).
+ */
+export type CommandAccess = 'any' | 'account' | 'screen' | 'display' | 'participant' | 'runner';
+
+/** One command's declaration: who may send it, its payload's schema, and (as a type only) its answer. */
+export interface CommandDef<S extends z.ZodType = z.ZodType, A = unknown> {
+  access: CommandAccess;
+  payload: S;
+  summary: string;
+  /** Never set at run time: it carries the answer's type to the types derived from the table. */
+  readonly answer?: { type: A };
 }
 
-/** A live-session command: every client-to-server event but the clock's ping, which any socket may send. */
-export type Command = Exclude<keyof ClientToServerEvents, 'clock:ping'>;
+/** Declares a command answering with `A`: `command<LiveState>()('runner', schema, 'what it does')`. */
+function command<A>() {
+  return <S extends z.ZodType>(access: CommandAccess, payload: S, summary: string): CommandDef<S, A> => ({ access, payload, summary });
+}
+
+const empty = LivePayloads.empty;
+const item = ActivityPayloads.item;
 
 /**
- * Who may send a command: `account` (a signed-in facilitator or observer, before watching),
- * `screen` (any screen attached to a session: a phone, a projector, or an account watching it),
- * `display` (a screen of the room that is not a phone: a projector, or an account watching),
- * `participant` (a phone that joined), `runner` (an owner or co-facilitator watching the session,
- * checked afresh on every command).
+ * Every command a client sends (`entity:verb`), declared once: who may send it, its payload's zod
+ * schema and its answer's type. The server's command registry (server/common/command.ts) authorises
+ * and parses by it, `ClientToServerEvents` and the client's `ask` derive their types from it, and the
+ * socket matrix test walks it.
  */
-export type CommandAccess = 'account' | 'screen' | 'display' | 'participant' | 'runner';
+export const COMMANDS = {
+  'clock:ping': command<ClockPong>()('any', ClockPing, "The server's receive and send times for the clock offset estimate (RFC 5905 §8)."),
+  'session:watch': command<LiveState>()('account', LivePayloads.watch, "Facilitator or observer: join a session's rooms and get its state."),
+  'session:sync': command<ScreenState>()('screen', empty, "Any screen: the current state again (after a reconnect); a phone gets a phone's state."),
+  'session:next': command<LiveState>()('runner', empty, 'Go to the next agenda item.'),
+  'session:back': command<LiveState>()('runner', empty, 'Go back to the previous agenda item.'),
+  'session:goto': command<LiveState>()('runner', LivePayloads.goto, 'Go to an agenda item by its place.'),
+  'timer:start': command<LiveState>()('runner', empty, "Start the current item's timer."),
+  'timer:pause': command<LiveState>()('runner', empty, "Pause the current item's timer."),
+  'timer:resume': command<LiveState>()('runner', empty, "Resume the current item's timer."),
+  'timer:adjust': command<LiveState>()('runner', LivePayloads.adjust, "Add or take time from the current item's timer."),
+  'session:lock': command<LiveState>()('runner', LivePayloads.lock, "Lock or unlock the phones' input."),
+  'session:reveal': command<LiveState>()('runner', LivePayloads.reveal, 'Show or hide the results on the other screens.'),
+  'session:message': command<LiveState>()('runner', LivePayloads.message, 'Send a short message to everyone in the session.'),
+  'agenda:shorten': command<LiveState>()('runner', LivePayloads.shorten, 'Apply a shortening suggestion to the remaining items of this live run (the stored plan stays).'),
+  'agenda:undo-cuts': command<LiveState>()('runner', empty, "Undo the last cut to this live run's timeboxes."),
+  'agenda:keep-cuts': command<LiveState>()('runner', empty, "Write this live run's cut timeboxes into the stored plan."),
+  'participants:list': command<ParticipantView[]>()('runner', empty, 'Who is in the room.'),
+  'participant:me': command<Me>()('participant', empty, 'Phone: who am I (after a reload).'),
+  'participant:consent': command<Me>()('participant', LivePayloads.consent, 'Phone: change photo consent.'),
+  'submission:create': command<{ id: string; duplicate: boolean }>()('participant', SubmissionInput, 'Phone: submit a note; a repeated clientId answers with the first result.'),
+  'submission:list': command<SubmissionView[]>()('runner', LivePayloads.submissionList, 'The submissions of an item so far.'),
+  'teams:list': command<Team[]>()('screen', empty, "Any screen: the session's teams."),
+  'teams:form': command<Team[]>()('runner', FormTeamsPayload, 'Split the room into teams as even as possible.'),
+  'teams:set': command<Team[]>()('runner', SetTeamsPayload, 'Set the teams as decided (moves people, names challenges).'),
+  'vote:state': command<VoteView>()('screen', empty, "Any screen: the current item's vote (a phone also gets its own ballot)."),
+  'vote:setup': command<VoteView>()('runner', VoteSetupPayload, "Set the current item's vote up (options and rules) before it opens."),
+  'vote:open': command<VoteView>()('runner', empty, "Open the current item's vote (again)."),
+  'vote:close': command<VoteView>()('runner', empty, "Close the current item's vote; votes are final."),
+  'vote:dot': command<BallotAnswer>()('participant', DotPayload, 'Phone: add or take back one dot; a repeated clientId is applied once.'),
+  'vote:rank': command<BallotAnswer>()('participant', RankPayload, 'Phone: put the options in order; a repeated clientId is applied once.'),
+  'vote:results': command<VoteResults>()('screen', empty, "The current vote's results: the facilitators' any time, other screens' once revealed."),
+  'vote:choose': command<VoteView>()('runner', ChoosePayload, 'Carry the top N forward, with ties at the cut-off broken by the facilitator.'),
+  'vote:sources': command<VoteSources>()('runner', empty, "What may become options: earlier notes and earlier votes' chosen options."),
+  'teams:propose': command<TeamProposal>()('runner', ProposeTeamsPayload, "Cairn's teams from the current team sort, to adjust and confirm with `teams:confirm`."),
+  'teams:confirm': command<Team[]>()('runner', SetTeamsPayload, "Confirm a team sort's teams (as adjusted): sets them, closes the vote and records the confirmation."),
+  'activity:board': command<ActivityBoard>()('screen', item, "What an activity shows of an item (a phone: its own and its team's notes; others: the room's, no names, nothing hidden)."),
+  'notes:list': command<ActivityBoard>()('runner', item, 'Every note of an item with names, hidden and merged ones, themes and promotions, to moderate.'),
+  'notes:hide': command<NoteView[]>()('runner', ActivityPayloads.hide, 'Hide notes from the room, or show them again (the undo).'),
+  'notes:merge': command<NoteView[]>()('runner', ActivityPayloads.merge, 'Merge duplicates under the note to keep.'),
+  'notes:unmerge': command<NoteView[]>()('runner', ActivityPayloads.unmerge, 'A merged duplicate stands on its own again.'),
+  'notes:promote': command<PromotedOption>()('runner', ActivityPayloads.promote, 'Make a note or a theme an option of a later vote (promoting twice answers with the first).'),
+  'notes:unpromote': command<PromotedOption[]>()('runner', ActivityPayloads.unpromote, 'Take a promotion back.'),
+  'notes:promoted': command<PromotedOption[]>()('screen', ActivityPayloads.promoted, 'Any screen: the notes and themes promoted to options of a later vote, in the order they were promoted (the whole session\'s, or one item\'s).'),
+  'themes:create': command<ThemeView>()('runner', ActivityPayloads.themeCreate, 'A new affinity theme, with the notes dropped into it.'),
+  'themes:apply': command<ThemeView[]>()('runner', ActivityPayloads.themeApply, 'Accept suggested themes (as the facilitator changed them).'),
+  'themes:rename': command<ThemeView>()('runner', ActivityPayloads.themeRename, 'Rename a theme (its promotion, if any, follows).'),
+  'themes:delete': command<{ id: string }>()('runner', ActivityPayloads.themeDelete, 'Remove a theme; its notes go back to the ungrouped ones.'),
+  'themes:assign': command<NoteView[]>()('runner', ActivityPayloads.themeAssign, 'Move notes into a theme (`themeId: null` takes them out).'),
+  'rounds:get': command<RoundView>()('screen', item, 'Any screen: the current round of an item run in rounds (rotating pairs, test rounds\' visits).'),
+  'rounds:set': command<RoundView>()('runner', ActivityPayloads.roundSet, 'Go to a round, or draw the pairs again from whoever is online (`regroup`).'),
+  'storyboard:reorder': command<string[]>()('participant', ActivityPayloads.reorder, "Phone: put the own team's storyboard frames in order."),
+  'storyboard:arrange': command<string[]>()('runner', ActivityPayloads.arrange, "Put any storyboard's frames in order."),
+  'pages:show': command<PagesShown>()('display', LivePayloads.pagesShow, 'Projector: which page of a paged view it shows (after every turn, by itself or asked), for the console.'),
+  'pages:turn': command<PagesShown | null>()('runner', LivePayloads.pagesTurn, "Turn the projectors' page; answers with the page last shown (the projectors say the new one once turned)."),
+  'pages:get': command<PagesShown | null>()('runner', empty, 'The page a projector said it shows last (null when none pages), for a console opened meanwhile.'),
+} as const satisfies Record<string, CommandDef>;
 
-/**
- * Who may send each live command: the one declaration the server's socket registry authorises by
- * and the socket matrix test walks. Listing every command is checked by the compiler.
- */
-export const COMMAND_ACCESS = {
-  'session:watch': 'account',
-  'session:sync': 'screen',
-  'session:next': 'runner',
-  'session:back': 'runner',
-  'session:goto': 'runner',
-  'timer:start': 'runner',
-  'timer:pause': 'runner',
-  'timer:resume': 'runner',
-  'timer:adjust': 'runner',
-  'session:lock': 'runner',
-  'session:reveal': 'runner',
-  'session:message': 'runner',
-  'agenda:shorten': 'runner',
-  'agenda:undo-cuts': 'runner',
-  'agenda:keep-cuts': 'runner',
-  'participants:list': 'runner',
-  'participant:me': 'participant',
-  'participant:consent': 'participant',
-  'submission:create': 'participant',
-  'submission:list': 'runner',
-  'teams:list': 'screen',
-  'teams:form': 'runner',
-  'teams:set': 'runner',
-  'vote:state': 'screen',
-  'vote:setup': 'runner',
-  'vote:open': 'runner',
-  'vote:close': 'runner',
-  'vote:dot': 'participant',
-  'vote:rank': 'participant',
-  'vote:results': 'screen',
-  'vote:choose': 'runner',
-  'vote:sources': 'runner',
-  'teams:propose': 'runner',
-  'teams:confirm': 'runner',
-  'activity:board': 'screen',
-  'notes:list': 'runner',
-  'notes:hide': 'runner',
-  'notes:merge': 'runner',
-  'notes:unmerge': 'runner',
-  'notes:promote': 'runner',
-  'notes:unpromote': 'runner',
-  'notes:promoted': 'screen',
-  'themes:create': 'runner',
-  'themes:apply': 'runner',
-  'themes:rename': 'runner',
-  'themes:delete': 'runner',
-  'themes:assign': 'runner',
-  'rounds:get': 'screen',
-  'rounds:set': 'runner',
-  'storyboard:reorder': 'participant',
-  'storyboard:arrange': 'runner',
-  'pages:show': 'display',
-  'pages:turn': 'runner',
-  'pages:get': 'runner',
-} as const satisfies Record<Command, CommandAccess>;
+/** A command's name. */
+export type Command = keyof typeof COMMANDS;
+/** What a client sends with a command (the schema's input). */
+export type CommandPayload<E extends Command> = z.input<(typeof COMMANDS)[E]['payload']>;
+/** What the server's handler receives once the payload is parsed (the schema's output). */
+export type CommandInput<E extends Command> = z.output<(typeof COMMANDS)[E]['payload']>;
+/** What a command's acknowledgement carries on success. */
+export type CommandAnswer<E extends Command> = NonNullable<(typeof COMMANDS)[E]['answer']>['type'];
+
+/** A command's payload argument: optional when the command's schema accepts an empty object. */
+// eslint-disable-next-line @typescript-eslint/no-empty-object-type
+export type CommandArgs<E extends Command> = {} extends CommandPayload<E> ? [payload?: CommandPayload<E>] : [payload: CommandPayload<E>];
+
+/** Events a client sends to the server, derived from COMMANDS: each takes its payload and answers through its ack. */
+export type ClientToServerEvents = { [E in Command]: (payload: CommandPayload<E>, ack: AckFn<CommandAnswer<E>>) => void };
 
 /** Why an open console lost its rights: its account was signed out everywhere or disabled, or its role taken away. */
 export type AccessRevokedReason = 'signed_out' | 'disabled' | 'removed' | 'demoted';

@@ -1,5 +1,5 @@
 import { io, type Socket } from 'socket.io-client';
-import type { ClientToServerEvents, ServerToClientEvents } from '../../shared/events';
+import type { Ack, ClientToServerEvents, Command, CommandAnswer, CommandPayload, ServerToClientEvents } from '../../shared/events';
 
 /** Cairn's typed socket: the server's broadcasts in, commands out. */
 export type CairnSocket = Socket<ServerToClientEvents, ClientToServerEvents>;
@@ -16,4 +16,17 @@ export function connectSocket(token: () => string | null): CairnSocket {
     reconnectionDelayMax: 8000,
     randomizationFactor: 0.5,
   });
+}
+
+/** What `emitWithAck` needs of a socket (a socket with a timeout set is one). */
+interface AckEmitter {
+  emitWithAck(event: string, payload: unknown): Promise<unknown>;
+}
+
+/**
+ * Sends a command and resolves with its acknowledgement. Typed by the command table; socket.io's
+ * own typing cannot follow a command name that is a type parameter, so the emit is made untyped here, once.
+ */
+export function emitCommand<E extends Command>(socket: AckEmitter, event: E, payload: CommandPayload<E> | undefined): Promise<Ack<CommandAnswer<E>>> {
+  return socket.emitWithAck(event, payload ?? {}) as Promise<Ack<CommandAnswer<E>>>;
 }

@@ -1,10 +1,10 @@
 import { defineStore } from 'pinia';
 import { computed, ref, shallowRef } from 'vue';
 import { ClockSync } from '../../shared/clock';
-import type { Ack, ClientToServerEvents, PagesShown, PagesTurn } from '../../shared/events';
+import type { Ack, Command, CommandAnswer, CommandArgs, PagesShown, PagesTurn } from '../../shared/events';
 import type { LiveState, Me, ParticipantView, ScreenState, SubmissionInput, SubmissionView } from '../../shared/schemas/live';
 import type { Team } from '../../shared/schemas/team';
-import { connectSocket, type CairnSocket } from '../socket/client';
+import { connectSocket, emitCommand, type CairnSocket } from '../socket/client';
 import { newId } from '../socket/ids';
 
 /** An error a socket command answered with. */
@@ -16,6 +16,9 @@ export class CommandError extends Error {
     super(message);
   }
 }
+
+/** The facilitator's commands that answer with the whole live state. */
+export type StateCommand = { [E in Command]: CommandAnswer<E> extends LiveState ? E : never }[Command];
 
 type Outgoing = Omit<SubmissionInput, 'clientId'> & { clientId?: string };
 
@@ -91,16 +94,13 @@ export const useLiveStore = defineStore('live', () => {
     }
   }
 
-  async function ask<T>(event: keyof ClientToServerEvents, payload: unknown): Promise<T> {
+  /** Sends a command and resolves with its answer; payload and answer types come from the command table. */
+  async function ask<E extends Command>(event: E, ...[payload]: CommandArgs<E>): Promise<CommandAnswer<E>> {
     const s = socket.value;
     if (!s) throw new CommandError('network', 'Not connected');
-    let answer: Ack<T>;
+    let answer: Ack<CommandAnswer<E>>;
     try {
-      // The typed emit needs the event's own payload type; every caller passes the right one.
-      answer = (await (s.timeout(ACK_TIMEOUT_MS) as unknown as { emitWithAck: (e: string, p: unknown) => Promise<Ack<T>> }).emitWithAck(
-        event,
-        payload,
-      )) as Ack<T>;
+      answer = await emitCommand(s.timeout(ACK_TIMEOUT_MS), event, payload);
     } catch {
       throw new CommandError('timeout', 'The server did not answer in time');
     }
@@ -114,7 +114,7 @@ export const useLiveStore = defineStore('live', () => {
     for (let i = 0; i < rounds; i++) {
       const t1 = Date.now();
       try {
-        const pong = await ask<{ t1: number; t2: number; t3: number }>('clock:ping', { t1 });
+        const pong = await ask('clock:ping', { t1 });
         sync.addRoundTrip(t1, pong.t2, pong.t3, Date.now());
       } catch {
         break;
@@ -190,11 +190,11 @@ export const useLiveStore = defineStore('live', () => {
       await syncClock();
       try {
         if (opts.watch) {
-          accept(await ask<LiveState>('session:watch', { sessionId: opts.watch }));
+          accept(await ask('session:watch', { sessionId: opts.watch }));
         } else {
-          accept(await ask<ScreenState>('session:sync', {}));
+          accept(await ask('session:sync'));
           if (!opts.display) {
-            me.value = await ask<Me>('participant:me', {});
+            me.value = await ask('participant:me');
             keepLastSeen();
           }
           await flush();
@@ -262,27 +262,27 @@ export const useLiveStore = defineStore('live', () => {
   }
 
   /** Runs a facilitator command and takes the state it answers with. */
-  async function command(event: keyof ClientToServerEvents, payload: unknown = {}): Promise<LiveState> {
-    const next = await ask<LiveState>(event, payload);
+  async function command<E extends StateCommand>(event: E, ...args: CommandArgs<E>): Promise<LiveState> {
+    const next: LiveState = await ask(event, ...args);
     accept(next);
     return next;
   }
 
   /** The console's list of who is in the room. */
   async function loadParticipants(): Promise<void> {
-    const [people, formed] = await Promise.all([ask<ParticipantView[]>('participants:list', {}), ask<Team[]>('teams:list', {})]);
+    const [people, formed] = await Promise.all([ask('participants:list'), ask('teams:list')]);
     participants.value = people;
     teams.value = formed;
   }
 
   /** The submissions of an item so far (console). */
   async function loadSubmissions(itemId: string): Promise<void> {
-    submissions.value = await ask<SubmissionView[]>('submission:list', { itemId });
+    submissions.value = await ask('submission:list', { itemId });
   }
 
   /** The participant changes their photo consent. */
   async function setConsent(photoConsent: boolean): Promise<void> {
-    me.value = await ask<Me>('participant:consent', { photoConsent });
+    me.value = await ask('participant:consent', { photoConsent });
     keepLastSeen();
   }
 

@@ -1,9 +1,8 @@
 import { defineStore } from 'pinia';
 import { computed, ref, shallowRef, watch } from 'vue';
-import type { ClientToServerEvents } from '../../shared/events';
+import type { Command, CommandAnswer, CommandArgs, CommandPayload } from '../../shared/events';
 import type { Team } from '../../shared/schemas/team';
 import type {
-  BallotAnswer,
   MyBallot,
   TeamProposal,
   VoteResults,
@@ -43,9 +42,9 @@ export const useVotingStore = defineStore('voting', () => {
   const mine = computed<MyBallot | null>(() => vote.value?.mine ?? null);
 
   /** A command on the shared socket (the live store's), refused at once while it is reconnecting. */
-  async function ask<T>(event: keyof ClientToServerEvents, payload: unknown = {}): Promise<T> {
+  async function ask<E extends Command>(event: E, ...args: CommandArgs<E>): Promise<CommandAnswer<E>> {
     if (!socket.value?.connected) throw new CommandError('network', 'Not connected; Cairn is reconnecting');
-    return useLiveStore().ask<T>(event, payload);
+    return useLiveStore().ask(event, ...args);
   }
 
   function takeVote(next: VoteView): void {
@@ -74,15 +73,15 @@ export const useVotingStore = defineStore('voting', () => {
     if (!withResults) results.value = null;
     if (!connected.value) return;
     try {
-      const v = await ask<VoteView>('vote:state');
+      const v = await ask('vote:state');
       if (v.itemId !== itemId.value) return;
       vote.value = v;
       problem.value = null;
       if (withResults && v.ready) {
-        const r = await ask<VoteResults>('vote:results');
+        const r = await ask('vote:results');
         if (r.itemId === itemId.value) results.value = r;
       }
-      if (v.kind === 'team_sort') teams.value = await ask<Team[]>('teams:list');
+      if (v.kind === 'team_sort') teams.value = await ask('teams:list');
     } catch (err) {
       // The item moved on under us; the next refresh reads the new one.
       if (err instanceof CommandError && err.code === 'conflict') return;
@@ -151,7 +150,8 @@ export const useVotingStore = defineStore('voting', () => {
 
   // ---- phone: ballots, sent one after another and retried with the same clientId ----
 
-  type Outgoing = { event: 'vote:dot' | 'vote:rank'; payload: Record<string, unknown> & { clientId: string }; resolve: () => void; reject: (e: unknown) => void; tries: number };
+  type Ballot = { event: 'vote:dot'; payload: CommandPayload<'vote:dot'> } | { event: 'vote:rank'; payload: CommandPayload<'vote:rank'> };
+  type Outgoing = Ballot & { resolve: () => void; reject: (e: unknown) => void; tries: number };
   const outbox: Outgoing[] = [];
   let flushing = false;
 
@@ -162,7 +162,7 @@ export const useVotingStore = defineStore('voting', () => {
       while (outbox.length > 0 && connected.value) {
         const next = outbox[0]!;
         try {
-          const answer = await ask<BallotAnswer>(next.event, next.payload);
+          const answer = next.event === 'vote:dot' ? await ask('vote:dot', next.payload) : await ask('vote:rank', next.payload);
           takeMine(answer.mine);
           outbox.shift();
           next.resolve();
@@ -183,9 +183,9 @@ export const useVotingStore = defineStore('voting', () => {
     }
   }
 
-  function send(event: Outgoing['event'], payload: Record<string, unknown>): Promise<void> {
+  function send(ballot: Ballot): Promise<void> {
     return new Promise<void>((resolve, reject) => {
-      outbox.push({ event, payload: { ...payload, clientId: newId() }, resolve, reject, tries: 0 });
+      outbox.push({ ...ballot, resolve, reject, tries: 0 });
       void flush();
     });
   }
@@ -206,7 +206,7 @@ export const useVotingStore = defineStore('voting', () => {
       : [...v.mine.dots, { optionId, criterionId, count: delta }];
     vote.value = { ...v, mine: { ...v.mine, dots: nextDots } };
     try {
-      await send('vote:dot', { optionId, criterionId, delta });
+      await send({ event: 'vote:dot', payload: { clientId: newId(), optionId, criterionId, delta } });
     } catch (err) {
       // The server said no: show what it holds.
       if (itemId.value) await refresh(itemId.value, wantResults);
@@ -216,43 +216,43 @@ export const useVotingStore = defineStore('voting', () => {
 
   /** Sends this participant's order of the options (favourite first). */
   async function rank(ranking: string[]): Promise<void> {
-    await send('vote:rank', { ranking });
+    await send({ event: 'vote:rank', payload: { clientId: newId(), ranking } });
   }
 
   // ---- console ----
 
   /** Sets the current item's vote up. */
   async function setup(payload: VoteSetupPayload): Promise<void> {
-    takeVote(await ask<VoteView>('vote:setup', payload));
+    takeVote(await ask('vote:setup', payload));
     results.value = null;
     if (itemId.value) await refresh(itemId.value, true);
   }
 
   /** Opens or closes the current vote. */
   async function setOpen(open: boolean): Promise<void> {
-    takeVote(await ask<VoteView>(open ? 'vote:open' : 'vote:close'));
+    takeVote(await ask(open ? 'vote:open' : 'vote:close'));
   }
 
   /** Carries the chosen options forward. */
   async function choose(optionIds: string[]): Promise<void> {
-    takeVote(await ask<VoteView>('vote:choose', { optionIds }));
-    if (itemId.value) results.value = await ask<VoteResults>('vote:results');
+    takeVote(await ask('vote:choose', { optionIds }));
+    if (itemId.value) results.value = await ask('vote:results');
   }
 
   /** What may become options. */
   function sources(): Promise<VoteSources> {
-    return ask<VoteSources>('vote:sources');
+    return ask('vote:sources');
   }
 
   /** Cairn's proposal of teams from the current team sort, with teams of at most `maxTeamSize` when given. */
   async function propose(maxTeamSize?: number): Promise<TeamProposal> {
-    proposal.value = await ask<TeamProposal>('teams:propose', maxTeamSize === undefined ? {} : { maxTeamSize });
+    proposal.value = await ask('teams:propose', maxTeamSize === undefined ? {} : { maxTeamSize });
     return proposal.value;
   }
 
   /** Confirms teams (after any moves the facilitator made). */
   async function confirmTeams(payload: { teams: { name: string; challenge: string; memberIds: string[] }[] }): Promise<void> {
-    teams.value = await ask<Team[]>('teams:confirm', payload);
+    teams.value = await ask('teams:confirm', payload);
   }
 
   return {

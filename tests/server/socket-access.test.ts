@@ -1,6 +1,6 @@
 import supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { COMMAND_ACCESS, type Command, type CommandAccess } from '../../shared/events';
+import { COMMANDS, type Command, type CommandAccess } from '../../shared/events';
 import type { LiveSessionInfo } from '../../shared/schemas/live';
 import {
   addMember,
@@ -154,6 +154,7 @@ const KINDS: Kind[] = ['phone', 'projector', 'observer', 'runner', 'revoked'];
 
 /** Which kinds each access declaration lets through: the rule the matrix expects. */
 const ALLOWS: Record<CommandAccess, Kind[]> = {
+  any: ['phone', 'projector', 'observer', 'runner', 'revoked'],
   account: ['observer', 'runner'],
   screen: ['phone', 'projector', 'observer', 'runner'],
   display: ['projector', 'observer', 'runner'],
@@ -171,8 +172,10 @@ const PINNED: Partial<Record<Command, Kind[]>> = {
   'vote:dot': ['phone'],
   'session:sync': ['phone', 'projector', 'observer', 'runner'],
   'activity:board': ['phone', 'projector', 'observer', 'runner'],
+  'storyboard:arrange': ['runner'],
   'pages:show': ['projector', 'observer', 'runner'],
   'pages:turn': ['runner'],
+  'clock:ping': ['phone', 'projector', 'observer', 'runner', 'revoked'],
 };
 
 describe('every socket command from every kind of socket', () => {
@@ -193,16 +196,22 @@ describe('every socket command from every kind of socket', () => {
   });
 
   it('pins a handful of commands by hand, in agreement with the declared table', () => {
-    for (const [event, kinds] of Object.entries(PINNED)) expect(ALLOWS[COMMAND_ACCESS[event as Command]], event).toEqual(kinds);
+    for (const [event, kinds] of Object.entries(PINNED)) expect(ALLOWS[COMMANDS[event as Command].access], event).toEqual(kinds);
+  });
+
+  it('serves every declared command, as the registry lists itself', () => {
+    const listed = t.cairn.commands.list();
+    expect(listed.map((c) => c.event)).toEqual(Object.keys(COMMANDS));
+    expect(listed.filter((c) => !c.handled)).toEqual([]);
   });
 
   it('answers each command from each kind as its declaration says: refused with forbidden, or let through', async () => {
-    const commands = Object.keys(COMMAND_ACCESS) as Command[];
+    const commands = Object.keys(COMMANDS) as Command[];
     expect(commands.length).toBeGreaterThan(40);
     const seen: string[] = [];
     for (const event of commands) {
       // A payload that passes validation only where it matters for authorisation: watching needs a session.
-      const payload = event === 'session:watch' ? { sessionId: info.sessionId } : {};
+      const payload = event === 'session:watch' ? { sessionId: info.sessionId } : event === 'clock:ping' ? { t1: Date.now() } : {};
       // Results are the room's once revealed (before that only the facilitators', a rule of the vote, not of access).
       if (event === 'vote:results') await commandData(owner, 'session:reveal', { revealed: true });
       for (const kind of KINDS) {
@@ -213,7 +222,7 @@ describe('every socket command from every kind of socket', () => {
           answer = await command(sockets[kind], event, payload);
         }
         const refused = 'error' in answer && (answer.error.code === 'forbidden' || answer.error.code === 'unauthenticated');
-        const allowed = ALLOWS[COMMAND_ACCESS[event]].includes(kind);
+        const allowed = ALLOWS[COMMANDS[event].access].includes(kind);
         seen.push(`${event} × ${kind}: ${refused ? 'refused' : 'let through'}`);
         expect(refused, `${event} from ${kind}: ${JSON.stringify(answer)}`).toBe(!allowed);
       }

@@ -1,60 +1,28 @@
-import type { LiveCommands } from '../live/live.socket';
+import type { SocketCommands } from '../../common/command';
 import type { ActivitiesService } from './activities.service';
-import { ActivityPayloads as P } from '../../../shared/schemas/activities';
 
 /**
- * Activity commands on a live socket: every screen reads boards, rounds and promotions (a phone
- * sees its own view); the facilitators moderate and run rounds; a phone orders its team's storyboard.
+ * Activity commands: every screen reads boards, rounds and promotions (a phone sees its own view);
+ * the facilitators moderate and run rounds; a phone orders its team's storyboard.
  */
-export function registerActivitiesSocket({ on, parse }: LiveCommands, activities: ActivitiesService): void {
-  on('activity:board', async (payload, who) => {
-    const { itemId } = parse(P.item, payload);
-    return activities.board(who.sessionId, itemId, who.participantId ? { kind: 'phone', participantId: who.participantId } : { kind: 'room' });
-  });
-  on('notes:list', async (payload, who) => activities.board(who.sessionId, parse(P.item, payload).itemId, { kind: 'console' }));
-  on('notes:hide', async (payload, who) => {
-    const { noteIds, hidden } = parse(P.hide, payload);
-    return activities.hide(who.sessionId, noteIds, hidden);
-  });
-  on('notes:merge', async (payload, who) => {
-    const { keepId, duplicateIds } = parse(P.merge, payload);
-    return activities.merge(who.sessionId, keepId, duplicateIds);
-  });
-  on('notes:unmerge', async (payload, who) => activities.unmerge(who.sessionId, parse(P.unmerge, payload).noteId));
-  on('notes:promote', async (payload, who) => {
-    const { sourceKind, sourceId } = parse(P.promote, payload);
-    return activities.promote(who.sessionId, sourceKind, sourceId);
-  });
-  on('notes:unpromote', async (payload, who) => activities.unpromote(who.sessionId, parse(P.unpromote, payload).promotionId));
-  on('notes:promoted', async (payload, who) => activities.promoted(who.sessionId, parse(P.promoted, payload ?? {}).itemId));
-  on('themes:create', async (payload, who) => {
-    const { itemId, name, noteIds } = parse(P.themeCreate, payload);
-    return activities.createTheme(who.sessionId, itemId, name, noteIds);
-  });
-  on('themes:apply', async (payload, who) => {
-    const { itemId, groups } = parse(P.themeApply, payload);
-    return activities.applyThemes(who.sessionId, itemId, groups);
-  });
-  on('themes:rename', async (payload, who) => {
-    const { themeId, name } = parse(P.themeRename, payload);
-    return activities.renameTheme(who.sessionId, themeId, name);
-  });
-  on('themes:delete', async (payload, who) => activities.deleteTheme(who.sessionId, parse(P.themeDelete, payload).themeId));
-  on('themes:assign', async (payload, who) => {
-    const { themeId, noteIds } = parse(P.themeAssign, payload);
-    return activities.assignTheme(who.sessionId, themeId, noteIds);
-  });
-  on('rounds:get', async (payload, who) => activities.round(who.sessionId, parse(P.item, payload).itemId));
-  on('rounds:set', async (payload, who) => {
-    const { itemId, round, regroup } = parse(P.roundSet, payload);
-    return activities.setRound(who.sessionId, itemId, round, regroup ?? false);
-  });
-  on('storyboard:reorder', async (payload, who) => {
-    const { itemId, frameIds } = parse(P.reorder, payload);
-    return activities.reorderFrames(who.sessionId, who.participantId!, itemId, frameIds);
-  });
-  on('storyboard:arrange', async (payload, who) => {
-    const { itemId, storyKey, frameIds } = parse(P.arrange, payload);
-    return activities.arrangeFrames(who.sessionId, itemId, storyKey, frameIds);
-  });
+export function registerActivitiesSocket(commands: SocketCommands, activities: ActivitiesService): void {
+  commands.add('activity:board', ({ who, payload }) =>
+    activities.board(who.sessionId, payload.itemId, who.participantId ? { kind: 'phone', participantId: who.participantId } : { kind: 'room' }),
+  );
+  commands.add('notes:list', ({ who, payload }) => activities.board(who.sessionId, payload.itemId, { kind: 'console' }));
+  commands.add('notes:hide', ({ who, payload }) => activities.hide(who.sessionId, payload.noteIds, payload.hidden));
+  commands.add('notes:merge', ({ who, payload }) => activities.merge(who.sessionId, payload.keepId, payload.duplicateIds));
+  commands.add('notes:unmerge', ({ who, payload }) => activities.unmerge(who.sessionId, payload.noteId));
+  commands.add('notes:promote', ({ who, payload }) => activities.promote(who.sessionId, payload.sourceKind, payload.sourceId));
+  commands.add('notes:unpromote', ({ who, payload }) => activities.unpromote(who.sessionId, payload.promotionId));
+  commands.add('notes:promoted', ({ who, payload }) => activities.promoted(who.sessionId, payload.itemId));
+  commands.add('themes:create', ({ who, payload }) => activities.createTheme(who.sessionId, payload.itemId, payload.name, payload.noteIds));
+  commands.add('themes:apply', ({ who, payload }) => activities.applyThemes(who.sessionId, payload.itemId, payload.groups));
+  commands.add('themes:rename', ({ who, payload }) => activities.renameTheme(who.sessionId, payload.themeId, payload.name));
+  commands.add('themes:delete', ({ who, payload }) => activities.deleteTheme(who.sessionId, payload.themeId));
+  commands.add('themes:assign', ({ who, payload }) => activities.assignTheme(who.sessionId, payload.themeId, payload.noteIds));
+  commands.add('rounds:get', ({ who, payload }) => activities.round(who.sessionId, payload.itemId));
+  commands.add('rounds:set', ({ who, payload }) => activities.setRound(who.sessionId, payload.itemId, payload.round, payload.regroup ?? false));
+  commands.add('storyboard:reorder', ({ who, payload }) => activities.reorderFrames(who.sessionId, who.participantId!, payload.itemId, payload.frameIds));
+  commands.add('storyboard:arrange', ({ who, payload }) => activities.arrangeFrames(who.sessionId, payload.itemId, payload.storyKey, payload.frameIds));
 }

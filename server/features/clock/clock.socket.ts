@@ -1,18 +1,10 @@
-import type { Socket } from 'socket.io';
-import { ClockPing, type ClientToServerEvents, type ServerToClientEvents, type SocketData } from '../../../shared/events';
+import type { SocketCommands } from '../../common/command';
 
 /** Answers `clock:ping` with the server's receive and send times, for the RFC 5905 offset estimate. */
-export function registerClockSocket(
-  socket: Socket<ClientToServerEvents, ServerToClientEvents, Record<string, never>, SocketData>,
-): void {
-  socket.on('clock:ping', (payload, ack) => {
+export function registerClockSocket(commands: SocketCommands): void {
+  commands.add('clock:ping', ({ payload }) => {
+    // The registry runs an `any` command at once on receipt, so this is the receive time.
     const t2 = Date.now();
-    if (typeof ack !== 'function') return;
-    const parsed = ClockPing.safeParse(payload);
-    if (!parsed.success) {
-      ack({ error: { code: 'validation_failed', message: 'clock:ping needs { t1: number }' } });
-      return;
-    }
-    ack({ data: { t1: parsed.data.t1, t2, t3: Date.now() } });
+    return { t1: payload.t1, t2, t3: Date.now() };
   });
 }

@@ -1,13 +1,9 @@
-import type { LiveCommands } from './live.socket';
+import type { SocketCommands } from '../../common/command';
 import type { PagesService } from './pages.service';
-import { LivePayloads } from '../../../shared/events';
 
-/** The projector's page commands on a live socket: projectors say their page, the facilitators turn it. */
-export function registerPagesSocket({ on, parse }: LiveCommands, pages: PagesService): void {
-  on('pages:show', async (payload, who) => pages.shown(who.sessionId, parse(LivePayloads.pagesShow, payload)));
-  on('pages:turn', async (payload, who) => pages.turn(who.sessionId, parse(LivePayloads.pagesTurn, payload)));
-  on('pages:get', async (payload, who) => {
-    parse(LivePayloads.empty, payload ?? {});
-    return pages.lastShown(who.sessionId);
-  });
+/** The projector's page commands: projectors say their page, the facilitators turn it. */
+export function registerPagesSocket(commands: SocketCommands, pages: PagesService): void {
+  commands.add('pages:show', ({ who, payload }) => pages.shown(who.sessionId, payload));
+  commands.add('pages:turn', ({ who, payload }) => pages.turn(who.sessionId, payload));
+  commands.add('pages:get', ({ who }) => pages.lastShown(who.sessionId));
 }

@@ -1,14 +1,11 @@
 import { getCurrentInstance, inject, onBeforeUnmount, provide, ref, watch, type InjectionKey, type Ref } from 'vue';
-import type { Ack, ClientToServerEvents, ServerToClientEvents } from '../../../shared/events';
+import type { Command, CommandAnswer, CommandArgs, ServerToClientEvents } from '../../../shared/events';
 import type { CairnSocket } from '../../socket/client';
 import { useLiveStore } from '../../stores/live';
 import { photoObjectUrl, type PhotoToken } from '../../api/uploads';
 
 /** Which screen an activity view runs on. */
 export type ActivityScreen = 'phone' | 'console' | 'projector';
-
-/** What an activity command's acknowledgement carries on success. */
-type AckData<E extends keyof ClientToServerEvents> = Parameters<ClientToServerEvents[E]>[1] extends (a: Ack<infer T>) => void ? T : never;
 
 /** An error an activity command answered with (the live store's command error). */
 export { CommandError as ActivityError } from '../../stores/live';
@@ -18,7 +15,7 @@ export interface ActivityChannel {
   screen: ActivityScreen;
   connected: Ref<boolean>;
   /** Sends a command and resolves with its data, or rejects with an ActivityError. */
-  request<E extends keyof ClientToServerEvents>(event: E, payload: Parameters<ClientToServerEvents[E]>[0]): Promise<AckData<E>>;
+  request<E extends Command>(event: E, ...args: CommandArgs<E>): Promise<CommandAnswer<E>>;
   /** Listens to a broadcast until the component that asked is unmounted. */
   on<E extends keyof ServerToClientEvents>(event: E, listener: ServerToClientEvents[E]): void;
   /** Runs now if connected, and after every reconnection, until the component that asked is unmounted. */
@@ -74,8 +71,8 @@ export function provideActivityChannel(options: ChannelOptions): ActivityChannel
   const channel: ActivityChannel = {
     screen: options.screen,
     connected,
-    request(event, payload) {
-      return live.ask(event, payload) as Promise<never>;
+    request(event, ...args) {
+      return live.ask(event, ...args);
     },
     on(event, listener) {
       untyped.on(event, listener);
