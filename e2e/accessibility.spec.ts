@@ -84,6 +84,8 @@ test('every planning, live and results page state passes the accessibility scan'
   await joinContext.close();
 
   const phone = await joinPhone(browser, joinUrl, 'Ines');
+  // The full-day template pins lunch: the drift panel says whether it still starts at its fixed time.
+  await expect(page.getByTestId('drift-pinned')).toContainText('“Lunch” starts at its fixed time');
   await scan(page, 'console');
   await scan(projector, 'projector');
   await scan(phone, 'phone');
