@@ -30,7 +30,7 @@ async function createWorkshop(page: Page, title: string, scanDialog = false): Pr
 
 // Two tests of about 15 scans each (a few seconds a scan on a busy machine).
 test('every planning page state and dialog passes the accessibility scan', async ({ browser }) => {
-  test.setTimeout(240_000);
+  test.setTimeout(360_000);
   const context = await browser.newContext({ viewport: { width: 1280, height: 800 } });
   const page = await context.newPage();
   await signIn(page, DEMO.facilitator);
@@ -80,7 +80,7 @@ test('every planning page state and dialog passes the accessibility scan', async
 });
 
 test('the live console, projector and phone through a vote, and the results, pass the accessibility scan', async ({ browser }) => {
-  test.setTimeout(240_000);
+  test.setTimeout(360_000);
   const context = await browser.newContext({ viewport: { width: 1280, height: 800 } });
   const page = await context.newPage();
   await signIn(page, DEMO.facilitator);
