@@ -221,6 +221,8 @@ export class ActivitiesService {
   private async photosOfChanged(sessionId: string, participantId: string): Promise<void> {
     const rows = await this.ctx.db.models.Photo.findAll({ where: { sessionId, participantId }, attributes: ['itemId'] });
     for (const itemId of new Set(rows.map((r) => r.itemId))) this.changed(sessionId, itemId, this.everyone(sessionId));
+    // A consent change is rare and must reach the room at once (a photo blurred within a second): no waiting for the tick.
+    if (rows.length && !this.closed && this.io) this.flushChanges();
   }
 
   /** Tells every screen to read every board of the session again (a participant removed all they wrote). */
@@ -532,13 +534,17 @@ export class ActivitiesService {
     const entry = this.pending.get(key) ?? { sessionId, itemId, rooms: new Set<string>() };
     for (const r of rooms) entry.rooms.add(r);
     this.pending.set(key, entry);
-    this.tick ??= setTimeout(() => {
-      this.tick = null;
-      const batch = [...this.pending.values()];
-      this.pending.clear();
-      // One emit to several rooms reaches each socket once.
-      for (const b of batch) this.io?.to([...b.rooms]).emit('activity:changed', { itemId: b.itemId });
-    }, CHANGE_TICK_MS);
+    this.tick ??= setTimeout(() => this.flushChanges(), CHANGE_TICK_MS);
+  }
+
+  /** Sends the changes waiting for the next tick now. */
+  private flushChanges(): void {
+    if (this.tick) clearTimeout(this.tick);
+    this.tick = null;
+    const batch = [...this.pending.values()];
+    this.pending.clear();
+    // One emit to several rooms reaches each socket once.
+    for (const b of batch) this.io?.to([...b.rooms]).emit('activity:changed', { itemId: b.itemId });
   }
 
   private everyone(sessionId: string): string[] {
