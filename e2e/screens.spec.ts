@@ -237,7 +237,33 @@ test('every screen fits the longest content at every device size: projector, con
   }
   const phoneContext = await browser.newContext({ viewport: PHONES[0], isMobile: true, hasTouch: true });
   const phone = await phoneContext.newPage();
-  await phone.goto(`/join/${live.joinCode}`);
+  // The join form at every phone size: tap targets of 44 px, and its buttons line up with its fields.
+  const checkJoin = async (label: string) => {
+    for (const size of PHONES) {
+      await phone.setViewportSize(size);
+      await settle(phone);
+      const name = `phone-${label}-${size.width}x${size.height}`;
+      const p = await problems(phone, 'phone');
+      for (const [k, list] of Object.entries({ crossing: p.crossing, clipped: p.clipped, smallTargets: p.smallTargets })) {
+        if (list.length) fail.push(`${name} ${k}: ${list.slice(0, 4).join(' | ')}`);
+      }
+      const edges = await phone.evaluate(() =>
+        [...document.querySelectorAll('form .q-field, form .q-btn')].map((e) => {
+          const r = e.getBoundingClientRect();
+          return [Math.round(r.left), Math.round(r.right)].join('–');
+        }),
+      );
+      if (new Set(edges).size !== 1) fail.push(`${name}: the buttons do not line up with the fields (${edges.join(', ')})`);
+      await snap(phone, name);
+    }
+  };
+  await phone.goto('/join');
+  await checkJoin('join-code');
+  await phone.getByLabel('Join code').fill(live.joinCode);
+  await phone.getByRole('button', { name: 'Find the workshop' }).click();
+  await expect(phone.getByTestId('join-title')).toBeVisible();
+  await checkJoin('join-name');
+  await phone.setViewportSize(PHONES[0]!);
   await phone.getByLabel('Your name for today').fill('Gus, who sits at the back of the room');
   await phone.getByTestId('consent-yes').click();
   await phone.getByTestId('join').click();
@@ -352,6 +378,42 @@ test('every screen fits the longest content at every device size: projector, con
     await expect(words).toHaveText(`Projector page ${at(from)} of ${of}`);
   };
 
+  // A participant sitting a round out is told so, and sees no input about a partner (there is none this round).
+  const sitOut = async (itemId: string) => {
+    await phone.setViewportSize(PHONES[0]!);
+    for (let r = 0; r < 8; r++) {
+      const round = await cmd<{ resting: { displayName: string } | null }>(ownerSock, 'rounds:set', { itemId, round: r });
+      if (!round.resting?.displayName.startsWith('Gus')) continue;
+      await expect(phone.getByTestId('resting')).toBeVisible();
+      await expect(phone.getByTestId('partner-name')).toHaveCount(0);
+      await expect(phone.getByTestId('note-input')).toHaveCount(0);
+      await expect(phone.getByTestId('send-note')).toHaveCount(0);
+      await snap(phone, 'phone-interview-sitting-out-360x640');
+      await cmd(ownerSock, 'rounds:set', { itemId, round: 0 });
+      return;
+    }
+    fail.push('interview: no round found where the phone sits out');
+  };
+  // The phone's counts agree: a note sent online counts as sent; one written offline waits (not sent yet); once back, both are sent.
+  const sentAndWaiting = async () => {
+    await phone.setViewportSize(PHONES[1]!);
+    const sent = phone.getByTestId('sent-count');
+    const waiting = phone.getByTestId('outbox');
+    await phone.getByTestId('note-input').fill('The first dock had no free bike');
+    await phone.getByTestId('send-note').click();
+    await expect(sent).toHaveText('1 sent in this activity');
+    await expect(waiting).toHaveCount(0);
+    await phoneContext.setOffline(true);
+    await expect(phone.getByTestId('connection')).toHaveText('Reconnecting…', { timeout: 30_000 });
+    await phone.getByTestId('note-input').fill('Nobody said where the next free dock was');
+    await phone.getByTestId('send-note').click();
+    await expect(waiting).toHaveText('1 note waiting to be sent');
+    await expect(sent).toHaveText('1 sent in this activity');
+    await phoneContext.setOffline(false);
+    await expect(sent).toHaveText('2 sent in this activity', { timeout: 20_000 });
+    await expect(waiting).toHaveCount(0);
+  };
+
   const parts: Record<string, string[]> = {
     interview: ['says', 'thinks', 'does', 'feels'],
     empathy_map: ['sees', 'hears', 'says_does', 'thinks_feels'],
@@ -436,13 +498,16 @@ test('every screen fits the longest content at every device size: projector, con
       }
       await cmd(ownerSock, 'vote:close');
       if (t === 'dot_vote') {
-        const results = await cmd<{ overall: { optionId: string }[] }>(ownerSock, 'vote:results');
-        await cmd(ownerSock, 'vote:choose', { optionIds: results.overall.slice(0, 3).map((r) => r.optionId) });
+        // The top N is cut from the ranking the rules name (two criteria: the matrix), ties at the cut-off broken by the facilitator.
+        const results = await cmd<{ ranked: { optionId: string }[]; top: { selected: string[]; tiedAtCutoff: string[] } }>(ownerSock, 'vote:results');
+        await cmd(ownerSock, 'vote:choose', { optionIds: [...results.top.selected, ...results.top.tiedAtCutoff].slice(0, 3) });
       }
     }
     await settle(projector);
     await checkProjector(`${t}`);
     if (!['dot_vote', 'preference_vote'].includes(t)) await checkPhone(t);
+    if (t === 'interview') await sitOut(item.id);
+    if (t === 'insights') await sentAndWaiting();
     await checkConsole(t);
     if (!['welcome', 'break', 'lunch', 'icebreaker', 'team_sort'].includes(t)) {
       await cmd(ownerSock, 'session:reveal', { revealed: true });
