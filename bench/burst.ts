@@ -29,6 +29,7 @@ interface WorkerBurst {
   acked: string[];
   sent: string[];
   refused: number;
+  timedOut: number;
   busyErrors: number;
   lastAckAt: number;
 }
@@ -69,6 +70,7 @@ export async function runBurst({ child, facilitator, workers, dotsEach, windowMs
     sent: results.reduce((n, r) => n + r.sent.length, 0),
     acked,
     refused: results.reduce((n, r) => n + r.refused, 0),
+    timedOut: results.reduce((n, r) => n + r.timedOut, 0),
     busyErrors: results.reduce((n, r) => n + r.busyErrors, 0),
     acks: results.flatMap((r) => r.acks),
     sentIds: results.flatMap((r) => r.sent),

@@ -110,6 +110,7 @@ async function burst({ optionIds, dotsEach, windowMs, startAt, prefix }: { optio
   const acked: string[] = [];
   const sent: string[] = [];
   let refused = 0;
+  let timedOut = 0;
   let busyErrors = 0;
   let lastAckAt = 0;
   const wait = Math.max(0, startAt - now());
@@ -129,6 +130,8 @@ async function burst({ optionIds, dotsEach, windowMs, startAt, prefix }: { optio
               lastAckAt = Math.max(lastAckAt, at);
             } catch (err) {
               if (String(err).includes('BUSY')) busyErrors += 1;
+              // socket.io's own error when no acknowledgement came within the timeout.
+              else if (String(err).includes('timed out')) timedOut += 1;
               else refused += 1;
             }
             resolve();
@@ -137,7 +140,7 @@ async function burst({ optionIds, dotsEach, windowMs, startAt, prefix }: { optio
       }),
     ),
   );
-  return { acks, acked, sent, refused, busyErrors, lastAckAt };
+  return { acks, acked, sent, refused, timedOut, busyErrors, lastAckAt };
 }
 
 process.on('disconnect', () => process.exit(0));
