@@ -1,6 +1,7 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { z } from 'zod';
 import { fieldErrors, type ErrorCode } from '../../shared/errors';
+import type { InputRefusal } from '../../shared/input-gate';
 
 /** An error that carries its HTTP status and Cairn error code to the one error format. */
 export class AppError extends Error {
@@ -23,6 +24,19 @@ export const errors = {
   forbidden: (message = 'Your role does not allow this') => new AppError(403, 'forbidden', message),
   notFound: (what = 'That') => new AppError(404, 'not_found', `${what} was not found`),
   conflict: (message: string) => new AppError(409, 'conflict', message),
+  /** A participant token whose participant is no longer in the session (removed, data deleted). */
+  notInSession: () => new AppError(403, 'forbidden', 'You are not in this session any more; join again'),
+  /** A command on a live session that has ended. */
+  sessionEnded: () => new AppError(409, 'session_ended', 'This live session has ended'),
+  /** A phone's input refused by the input gate (shared/input-gate.ts), with the one message of its code. */
+  inputRefused: (why: InputRefusal) => INPUT_REFUSED[why](),
+};
+
+const INPUT_REFUSED: Record<InputRefusal, () => AppError> = {
+  not_in_session: errors.notInSession,
+  session_ended: errors.sessionEnded,
+  input_locked: () => new AppError(409, 'input_locked', 'The facilitator has locked input for now'),
+  not_current: () => errors.conflict('That activity is not the current one any more; nothing was sent'),
 };
 
 /** Answers unknown API paths with the one error format. */

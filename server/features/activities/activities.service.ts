@@ -478,7 +478,7 @@ export class ActivitiesService {
   /** A phone puts its own team's storyboard in order. */
   async reorderFrames(sessionId: string, participantId: string, itemId: string, frameIds: string[]): Promise<string[]> {
     const p = await this.live.participantOf(participantId, sessionId);
-    if (!p) throw errors.forbidden('You are not in this session any more; join again');
+    if (!p) throw errors.notInSession();
     return this.arrangeFrames(sessionId, itemId, p.teamId ?? `p:${p.id}`, frameIds);
   }
 

@@ -6,7 +6,7 @@ import { UniqueConstraintError } from 'sequelize';
 import type { AppContext } from '../../context';
 import type { PhotoRow } from '../../db/models';
 import { AppError, errors } from '../../common/errors';
-import type { LiveService } from '../live/live.service';
+import { inputGate, type LiveService } from '../live/live.service';
 import { ACTIVITY_LIMITS, PHOTO_TYPES, type PhotoUploadAnswer, type PhotoUploadFields } from '../../../shared/schemas/activities';
 import type { ActivityType } from '../../../shared/schemas/agenda-item';
 
@@ -117,9 +117,8 @@ export class PhotosService {
       LiveSession.findByPk(sessionId),
       AgendaItem.findByPk(fields.itemId),
     ]);
-    if (!participant || !session) throw errors.forbidden('You are not in this session any more; join again');
-    if (session.status === 'ended') throw new AppError(409, 'session_ended', 'This live session has ended');
-    if (session.locked) throw new AppError(409, 'input_locked', 'The facilitator has locked input for now');
+    const refused = inputGate(session, Boolean(participant && session));
+    if (refused || !session) throw refused;
     if (!item || item.workshopId !== session.workshopId) throw errors.notFound('That agenda item');
     if (!PHOTO_TYPES.has(item.type as ActivityType)) throw errors.badRequest('This activity does not take photos');
     const tooMany = (mine: number) =>

@@ -8,6 +8,7 @@ import { AppError, errors } from '../../common/errors';
 import { joinBaseUrl } from '../../common/network';
 import { toAgendaItem, type AgendaItemFields } from '../workshops/workshops.service';
 import { remainingMs } from '../../../shared/clock';
+import { inputRefusal, type InputGateState } from '../../../shared/input-gate';
 import { cutRunTimeboxes, undoRunCut, withRunTimeboxes } from '../../../shared/drift';
 import {
   JOIN_CODE_ALPHABET,
@@ -88,6 +89,17 @@ function idleTimer(item: AgendaItem | undefined): TimerState {
   return { status: 'idle', endsAt: null, remainingMs: null, durationMs: (item?.timeboxMin ?? 0) * 60_000 };
 }
 
+/**
+ * The input gate, the one place a phone's note, photo, dot or ranking is let through or refused: the
+ * rule of shared/input-gate.ts over the session as the caller read it, answered with its error.
+ */
+export function inputGate(session: InputGateState | null, inSession: boolean, itemId?: string): AppError | null {
+  if (!inSession) return errors.notInSession();
+  if (!session) return errors.notFound('That live session');
+  const why = inputRefusal(session, true, itemId);
+  return why ? errors.inputRefused(why) : null;
+}
+
 /** A timer running from `now` with `leftMs` to go. */
 function runningTimer(timer: TimerState, now: number, leftMs: number): TimerState {
   return { status: 'running', endsAt: now + leftMs, remainingMs: null, durationMs: timer.durationMs };
@@ -159,7 +171,7 @@ function setJson<K extends 'timer' | 'runs' | 'message' | 'timeboxes' | 'timebox
   row.changed(key, true);
 }
 
-const sessionEnded = () => new AppError(409, 'session_ended', 'This live session has ended');
+const sessionEnded = errors.sessionEnded;
 
 /**
  * A rule an activity adds to submissions (e.g. a note's quadrant must be one of the map's): it runs
@@ -402,7 +414,7 @@ export class LiveService {
   /** What a participant's phone knows about them. */
   async me(participantId: string, sessionId: string): Promise<Me> {
     const p = await this.participantOf(participantId, sessionId);
-    if (!p) throw errors.forbidden('You are not in this session any more; join again');
+    if (!p) throw errors.notInSession();
     return toMe(p);
   }
 
@@ -410,7 +422,7 @@ export class LiveService {
   async setConsent(participantId: string, sessionId: string, photoConsent: boolean): Promise<Me> {
     const p = await this.ctx.db.writeTx(async (transaction) => {
       const row = await this.ctx.db.models.Participant.findByPk(participantId, { transaction });
-      if (!row || row.sessionId !== sessionId) throw errors.forbidden('You are not in this session any more; join again');
+      if (!row || row.sessionId !== sessionId) throw errors.notInSession();
       row.photoConsent = photoConsent;
       await row.save({ transaction });
       return row;
@@ -579,17 +591,12 @@ export class LiveService {
     const answer = await this.ctx.db
       .writeTx(async (transaction) => {
         const p = await Participant.findByPk(participantId, { transaction });
-        if (!p || p.sessionId !== sessionId) throw errors.forbidden('You are not in this session any more; join again');
+        if (!p || p.sessionId !== sessionId) throw errors.notInSession();
         // A retry of something already stored is answered before the checks, which may have changed since.
         const first = await Submission.findOne({ where: { participantId, clientId: input.clientId }, attributes: ['id'], transaction });
         if (first) return { id: first.id, duplicate: true };
-        const s = await LiveSession.findByPk(sessionId, { transaction });
-        if (!s) throw errors.notFound('That live session');
-        if (s.status === 'ended') throw sessionEnded();
-        if (s.locked) throw new AppError(409, 'input_locked', 'The facilitator has locked input for now');
-        if (openRunItemId(s.runs) !== input.itemId) {
-          throw errors.conflict('That activity is not the current one any more; nothing was sent');
-        }
+        const refused = inputGate(await LiveSession.findByPk(sessionId, { transaction }), true, input.itemId);
+        if (refused) throw refused;
         for (const check of this.submissionChecks) await check(input, p, transaction);
         const row = await Submission.create(
           {

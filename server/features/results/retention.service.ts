@@ -193,7 +193,7 @@ export class RetentionService {
   async setReportEmail(participantId: string, sessionId: string, email: string | null): Promise<MyData> {
     await this.ctx.db.writeTx(async (transaction) => {
       const p = await this.ctx.db.models.Participant.findByPk(participantId, { transaction });
-      if (!p || p.sessionId !== sessionId) throw errors.forbidden('You are not in this session any more; join again');
+      if (!p || p.sessionId !== sessionId) throw errors.notInSession();
       // After "delete personal data" a participant's token still works for a while: it must not bring an address back.
       if (email !== null && p.deviceId.startsWith(ERASED_DEVICE_PREFIX)) {
         throw new AppError(409, 'conflict', "This workshop's personal data has been deleted; Cairn keeps no addresses for it any more");
@@ -213,7 +213,7 @@ export class RetentionService {
     for (const keeper of PHOTO_KEEPERS) photos += await keeper.count(this.ctx, [sessionId], participantId);
     const { removed, files } = await this.ctx.db.writeTx(async (transaction) => {
       const p = await this.ctx.db.models.Participant.findByPk(participantId, { transaction });
-      if (!p || p.sessionId !== sessionId) throw errors.forbidden('You are not in this session any more; join again');
+      if (!p || p.sessionId !== sessionId) throw errors.notInSession();
       const count = await this.ctx.db.models.Submission.destroy({ where: { participantId, sessionId }, transaction });
       const gone: string[] = [];
       for (const keeper of PHOTO_KEEPERS) gone.push(...(await keeper.erase(this.ctx, [sessionId], transaction, participantId)));
@@ -236,7 +236,7 @@ export class RetentionService {
 
   private async participant(participantId: string, sessionId: string) {
     const p = await this.ctx.db.models.Participant.findByPk(participantId);
-    if (!p || p.sessionId !== sessionId) throw errors.forbidden('You are not in this session any more; join again');
+    if (!p || p.sessionId !== sessionId) throw errors.notInSession();
     return p;
   }
 

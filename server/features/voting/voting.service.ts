@@ -4,7 +4,7 @@ import type { AppContext } from '../../context';
 import type { LiveSessionRow, VoteRow } from '../../db/models';
 import type { RawStatements } from '../../db';
 import { AppError, errors } from '../../common/errors';
-import { liveRooms, type LiveIo, type LiveService } from '../live/live.service';
+import { inputGate, liveRooms, type LiveIo, type LiveService } from '../live/live.service';
 import {
   checkBallot,
   criteriaMatrix,
@@ -322,7 +322,7 @@ export class VotingService {
    * (`storeDots`). The acknowledgement still comes only after that commit.
    */
   async dot(participantId: string, sessionId: string, payload: DotPayload, fromSocket?: string): Promise<BallotAnswer> {
-    if (!(await this.inSession(participantId, sessionId))) throw errors.forbidden('You are not in this session any more; join again');
+    if (!(await this.inSession(participantId, sessionId))) throw errors.notInSession();
     const db = this.ctx.db;
     const outcome = await db.batchTx(
       async (transaction): Promise<{ refused: AppError } | { answer: BallotAnswer; applied: boolean }> => {
@@ -335,8 +335,8 @@ export class VotingService {
           if (err instanceof AppError) return { refused: err };
           throw err;
         }
-        if (state.status === 'ended') return { refused: new AppError(409, 'session_ended', 'This live session has ended') };
-        if (state.locked) return { refused: new AppError(409, 'input_locked', 'The facilitator has locked input for now') };
+        const refused = inputGate(state, true);
+        if (refused) return { refused };
         // One read of the live state a vote: the current item is the vote's item.
         const item = state.item;
         if (!item || !VoteKind.safeParse(item.type).success) return { refused: errors.conflict('The current activity is not a vote') };
@@ -711,7 +711,7 @@ export class VotingService {
   private async checkStillCurrent(sessionId: string, itemId: string, transaction: Transaction): Promise<LiveSessionRow> {
     const s = await this.ctx.db.models.LiveSession.findByPk(sessionId, { transaction });
     if (!s) throw errors.notFound('That live session');
-    if (s.status === 'ended') throw new AppError(409, 'session_ended', 'This live session has ended');
+    if (s.status === 'ended') throw errors.sessionEnded();
     if (runningItemId(s) !== itemId) throw errors.conflict('That activity is not the current one any more; nothing was changed');
     return s;
   }
@@ -770,12 +770,12 @@ export class VotingService {
     try {
       return await this.ctx.db.writeTx(async (transaction) => {
         const p = await Participant.findByPk(participantId, { transaction, attributes: ['id', 'sessionId'] });
-        if (!p || p.sessionId !== sessionId) throw errors.forbidden('You are not in this session any more; join again');
+        if (!p || p.sessionId !== sessionId) throw errors.notInSession();
         // A retry of something already applied is answered before the checks, which may have changed since.
         const again = await retried(transaction);
         if (again) return again;
-        const s = await this.checkStillCurrent(sessionId, item.id, transaction);
-        if (s.locked) throw new AppError(409, 'input_locked', 'The facilitator has locked input for now');
+        const refused = inputGate(await this.ctx.db.models.LiveSession.findByPk(sessionId, { transaction }), true, item.id);
+        if (refused) throw refused;
         const vote = await Vote.findOne({ where: { sessionId, itemId: item.id }, transaction });
         if (!vote || vote.status === 'draft') throw errors.conflict('Voting has not opened yet');
         if (!allowed.includes(vote.kind)) throw errors.badRequest('This vote does not take that kind of ballot');
