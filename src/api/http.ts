@@ -1,16 +1,8 @@
 import type { ErrorCode } from '../../shared/errors';
+import { ClientError } from './errors';
 
-/** An error the API answered with: its code, message and field-by-field problems. */
-export class ApiError extends Error {
-  constructor(
-    public status: number,
-    public code: ErrorCode | 'network',
-    message: string,
-    public fields: Record<string, string> = {},
-  ) {
-    super(message);
-  }
-}
+/** What an HTTP call threw: the one client error (kept under this name for the screens that catch it). */
+export { ClientError as ApiError } from './errors';
 
 /** How the HTTP client gets and renews the access token (set by the session store). */
 export interface TokenSource {
@@ -40,7 +32,7 @@ async function send<T>(method: string, path: string, body?: unknown, retry = tru
       credentials: 'same-origin',
     });
   } catch {
-    throw new ApiError(0, 'network', 'Cairn cannot reach the server; check the connection and try again');
+    throw new ClientError('network', 'Cairn cannot reach the server; check the connection and try again');
   }
   if (res.status === 401 && retry && token && (await tokens.renew())) {
     return send<T>(method, path, body, false, extra);
@@ -51,7 +43,7 @@ async function send<T>(method: string, path: string, body?: unknown, retry = tru
     | null;
   if (!res.ok) {
     const e = data?.error;
-    throw new ApiError(res.status, e?.code ?? 'internal', e?.message ?? `The server answered ${res.status}`, e?.fields ?? {});
+    throw new ClientError(e?.code ?? 'internal', e?.message ?? `The server answered ${res.status}`, res.status, e?.fields ?? {});
   }
   return data as T;
 }

@@ -1,4 +1,5 @@
-import { http, ApiError } from './http';
+import { http } from './http';
+import { ClientError } from './errors';
 import type { JoinAnswer, JoinBody, JoinInfo, LiveSessionInfo, SessionKind, SessionSummary } from '../../shared/schemas/live';
 
 const w = (id: string) => `/workshops/${encodeURIComponent(id)}`;
@@ -20,7 +21,7 @@ export const liveApi = {
   /** The join QR code as an object URL (fetched with a token, since an <img> cannot send one). */
   async qrObjectUrl(workshopId: string, token: string): Promise<string> {
     const res = await fetch(`/api${w(workshopId)}/live/qr.png`, { headers: { Authorization: `Bearer ${token}` } });
-    if (!res.ok) throw new ApiError(res.status, 'internal', 'The join QR code could not be loaded');
+    if (!res.ok) throw new ClientError('internal', 'The join QR code could not be loaded', res.status);
     return URL.createObjectURL(await res.blob());
   },
 };

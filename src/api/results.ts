@@ -1,4 +1,5 @@
-import { http, ApiError, type TokenSource } from './http';
+import { http, type TokenSource } from './http';
+import { ClientError } from './errors';
 import type {
   ExportFile,
   MyData,
@@ -46,11 +47,11 @@ async function fetchFile(path: string, token: string | null, fallback: string): 
   try {
     res = await fetch(`/api${path}`, { headers: token ? { Authorization: `Bearer ${token}` } : {}, credentials: 'same-origin' });
   } catch {
-    throw new ApiError(0, 'network', 'Cairn cannot reach the server; check the connection and try again');
+    throw new ClientError('network', 'Cairn cannot reach the server; check the connection and try again');
   }
   if (!res.ok) {
     const body = (await res.json().catch(() => null)) as { error?: { message?: string } } | null;
-    throw new ApiError(res.status, 'internal', body?.error?.message ?? `The server answered ${res.status}`);
+    throw new ClientError('internal', body?.error?.message ?? `The server answered ${res.status}`, res.status);
   }
   return { blob: await res.blob(), fileName: fileNameOf(res, fallback) };
 }
@@ -82,7 +83,7 @@ export const resultsApi = {
     const path = `${w(workshopId)}/exports/${file}${query(o)}`;
     let got = await fetchFile(path, tokens.token(), file).catch(async (err: unknown) => {
       // An expired access token is renewed once, as the JSON client does.
-      if (err instanceof ApiError && err.status === 401 && (await tokens.renew())) return null;
+      if (err instanceof ClientError && err.status === 401 && (await tokens.renew())) return null;
       throw err;
     });
     got ??= await fetchFile(path, tokens.token(), file);
@@ -93,7 +94,7 @@ export const resultsApi = {
   async downloadPdf(tokens: TokenSource, workshopId: string, o: DownloadOptions = {}): Promise<void> {
     const path = `${w(workshopId)}/report.pdf${query({ anonymize: o.anonymize, sessions: o.sessions })}`;
     let got = await fetchFile(path, tokens.token(), 'report.pdf').catch(async (err: unknown) => {
-      if (err instanceof ApiError && err.status === 401 && (await tokens.renew())) return null;
+      if (err instanceof ClientError && err.status === 401 && (await tokens.renew())) return null;
       throw err;
     });
     got ??= await fetchFile(path, tokens.token(), 'report.pdf');
@@ -115,10 +116,10 @@ export const myDataApi = {
       headers: { Authorization: `Bearer ${token}`, Accept: 'application/json', ...(body === undefined ? {} : { 'Content-Type': 'application/json' }) },
       body: body === undefined ? undefined : JSON.stringify(body),
     }).catch(() => {
-      throw new ApiError(0, 'network', 'Cairn cannot reach the server; check the connection and try again');
+      throw new ClientError('network', 'Cairn cannot reach the server; check the connection and try again');
     });
     const data = (await res.json().catch(() => null)) as (T & { error?: { message: string; fields?: Record<string, string> } }) | null;
-    if (!res.ok) throw new ApiError(res.status, 'internal', data?.error?.message ?? `The server answered ${res.status}`, data?.error?.fields ?? {});
+    if (!res.ok) throw new ClientError('internal', data?.error?.message ?? `The server answered ${res.status}`, res.status, data?.error?.fields ?? {});
     return data as T;
   },
   get: (token: string) => myDataApi.call<MyData>('GET', 'data', token),

@@ -1,5 +1,4 @@
-import { ApiError } from './http';
-import type { ErrorCode } from '../../shared/errors';
+import { ClientError, errorOfResponse } from './errors';
 import type { PhotoUploadAnswer } from '../../shared/schemas/activities';
 
 /** What a photo upload sends besides the file (multipart fields are strings on the wire). */
@@ -18,12 +17,6 @@ export interface PhotoToken {
   workshopId: string | null;
 }
 
-async function failure(res: Response, fallback: string): Promise<ApiError> {
-  const body = (await res.json().catch(() => null)) as { error?: { code: ErrorCode; message: string; fields?: Record<string, string> } } | null;
-  const e = body?.error;
-  return new ApiError(res.status, e?.code ?? 'internal', e?.message ?? fallback, e?.fields ?? {});
-}
-
 /**
  * Uploads a photo from a phone with its participant token (the HTTP client sends account tokens
  * only); a retry with the same clientId answers with the first upload.
@@ -40,9 +33,9 @@ export async function uploadPhoto(participantToken: string, upload: PhotoUpload,
   try {
     res = await fetch('/api/live/photos', { method: 'POST', headers: { Authorization: `Bearer ${participantToken}` }, body: form });
   } catch {
-    throw new ApiError(0, 'network', 'The photo could not be sent; check the connection and try again');
+    throw new ClientError('network', 'The photo could not be sent; check the connection and try again');
   }
-  if (!res.ok) throw await failure(res, 'The photo could not be sent');
+  if (!res.ok) throw await errorOfResponse(res, 'The photo could not be sent');
   return (await res.json()) as PhotoUploadAnswer;
 }
 
@@ -51,6 +44,6 @@ export async function photoObjectUrl(photoId: string, size: 'thumb' | 'full', wh
   const id = encodeURIComponent(photoId);
   const path = who.workshopId ? `/api/workshops/${encodeURIComponent(who.workshopId)}/photos/${id}` : `/api/live/photos/${id}`;
   const res = await fetch(`${path}?size=${size}`, { headers: { Authorization: `Bearer ${who.token}` } });
-  if (!res.ok) throw await failure(res, 'The photo could not be loaded');
+  if (!res.ok) throw await errorOfResponse(res, 'The photo could not be loaded');
   return URL.createObjectURL(await res.blob());
 }

@@ -1,17 +1,17 @@
 import { computed, ref, watch, type ComputedRef } from 'vue';
-import { useLiveStore } from '../stores/live';
+import { useOutboxStore } from '../stores/outbox';
 import { newId } from '../socket/ids';
 
 /**
- * What one composer sent on the current item: a note counts as sent once it has left the phone's
- * queue, so "sent" and the phone's "waiting to be sent" always add up to what was written.
+ * What one composer sent on the current item: a note or photo counts as sent once it has left the
+ * phone's outbox, so "sent" and "waiting" always add up to what was made.
  * @example const { sent, track } = useSentCount(() => props.item.id); await live.submit({ ...input, clientId: track() });
  */
 export function useSentCount(itemId: () => string): { sent: ComputedRef<number>; waiting: ComputedRef<number>; track: () => string } {
-  const live = useLiveStore();
+  const outbox = useOutboxStore();
   const ids = ref<string[]>([]);
   watch(itemId, () => (ids.value = []));
-  const sent = computed(() => ids.value.filter((id) => !live.outbox.some((o) => o.clientId === id)).length);
+  const sent = computed(() => ids.value.filter((id) => !outbox.isWaiting(id)).length);
   const waiting = computed(() => ids.value.length - sent.value);
   /** A fresh client id for the next submission, counted from now on. */
   function track(): string {

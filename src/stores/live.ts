@@ -6,16 +6,11 @@ import type { LiveState, Me, ParticipantView, ScreenState, SubmissionInput, Subm
 import type { Team } from '../../shared/schemas/team';
 import { connectSocket, emitCommand, type CairnSocket } from '../socket/client';
 import { newId } from '../socket/ids';
+import { ClientError } from '../api/errors';
+import { useOutboxStore } from './outbox';
 
-/** An error a socket command answered with. */
-export class CommandError extends Error {
-  constructor(
-    public code: string,
-    message: string,
-  ) {
-    super(message);
-  }
-}
+/** What a socket command threw: the one client error (kept under this name for the screens that catch it). */
+export { ClientError as CommandError } from '../api/errors';
 
 /** The facilitator's commands that answer with the whole live state. */
 export type StateCommand = { [E in Command]: CommandAnswer<E> extends LiveState ? E : never }[Command];
@@ -25,8 +20,8 @@ type Outgoing = Omit<SubmissionInput, 'clientId'> & { clientId?: string };
 const ACK_TIMEOUT_MS = 6000;
 
 /**
- * The live session as one screen sees it: the socket, the server-owned state, the clock offset,
- * and (on phones) the queue of submissions not yet acknowledged.
+ * The live session as one screen sees it: the socket, the server-owned state and the clock offset;
+ * on phones it lends its socket to the one outbox (`stores/outbox.ts`) that sends notes, ballots and photos.
  */
 export const useLiveStore = defineStore('live', () => {
   const state = ref<ScreenState | null>(null);
@@ -40,7 +35,7 @@ export const useLiveStore = defineStore('live', () => {
   const lastMessage = ref<{ id: string; text: string; sentAt: number } | null>(null);
   const offsetMs = ref(0);
   const errorBoundMs = ref(Infinity);
-  const outbox = ref<SubmissionInput[]>([]);
+  const outbox = useOutboxStore();
   /** Console: the page a projector shows of a view that does not fit one screen. */
   const pagesShown = ref<PagesShown | null>(null);
   /** Projector: the last page turn the console asked for (a new object each time, to watch). */
@@ -48,7 +43,6 @@ export const useLiveStore = defineStore('live', () => {
   const socket = shallowRef<CairnSocket | null>(null);
   /** Goes up each time the socket is attached to the session (after every (re)connection), for the activity and voting views to reload. */
   const attached = ref(0);
-  let outboxKey = '';
   // The server's clock, estimated once per sync and then advanced by the monotonic clock.
   let anchorServer = Date.now();
   let anchorPerf = performance.now();
@@ -97,14 +91,14 @@ export const useLiveStore = defineStore('live', () => {
   /** Sends a command and resolves with its answer; payload and answer types come from the command table. */
   async function ask<E extends Command>(event: E, ...[payload]: CommandArgs<E>): Promise<CommandAnswer<E>> {
     const s = socket.value;
-    if (!s) throw new CommandError('network', 'Not connected');
+    if (!s) throw new ClientError('network', 'Not connected');
     let answer: Ack<CommandAnswer<E>>;
     try {
       answer = await emitCommand(s.timeout(ACK_TIMEOUT_MS), event, payload);
     } catch {
-      throw new CommandError('timeout', 'The server did not answer in time');
+      throw new ClientError('timeout', 'The server did not answer in time');
     }
-    if ('error' in answer) throw new CommandError(answer.error.code, answer.error.message);
+    if ('error' in answer) throw new ClientError(answer.error.code, answer.error.message);
     return answer.data;
   }
 
@@ -128,48 +122,9 @@ export const useLiveStore = defineStore('live', () => {
     }
   }
 
-  function loadOutbox(sessionId: string): void {
-    outboxKey = `cairn.outbox.${sessionId}`;
-    try {
-      outbox.value = JSON.parse(localStorage.getItem(outboxKey) ?? '[]') as SubmissionInput[];
-    } catch {
-      outbox.value = [];
-    }
-  }
-
-  function saveOutbox(): void {
-    if (outboxKey) localStorage.setItem(outboxKey, JSON.stringify(outbox.value));
-  }
-
-  let flushing = false;
-  /** Sends what was typed while offline, in order, each exactly once (the server dedupes by clientId). */
-  async function flush(): Promise<void> {
-    if (flushing || !connected.value) return;
-    flushing = true;
-    try {
-      while (outbox.value.length > 0 && connected.value) {
-        const next = outbox.value[0];
-        try {
-          await ask('submission:create', next);
-        } catch (err) {
-          // A timeout or a lost connection keeps the note for the next try; a refusal drops it.
-          if (err instanceof CommandError && (err.code === 'timeout' || err.code === 'network')) break;
-          rejected.value = err instanceof CommandError ? err.message : 'A note could not be sent';
-        }
-        outbox.value = outbox.value.slice(1);
-        saveOutbox();
-      }
-    } finally {
-      flushing = false;
-    }
-  }
-  const rejected = ref<string | null>(null);
-
-  /** Queues a submission (with a fresh client id) and sends it as soon as the socket is up. */
+  /** Queues a note in the phone's outbox (with a fresh client id unless given); resolves once it is kept, sent or not. */
   async function submit(input: Outgoing): Promise<void> {
-    outbox.value = [...outbox.value, { ...input, clientId: input.clientId ?? newId() } as SubmissionInput];
-    saveOutbox();
-    await flush();
+    await outbox.note({ ...input, clientId: input.clientId ?? newId() } as SubmissionInput);
   }
 
   /**
@@ -180,7 +135,7 @@ export const useLiveStore = defineStore('live', () => {
     disconnect();
     forget();
     if (opts.participantSessionId) {
-      loadOutbox(opts.participantSessionId);
+      void outbox.open(opts.participantSessionId, { connected: () => connected.value, ask });
       showLastSeen(opts.participantSessionId);
     }
     const s = connectSocket(opts.token);
@@ -197,11 +152,11 @@ export const useLiveStore = defineStore('live', () => {
             me.value = await ask('participant:me');
             keepLastSeen();
           }
-          await flush();
+          void outbox.flush();
         }
         attached.value += 1;
       } catch (err) {
-        connectError.value = err instanceof CommandError ? err.message : 'Could not reach the session';
+        connectError.value = err instanceof ClientError ? err.message : 'Could not reach the session';
       }
     });
     s.on('disconnect', () => {
@@ -245,9 +200,7 @@ export const useLiveStore = defineStore('live', () => {
     lastMessage.value = null;
     pagesShown.value = null;
     pageTurn.value = null;
-    outbox.value = [];
-    outboxKey = '';
-    rejected.value = null;
+    outbox.close();
     connectError.value = null;
     lastSeenKey = '';
   }
@@ -302,8 +255,6 @@ export const useLiveStore = defineStore('live', () => {
     pageTurn,
     offsetMs,
     errorBoundMs,
-    outbox,
-    rejected,
     connectError,
     currentItem,
     serverNow,

@@ -13,10 +13,9 @@ import type {
 import { checkBallot } from '../../shared/tally';
 import type { CairnSocket } from '../socket/client';
 import { newId } from '../socket/ids';
-import { CommandError, useLiveStore } from './live';
-
-/** A phone resends a vote after a lost answer this many times (same clientId, so it lands once). */
-const RETRIES = 4;
+import { ClientError } from '../api/errors';
+import { useLiveStore } from './live';
+import { useOutboxStore } from './outbox';
 
 /** Which screen the store serves: a phone votes, the console runs the vote, the projector shows it. */
 export type VotingScreen = 'phone' | 'console' | 'projector';
@@ -43,7 +42,7 @@ export const useVotingStore = defineStore('voting', () => {
 
   /** A command on the shared socket (the live store's), refused at once while it is reconnecting. */
   async function ask<E extends Command>(event: E, ...args: CommandArgs<E>): Promise<CommandAnswer<E>> {
-    if (!socket.value?.connected) throw new CommandError('network', 'Not connected; Cairn is reconnecting');
+    if (!socket.value?.connected) throw new ClientError('network', 'Not connected; Cairn is reconnecting');
     return useLiveStore().ask(event, ...args);
   }
 
@@ -84,8 +83,8 @@ export const useVotingStore = defineStore('voting', () => {
       if (v.kind === 'team_sort') teams.value = await ask('teams:list');
     } catch (err) {
       // The item moved on under us; the next refresh reads the new one.
-      if (err instanceof CommandError && err.code === 'conflict') return;
-      problem.value = err instanceof CommandError ? err.message : 'Could not read the vote';
+      if (err instanceof ClientError && err.code === 'conflict') return;
+      problem.value = err instanceof ClientError ? err.message : 'Could not read the vote';
     }
   }
 
@@ -116,9 +115,8 @@ export const useVotingStore = defineStore('voting', () => {
       connected.value = true;
       try {
         if (itemId.value) await refresh(itemId.value, wantResults);
-        await flush();
       } catch (err) {
-        problem.value = err instanceof CommandError ? err.message : 'Could not reach the session';
+        problem.value = err instanceof ClientError ? err.message : 'Could not reach the session';
       }
     };
     stopAttached = watch(
@@ -145,49 +143,16 @@ export const useVotingStore = defineStore('voting', () => {
     proposal.value = null;
     teams.value = [];
     itemId.value = null;
-    outbox.length = 0;
   }
 
-  // ---- phone: ballots, sent one after another and retried with the same clientId ----
+  // ---- phone: ballots go through the phone's one outbox (kept across a reload, resent with the same clientId) ----
 
   type Ballot = { event: 'vote:dot'; payload: CommandPayload<'vote:dot'> } | { event: 'vote:rank'; payload: CommandPayload<'vote:rank'> };
-  type Outgoing = Ballot & { resolve: () => void; reject: (e: unknown) => void; tries: number };
-  const outbox: Outgoing[] = [];
-  let flushing = false;
 
-  async function flush(): Promise<void> {
-    if (flushing) return;
-    flushing = true;
-    try {
-      while (outbox.length > 0 && connected.value) {
-        const next = outbox[0]!;
-        try {
-          const answer = next.event === 'vote:dot' ? await ask('vote:dot', next.payload) : await ask('vote:rank', next.payload);
-          takeMine(answer.mine);
-          outbox.shift();
-          next.resolve();
-        } catch (err) {
-          const lost = err instanceof CommandError && (err.code === 'timeout' || err.code === 'network');
-          next.tries += 1;
-          if (lost && next.tries < RETRIES) {
-            // A lost answer while still connected: try again shortly; after a drop, the reconnect sends it.
-            if (connected.value) setTimeout(() => void flush(), 1000);
-            break;
-          }
-          outbox.shift();
-          next.reject(err);
-        }
-      }
-    } finally {
-      flushing = false;
-    }
-  }
-
-  function send(ballot: Ballot): Promise<void> {
-    return new Promise<void>((resolve, reject) => {
-      outbox.push({ ...ballot, resolve, reject, tries: 0 });
-      void flush();
-    });
+  async function send(ballot: Ballot): Promise<void> {
+    const outbox = useOutboxStore();
+    const answer = ballot.event === 'vote:dot' ? await outbox.ballot('vote:dot', ballot.payload) : await outbox.ballot('vote:rank', ballot.payload);
+    takeMine(answer.mine);
   }
 
   /**
@@ -199,7 +164,7 @@ export const useVotingStore = defineStore('voting', () => {
     if (!v || !v.mine) return;
     const dots = v.mine.dots.map((d) => ({ ...d, voterId: 'me' }));
     const check = checkBallot(v.rules, dots, { optionId, criterionId, delta });
-    if (!check.ok) throw new CommandError(check.code, check.message);
+    if (!check.ok) throw new ClientError(check.code, check.message);
     const current = v.mine.dots.find((d) => d.optionId === optionId && d.criterionId === criterionId);
     const nextDots = current
       ? v.mine.dots.map((d) => (d === current ? { ...d, count: d.count + delta } : d)).filter((d) => d.count > 0)

@@ -1,0 +1,44 @@
+import type { ErrorCode } from '../../shared/errors';
+import type { BallotErrorCode } from '../../shared/tally';
+
+/** What a client error's code may be: the server's codes, a ballot's own check, or the two the client makes itself. */
+export type ClientErrorCode = ErrorCode | BallotErrorCode | 'network' | 'timeout';
+
+/**
+ * The one error the client throws for what the server (over HTTP or a socket) refused or never
+ * answered: its code from `shared/errors.ts` (or `network`, `timeout`), a message fit for a person,
+ * the HTTP status (0 over a socket or without an answer) and field-by-field problems.
+ * @example throw new ClientError('network', 'Cairn cannot reach the server');
+ */
+export class ClientError extends Error {
+  constructor(
+    public code: ClientErrorCode,
+    message: string,
+    public status = 0,
+    public fields: Record<string, string> = {},
+  ) {
+    super(message);
+    this.name = 'ClientError';
+  }
+
+  /** The request may never have arrived or its answer was lost: sending it again (same client id) is safe. */
+  get lost(): boolean {
+    return this.code === 'network' || this.code === 'timeout';
+  }
+}
+
+/**
+ * The message to show for anything a call threw: a client error's own message, else the fallback
+ * (a programming error's text is not for the person using the screen).
+ * @example error.value = messageOf(err, 'Could not load the workshops');
+ */
+export function messageOf(err: unknown, fallback: string): string {
+  return err instanceof ClientError ? err.message : fallback;
+}
+
+/** The server's error body `{ error: { code, message, fields? } }` of a failed HTTP answer, as a client error. */
+export async function errorOfResponse(res: Response, fallback: string): Promise<ClientError> {
+  const body = (await res.json().catch(() => null)) as { error?: { code?: ErrorCode; message?: string; fields?: Record<string, string> } } | null;
+  const e = body?.error;
+  return new ClientError(e?.code ?? 'internal', e?.message ?? fallback, res.status, e?.fields ?? {});
+}
