@@ -53,6 +53,8 @@ export interface OutboxTransport {
 export interface OutboxHooks {
   /** The list changed (added, sent, dropped, loaded). */
   changed(items: readonly OutboxItem[]): void;
+  /** The server has an item (it answered); screens showing what was sent read it again. */
+  sent?(item: OutboxItem, answer: unknown): void;
   /** The server refused an item nobody is waiting for (one queued before a reload, a note, a photo). */
   refused(item: OutboxItem, error: ClientError): void;
 }
@@ -191,6 +193,7 @@ export class Outbox {
           const answer = await deliver(this.transport, item, file);
           this.stalled = false;
           await this.remove(item);
+          this.hooks.sent?.(item, answer);
           this.settle(item, (w) => w.resolve(answer));
         } catch (err) {
           const error = err instanceof ClientError ? err : new ClientError('internal', 'This could not be sent');

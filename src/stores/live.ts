@@ -122,7 +122,7 @@ export const useLiveStore = defineStore('live', () => {
     }
   }
 
-  /** Queues a note in the phone's outbox (with a fresh client id unless given); resolves once it is kept, sent or not. */
+  /** Queues a note in the phone's outbox (with a fresh client id unless given); resolves once the server has it or refused it. */
   async function submit(input: Outgoing): Promise<void> {
     await outbox.note({ ...input, clientId: input.clientId ?? newId() } as SubmissionInput);
   }

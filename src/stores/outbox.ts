@@ -24,6 +24,8 @@ export const useOutboxStore = defineStore('outbox', () => {
   const items = shallowRef<readonly OutboxItem[]>([]);
   /** A try found no connection: what waits goes by itself when it is back. */
   const stalled = ref(false);
+  /** Goes up each time the server has taken a note, ballot or photo (boards on screen read again). */
+  const deliveries = ref(0);
   /** The last refusal nobody was waiting for (a note or photo the server would not take). */
   const rejected = ref<string | null>(null);
   let sessionId = '';
@@ -44,6 +46,7 @@ export const useOutboxStore = defineStore('outbox', () => {
         items.value = [...list];
         stalled.value = outbox.stalled && list.length > 0;
       },
+      sent: () => (deliveries.value += 1),
       refused: (item, err) => (rejected.value = err.message || `A ${item.kind} could not be sent`),
     },
   );
@@ -86,9 +89,21 @@ export const useOutboxStore = defineStore('outbox', () => {
     return outbox.flush();
   }
 
-  /** Queues a note; resolves once it is kept (a refusal shows as `rejected`). */
+  /**
+   * Waits for what the server answers to an item nobody else waits for: a refusal shows in
+   * `rejected`; a lost answer is no refusal (the item stays kept and goes later, even after a reload).
+   */
+  async function delivered(answer: Promise<unknown>): Promise<void> {
+    try {
+      await answer;
+    } catch (err) {
+      if (!(err instanceof ClientError && err.lost)) rejected.value = err instanceof ClientError ? err.message : 'This could not be sent';
+    }
+  }
+
+  /** Queues a note; resolves once the server has it (or refused it: see `rejected`). */
   function note(payload: SubmissionInput): Promise<void> {
-    return outbox.add({ kind: 'note', clientId: payload.clientId, payload });
+    return delivered(outbox.addAndWait({ kind: 'note', clientId: payload.clientId, payload }));
   }
 
   /** Queues a ballot command; resolves to the server's answer, rejects with its refusal. */
@@ -98,9 +113,9 @@ export const useOutboxStore = defineStore('outbox', () => {
     return outbox.addAndWait(item) as Promise<CommandAnswer<E>>;
   }
 
-  /** Queues a photo with its bytes; resolves once it is kept (a refusal shows as `rejected`). */
+  /** Queues a photo with its bytes; resolves once the server has it (or refused it: see `rejected`). */
   function photo(fields: PhotoFields, file: Blob, fileName: string): Promise<void> {
-    return outbox.add({ kind: 'photo', clientId: fields.clientId, fields, fileName }, file);
+    return delivered(outbox.addAndWait({ kind: 'photo', clientId: fields.clientId, fields, fileName }, file));
   }
 
   /** Whether an item with this client id still waits. */
@@ -108,5 +123,5 @@ export const useOutboxStore = defineStore('outbox', () => {
     return items.value.some((i) => i.clientId === clientId);
   }
 
-  return { items, waiting, stalled, rejected, open, close, flush, note, ballot, photo, isWaiting };
+  return { items, waiting, stalled, deliveries, rejected, open, close, flush, note, ballot, photo, isWaiting };
 });
