@@ -407,7 +407,7 @@ test('every screen fits the longest content at every device size: projector, con
     await expect(phone.getByTestId('connection')).toHaveText('Reconnecting…', { timeout: 30_000 });
     await phone.getByTestId('note-input').fill('Nobody said where the next free dock was');
     await phone.getByTestId('send-note').click();
-    await expect(waiting).toHaveText('1 note waiting to be sent');
+    await expect(waiting).toHaveText('1 waiting to be sent');
     await expect(sent).toHaveText('1 sent in this activity');
     await phoneContext.setOffline(false);
     await expect(sent).toHaveText('2 sent in this activity', { timeout: 20_000 });
