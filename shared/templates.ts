@@ -231,12 +231,13 @@ export function fillTemplateText(text: string, fill: TemplateFill): string {
 
 /**
  * The prompt as the results and the report show it: a dot vote's count of dots ("{dots}", "three
- * dots") follows the item's budget, as the live screens do (fillDots).
+ * dots") follows the vote's budget where given, else the item's, as the live screens do (fillDots).
  * @example showPrompt({ type: 'dot_vote', prompt: 'Spend your {dots} dots', settings: { dotsPerVoter: 5 } }) // 'Spend your 5 dots'
  */
-export function showPrompt(item: Pick<AgendaItem, 'type' | 'prompt' | 'settings'>): string {
+export function showPrompt(item: Pick<AgendaItem, 'type' | 'prompt' | 'settings'>, voteDots?: number | null): string {
   if (item.type !== 'dot_vote') return item.prompt;
-  return fillDots(item.prompt, item.settings.dotsPerVoter ?? ACTIVITY_LIBRARY.dot_vote.defaultSettings.dotsPerVoter);
+  // The vote's own budget, once it was set up, wins over the plan's (as the live screens show it).
+  return fillDots(item.prompt, voteDots ?? item.settings.dotsPerVoter ?? ACTIVITY_LIBRARY.dot_vote.defaultSettings.dotsPerVoter);
 }
 
 /**

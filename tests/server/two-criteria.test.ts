@@ -128,6 +128,11 @@ describe('a dot vote on impact and effort', () => {
     expect(text).toContain('Impact high · Effort low');
   });
 
+  it("names the vote's own budget in the results' prompt (3 dots), as the phones showed it", () => {
+    const a = r.activities.find((x) => x.type === 'dot_vote')!;
+    expect(a.prompt).toMatch(/3 dots/);
+  });
+
   it('counts the vote as ballots in the participation table, not as "0 notes"', () => {
     const title = day.agenda.find((i) => i.type === 'dot_vote')!.title;
     const row = r.participation.perActivity.find((p) => p.title === title)!;

@@ -193,6 +193,8 @@ describe('templates', () => {
     expect(showPrompt(vote)).toMatch(/^Spend your 3 dots /);
     vote.settings.dotsPerVoter = 5;
     expect(showPrompt(vote)).toMatch(/^Spend your 5 dots /);
+    // The vote as it ran (set up with 2 dots) wins over the plan's 5, as the phones showed it.
+    expect(showPrompt(vote, 2)).toMatch(/^Spend your 2 dots /);
     vote.settings.dotsPerVoter = 1;
     expect(showPrompt(vote)).toMatch(/^Spend your 1 dot on /);
     // A prompt without a count of dots is shown as written, and other types are never touched.

@@ -613,7 +613,9 @@ export class ResultsService {
           for (const section of await provide(item, one)) sections.push({ ...section, sessionId: session.id, session: input.sessionNames.get(session.id) ?? '' });
         }
       }
-      activities.push({ itemId: item.id, position: i + 1, title: item.title, type: item.type, phase: item.phase, prompt: showPrompt(item), sections });
+      // The prompt names the dots the vote ran with (the first covered session's), as the phones showed it.
+      const ran = (await voteResultsOf(input)).find((v) => v.itemId === item.id && v.kind === 'dot_vote');
+      activities.push({ itemId: item.id, position: i + 1, title: item.title, type: item.type, phase: item.phase, prompt: showPrompt(item, ran?.rules.dotsPerVoter), sections });
     }
     const votes: VoteRecord[] = [];
     for (const provide of VOTE_RECORD_PROVIDERS) votes.push(...(await provide(input)));
