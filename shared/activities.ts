@@ -506,3 +506,17 @@ export function copyTitle(title: string, taken: readonly string[]): string {
     if (!used.has(candidate)) return candidate;
   }
 }
+
+/**
+ * The key a storyboard is kept under: its team's id, or `p:` and its author's id when the author had
+ * no team (frame orders, the console's stories and a phone's own story all use it).
+ * @example storyKey({ teamId: null, participantId: 'x1' }) // 'p:x1'
+ */
+export function storyKey(frame: { teamId: string | null; participantId: string }): string {
+  return frame.teamId ?? `p:${frame.participantId}`;
+}
+
+/** Whose storyboard a key names: a team's, or one participant's own. */
+export function storyOwner(key: string): { teamId: string } | { participantId: string } {
+  return key.startsWith('p:') ? { participantId: key.slice(2) } : { teamId: key };
+}

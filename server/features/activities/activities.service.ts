@@ -7,7 +7,7 @@ import { liveRooms, type LiveIo, type LiveService } from '../live/live.service';
 import { photoCleared } from './photos.service';
 import { pairsForRound, roundRobinLength, testRotation } from '../../../shared/rotations';
 import { fieldErrors } from '../../../shared/errors';
-import { noteRefusal } from '../../../shared/activities';
+import { noteRefusal, storyKey, storyOwner } from '../../../shared/activities';
 import type { ActivityType } from '../../../shared/schemas/agenda-item';
 import type { SubmissionInput, SubmissionView } from '../../../shared/schemas/live';
 import {
@@ -49,9 +49,7 @@ const NOTE_TYPES: ReadonlySet<string> = new Set([
 const LIVE_TEAM_TYPES: ReadonlySet<string> = new Set(['empathy_map', 'storyboard']);
 
 /** Whose story a storyboard frame belongs to: its team, or its author when they had none. */
-function storyKeyOf(row: Pick<SubmissionRow, 'teamId' | 'participantId'>): string {
-  return row.teamId ?? `p:${row.participantId}`;
-}
+const storyKeyOf = storyKey;
 
 const refuse = (message: string) => new AppError(400, 'bad_request', message);
 
@@ -264,7 +262,7 @@ export class ActivitiesService {
         if (r.kind === 'feedback' && r.fields?.hostTeamId) return myTeam !== null && r.fields.hostTeamId === myTeam;
         return false;
       });
-      const myKey = myTeam ?? `p:${me}`;
+      const myKey = storyKey({ teamId: myTeam, participantId: me });
       frameOrders = frameOrders[myKey] ? { [myKey]: frameOrders[myKey] } : {};
     }
     const notes = await this.notesFor(sessionId, shown, viewer, rows);
@@ -479,32 +477,33 @@ export class ActivitiesService {
   async reorderFrames(sessionId: string, participantId: string, itemId: string, frameIds: string[]): Promise<string[]> {
     const p = await this.live.participantOf(participantId, sessionId);
     if (!p) throw errors.notInSession();
-    return this.arrangeFrames(sessionId, itemId, p.teamId ?? `p:${p.id}`, frameIds);
+    return this.arrangeFrames(sessionId, itemId, storyKey({ teamId: p.teamId, participantId: p.id }), frameIds);
   }
 
   /**
    * Puts one story's frames in order: the given ids first, then any frame not named (e.g. one added
    * meanwhile) in the order it came. Answers with the order stored.
    */
-  async arrangeFrames(sessionId: string, itemId: string, storyKey: string, frameIds: string[]): Promise<string[]> {
+  async arrangeFrames(sessionId: string, itemId: string, key: string, frameIds: string[]): Promise<string[]> {
     const item = await this.itemOf(sessionId, itemId);
     if (item.type !== 'storyboard') throw refuse('Only a storyboard has frames to put in order');
     if (new Set(frameIds).size !== frameIds.length) throw refuse('Each frame can be in the story once');
     const { Submission } = this.ctx.db.models;
     const order = await this.ctx.db.writeTx(async (transaction) => {
       const frames = (await Submission.findAll({ where: { sessionId, itemId, kind: 'frame' }, order: [['createdAt', 'ASC']], transaction })).filter(
-        (f) => storyKeyOf(f) === storyKey && !f.mergedIntoId,
+        (f) => storyKeyOf(f) === key && !f.mergedIntoId,
       );
       const known = new Set(frames.map((f) => f.id));
       if (frameIds.some((id) => !known.has(id))) throw refuse('Those frames are not all in this storyboard');
       const full = [...frameIds, ...frames.map((f) => f.id).filter((id) => !frameIds.includes(id))];
       const state = await this.stateFor(sessionId, item, transaction);
-      state.frameOrders = { ...state.frameOrders, [storyKey]: full };
+      state.frameOrders = { ...state.frameOrders, [key]: full };
       state.changed('frameOrders', true);
       await state.save({ transaction });
       return full;
     });
-    const storyRoom = storyKey.startsWith('p:') ? liveRooms.participant(storyKey.slice(2)) : liveRooms.team(storyKey);
+    const owner = storyOwner(key);
+    const storyRoom = 'teamId' in owner ? liveRooms.team(owner.teamId) : liveRooms.participant(owner.participantId);
     this.changed(sessionId, itemId, [liveRooms.facilitators(sessionId), liveRooms.screens(sessionId), storyRoom]);
     return order;
   }

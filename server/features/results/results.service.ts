@@ -11,6 +11,7 @@ import type { AgendaItem } from '../../../shared/schemas/agenda-item';
 import { FEEDBACK_GRID_PARTS, PHOTO_TYPES } from '../../../shared/schemas/activities';
 import { VoteKind, type VoteResults } from '../../../shared/schemas/voting';
 import { showPrompt } from '../../../shared/templates';
+import { storyKey } from '../../../shared/activities';
 import type {
   ActivityResult,
   AgendaRunRow,
@@ -150,9 +151,7 @@ export const feedbackProvider: ActivityProvider = (item, input) => {
 };
 
 /** The key a storyboard is kept under: its team, or its author when they had none (as the activity keeps frame orders). */
-function storyKeyOf(n: Pick<NoteResult, 'teamId' | 'participantId'>): string {
-  return n.teamId ?? `p:${n.participantId}`;
-}
+const storyKeyOf: (n: Pick<NoteResult, 'teamId' | 'participantId'>) => string = storyKey;
 
 /** The workshop's photos, each with whether it may be shown (consent honoured), read once per build. */
 function photosOf(input: ResultsInput): Promise<{ row: PhotoRow; shown: boolean }[]> {
