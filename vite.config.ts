@@ -3,6 +3,7 @@ import vue from '@vitejs/plugin-vue';
 import { quasar, transformAssetUrls } from '@quasar/vite-plugin';
 import { compression } from 'vite-plugin-compression2';
 import { VitePWA } from 'vite-plugin-pwa';
+import { baseCompile } from '@intlify/message-compiler';
 import type { Plugin } from 'vite';
 
 /**
@@ -26,10 +27,43 @@ function preloadFont(match: RegExp): Plugin {
 
 const serverPort = Number(process.env.PORT ?? 3000);
 
+/**
+ * The message catalogs (src/i18n/locales/*.json) compiled at build time into vue-i18n's syntax trees, so
+ * the browser runs vue-i18n's runtime without its message compiler (what vue-i18n's own bundler plugin
+ * does; that plugin needs Node 22). A message that does not compile fails the build.
+ */
+function precompiledMessages(): Plugin {
+  const compileTree = (value: unknown, path: string): unknown => {
+    // Plain text (none of vue-i18n's special characters) stays a string: src/i18n/index.ts shows it as it is.
+    if (typeof value === 'string' && !/[{}@$|]/.test(value)) return value;
+    if (typeof value === 'string') {
+      const errors: string[] = [];
+      const { ast } = baseCompile(value, { jit: true, location: false, minify: true, onError: (e) => errors.push(e.message) });
+      if (errors.length) throw new Error(`Message ${path} does not compile: ${errors.join('; ')}`);
+      return ast;
+    }
+    if (value && typeof value === 'object') {
+      return Object.fromEntries(Object.entries(value).map(([k, v]) => [k, compileTree(v, `${path}.${k}`)]));
+    }
+    return value;
+  };
+  return {
+    name: 'cairn-precompiled-messages',
+    enforce: 'pre',
+    transform(code, id) {
+      if (!/\/src\/i18n\/locales\/[a-z]+\.json$/.test(id)) return null;
+      const tree = compileTree(JSON.parse(code), id.replace(/^.*\//, ''));
+      // Still JSON: Vite's own JSON step makes the module of it.
+      return { code: JSON.stringify(tree), map: null };
+    },
+  };
+}
+
 /** Vite builds the Cairn client; Vitest runs the unit, API and socket tests. */
 export default defineConfig({
   // Quasar's plugin needs Vue's asset-url transform first (it throws on the wrong order).
   plugins: [
+    precompiledMessages(),
     vue({ template: { transformAssetUrls } }),
     quasar(),
     // The phone's shell survives a bad connection: the HTML precached, the hashed files it used kept as it
@@ -78,6 +112,17 @@ export default defineConfig({
     // Brotli and gzip copies beside each text asset, served as they are by express-static-gzip (server/app.ts).
     compression({ algorithms: ['brotliCompress', 'gzip'], include: /\.(js|mjs|css|html|svg|json|webmanifest|txt)$/, threshold: 512 }),
   ],
+  resolve: {
+    // vue-i18n's runtime: the catalogs come precompiled (above).
+    alias: [{ find: /^vue-i18n$/, replacement: 'vue-i18n/dist/vue-i18n.runtime.mjs' }],
+  },
+  define: {
+    __VUE_I18N_FULL_INSTALL__: 'false',
+    __VUE_I18N_LEGACY_API__: 'false',
+    __INTLIFY_PROD_DEVTOOLS__: 'false',
+    __INTLIFY_DROP_MESSAGE_COMPILER__: 'true',
+    __INTLIFY_JIT_COMPILATION__: 'true',
+  },
   build: {
     outDir: 'dist',
     emptyOutDir: true,

@@ -10,6 +10,7 @@ import './css/app.css';
 import App from './App.vue';
 import { createCairnRouter } from './router';
 import { LIGHT } from './theme/palette';
+import { i18n } from './i18n';
 
 const app = createApp(App);
 app.use(createPinia());
@@ -30,5 +31,6 @@ app.use(Quasar, {
     notify: { position: 'top' },
   },
 });
+app.use(i18n);
 app.use(createCairnRouter());
 app.mount('#app');

@@ -1,0 +1,75 @@
+import { ref } from 'vue';
+import { createI18n } from 'vue-i18n';
+import { registerMessageCompiler, compile } from '@intlify/core-base';
+import { Lang } from 'quasar';
+// Quasar starts in US English anyway; importing it here only names it.
+import enUS from 'quasar/lang/en-US.js';
+import en from './locales/en.json';
+import { LOCALES, isLocale, pickLocale, pluralIndex, type Locale } from '../../shared/locales';
+
+/** The English catalog's shape: every other catalog has the same keys (tests/shared/catalogs.test.ts). */
+export type MessageSchema = typeof en;
+
+// The catalogs arrive precompiled (vite.config.ts turns each message with placeholders or plural forms into
+// its syntax tree at build time, and leaves plain text as it is), so the phone loads vue-i18n's runtime
+// without the message compiler; `compile` here only turns a tree into a function.
+registerMessageCompiler((message, context) => (typeof message === 'string' ? () => message : compile(message, context)));
+
+const pluralRules = Object.fromEntries(LOCALES.map((l) => [l, (choice: number, forms: number) => pluralIndex(l, choice, forms)]));
+
+/** Cairn's message catalogs: English loaded with the app, German and Spanish when first needed. */
+export const i18n = createI18n<[MessageSchema], Locale, false>({
+  legacy: false,
+  locale: 'en',
+  fallbackLocale: 'en',
+  messages: { en } as Record<Locale, MessageSchema>,
+  pluralRules,
+  missingWarn: false,
+  fallbackWarn: false,
+});
+
+const loaders: Record<Exclude<Locale, 'en'>, () => Promise<{ default: unknown }>> = {
+  de: () => import('./locales/de.json'),
+  es: () => import('./locales/es.json'),
+};
+type QuasarPack = Parameters<typeof Lang.set>[0];
+// Quasar's language files are typed loosely (`quasar/lang/*`); each is a language pack.
+const quasarPacks: Record<Locale, () => Promise<{ default: QuasarPack }>> = {
+  en: async () => ({ default: enUS as QuasarPack }),
+  de: async () => ({ default: (await import('quasar/lang/de.js')).default as QuasarPack }),
+  es: async () => ({ default: (await import('quasar/lang/es.js')).default as QuasarPack }),
+};
+
+/** The language the participant's screens show now (reactive), set only through `setLocale`. */
+export const currentLocale = ref<Locale>('en');
+
+/**
+ * Shows the screens in `locale`: loads its catalog and Quasar's language pack the first time, then
+ * switches vue-i18n, Quasar's components and the page's `lang` together.
+ */
+export async function setLocale(locale: Locale): Promise<void> {
+  if (locale !== 'en' && !i18n.global.availableLocales.includes(locale)) {
+    const catalog = await loaders[locale]();
+    i18n.global.setLocaleMessage(locale, catalog.default as MessageSchema);
+  }
+  const pack = await quasarPacks[locale]();
+  Lang.set(pack.default);
+  i18n.global.locale.value = locale;
+  currentLocale.value = locale;
+  document.documentElement.lang = locale;
+}
+
+/** Where a phone keeps the language its participant picked. */
+const PHONE_LOCALE_KEY = 'cairn.locale';
+
+/** The phone's language: the one its participant picked, else the browser's first that Cairn speaks. */
+export function phoneLocale(): Locale {
+  const saved = localStorage.getItem(PHONE_LOCALE_KEY);
+  return isLocale(saved) ? saved : pickLocale(navigator.languages ?? [navigator.language]);
+}
+
+/** Keeps the participant's pick of language on this phone and shows it. */
+export async function choosePhoneLocale(locale: Locale): Promise<void> {
+  localStorage.setItem(PHONE_LOCALE_KEY, locale);
+  await setLocale(locale);
+}

@@ -1,0 +1,88 @@
+import { readFileSync } from 'node:fs';
+import { describe, expect, it } from 'vitest';
+import { baseCompile } from '@intlify/message-compiler';
+import { LOCALES, pickLocale, pluralIndex } from '../../shared/locales';
+import { PARTICIPANT_MAIL, participantMail } from '../../server/features/results/participant-mail';
+
+type Tree = { [key: string]: string | Tree };
+const catalog = (locale: string): Tree => JSON.parse(readFileSync(new URL(`../../src/i18n/locales/${locale}.json`, import.meta.url), 'utf8'));
+
+/** Every message of a catalog by its dotted key. */
+function flatten(tree: Tree, prefix = ''): Map<string, string> {
+  const out = new Map<string, string>();
+  for (const [k, v] of Object.entries(tree)) {
+    const key = prefix ? `${prefix}.${k}` : k;
+    if (typeof v === 'string') out.set(key, v);
+    else for (const [kk, vv] of flatten(v, key)) out.set(kk, vv);
+  }
+  return out;
+}
+
+/** A message's named placeholders, and how many plural forms it has (vue-i18n message syntax). */
+function shape(message: string): { params: string[]; forms: number } {
+  const params = [...message.matchAll(/\{(\w+)\}/g)].map((m) => m[1]!);
+  return { params: [...new Set(params)].sort(), forms: message.split(' | ').length };
+}
+
+describe('message catalogs', () => {
+  const en = flatten(catalog('en'));
+
+  it.each(LOCALES.filter((l) => l !== 'en'))('%s has every English key, with the same placeholders and plural forms, and nothing more', (locale) => {
+    const other = flatten(catalog(locale));
+    expect([...other.keys()].sort()).toEqual([...en.keys()].sort());
+    for (const [key, message] of en) {
+      expect({ key, ...shape(other.get(key)!) }).toEqual({ key, ...shape(message) });
+    }
+  });
+
+  it.each(LOCALES)('every message of %s compiles', (locale) => {
+    for (const [key, message] of flatten(catalog(locale))) {
+      const errors: string[] = [];
+      baseCompile(message, { jit: true, location: false, onError: (e) => errors.push(e.message) });
+      expect({ key, errors }).toEqual({ key, errors: [] });
+    }
+  });
+
+  it('the participant e-mail has the same keys and placeholders in every language', () => {
+    const keys = Object.keys(PARTICIPANT_MAIL.en).sort();
+    for (const locale of LOCALES) {
+      expect(Object.keys(PARTICIPANT_MAIL[locale]).sort()).toEqual(keys);
+      for (const key of keys) expect(shape(PARTICIPANT_MAIL[locale][key]!)).toEqual(shape(PARTICIPANT_MAIL.en[key]!));
+    }
+  });
+});
+
+describe('languages', () => {
+  it('takes the first browser language Cairn speaks, by its primary subtag', () => {
+    // RFC 5646 §2.1: the primary language subtag comes first; region subtags follow a hyphen.
+    expect(pickLocale(['fr-CH', 'de-AT', 'en'])).toBe('de');
+    expect(pickLocale(['es-419'])).toBe('es');
+    expect(pickLocale(['ja', 'zh-Hant'])).toBe('en');
+    expect(pickLocale([])).toBe('en');
+  });
+
+  it('chooses plural forms by the CLDR plural categories of each language', () => {
+    // CLDR plural rules (unicode.org, language_plural_rules): English, German and Spanish have "one" for 1 only among small integers.
+    for (const l of LOCALES) {
+      expect(pluralIndex(l, 1, 2)).toBe(0);
+      expect(pluralIndex(l, 2, 2)).toBe(1);
+      expect(pluralIndex(l, 0, 2)).toBe(1);
+      expect(pluralIndex(l, 0, 3)).toBe(0);
+      expect(pluralIndex(l, 1, 3)).toBe(1);
+      expect(pluralIndex(l, 5, 3)).toBe(2);
+    }
+  });
+
+  it('writes the participant e-mail in their language, with the date as that language writes it', () => {
+    const mail = participantMail('de', { title: 'Erste Fahrt', date: '2027-04-15', retentionDays: 30 }, null);
+    // German long date format (CLDR de, dateFormats long): "15. April 2027".
+    expect(mail.subject).toBe('Bericht zum Workshop “Erste Fahrt” (15. April 2027)');
+    expect(mail.text).toMatch(/^Hallo,\n/);
+    expect(mail.text).toContain('30 Tage nach dem Workshop gelöscht');
+    const es = participantMail('es', { title: 'Primer viaje', date: '2027-04-15', retentionDays: null }, { from: 'Mira', text: 'Gracias.' });
+    // Spanish long date format (CLDR es, dateFormats long): "15 de abril de 2027".
+    expect(es.subject).toContain('15 de abril de 2027');
+    expect(es.text).toContain('Mira añade:\n\nGracias.');
+    expect(participantMail('en', { title: 'First ride', date: '2027-04-15', retentionDays: 0 }, null).text).toMatch(/^Hello,\n\nYou asked/);
+  });
+});
