@@ -366,6 +366,10 @@ test('every screen fits the longest content at every device size: projector, con
     await expect(words).toHaveText(/^Projector page \d+ of \d+$/);
     const [from, of] = (await mark.textContent())!.split('/').map(Number) as [number, number];
     const at = (n: number) => (((n - 1) % of) + of) % of + 1;
+    for (const size of [TABLETS[0]!, TABLETS[1]!]) {
+      await consolePage.setViewportSize(size);
+      await snap(consolePage, `console-projector-pages-${size.width}x${size.height}`);
+    }
     await consolePage.getByTestId('page-next').click();
     await expect(mark).toHaveText(`${at(from + 1)}/${of}`);
     await expect(words).toHaveText(`Projector page ${at(from + 1)} of ${of}`);
