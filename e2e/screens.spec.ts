@@ -361,9 +361,13 @@ test('every screen fits the longest content at every device size: projector, con
   // The console steps the projector's pages ("page n of m", previous / next); with nobody stepping, the pages turn by themselves.
   const stepPages = async () => {
     await projector.setViewportSize(PROJECTORS[0]!);
+    await settle(projector);
     const words = consolePage.getByTestId('projector-page-words');
     const mark = projector.getByTestId('projector-page');
-    await expect(words).toHaveText(/^Projector page \d+ of \d+$/);
+    // Once the projector has laid the pages out at this size, the console says what it shows.
+    await expect
+      .poll(async () => (await words.textContent())?.trim() === `Projector page ${(await mark.textContent())?.replace('/', ' of ')}`)
+      .toBe(true);
     const [from, of] = (await mark.textContent())!.split('/').map(Number) as [number, number];
     const at = (n: number) => (((n - 1) % of) + of) % of + 1;
     for (const size of [TABLETS[0]!, TABLETS[1]!]) {
