@@ -6,8 +6,8 @@ import path from 'node:path';
 import { DEMO } from './fixtures';
 
 /*
- * Every screen of the room with the longest content Cairn accepts, at the device sizes of
- * ../shared/CHECKS.md ("Screens in a real room"): projectors 1920×1080, 1280×720, 1024×768 (common
+ * Every screen of the room with the longest content Cairn accepts, at the sizes a real room
+ * has: projectors 1920×1080, 1280×720, 1024×768 (common
  * projector resolutions), tablets 820×1180, 1180×820, 1024×768, 768×1024 (common tablet viewports,
  * portrait and landscape), phones 360×640, 390×844, 412×915 (common phone viewports). The content is
  * seeded through the API and real socket connections, not typed, so the walk stays quick.

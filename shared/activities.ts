@@ -23,6 +23,7 @@ export type MaterialKey = (typeof MATERIAL_KEYS)[number];
 /** How a material appears on the packing list and how it adds up over the agenda. */
 export interface MaterialDefinition {
   label: string;
+  /** The unit as a singular noun; `countOf` makes its plural. */
   unit: string;
   /**
    * Used up by each activity (sticky notes, paper, snacks): the quantities of the items are added.
@@ -46,18 +47,18 @@ export const PHASE_LABELS: Record<Phase, string> = {
 
 /** Labels, units and adding-up rule of every material. */
 export const MATERIALS: Record<MaterialKey, MaterialDefinition> = {
-  sticky_notes: { label: 'Sticky notes', unit: 'notes', consumable: true },
-  markers: { label: 'Markers', unit: 'markers', consumable: false },
-  paper_a4: { label: 'A4 paper', unit: 'sheets', consumable: true },
-  paper_a3: { label: 'A3 paper', unit: 'sheets', consumable: true },
-  dot_stickers: { label: 'Dot stickers', unit: 'dots', consumable: true },
-  tape: { label: 'Masking tape', unit: 'rolls', consumable: false },
-  whiteboard: { label: 'Whiteboard or wall space', unit: 'boards', consumable: false },
-  projector: { label: 'Projector and screen', unit: 'sets', consumable: false },
-  tablet: { label: "Facilitator's tablet", unit: 'tablets', consumable: false },
-  timer: { label: 'Spare timer', unit: 'timers', consumable: false },
-  snacks: { label: 'Healthy snacks', unit: 'servings', consumable: true },
-  water: { label: 'Water', unit: 'cups', consumable: true },
+  sticky_notes: { label: 'Sticky notes', unit: 'note', consumable: true },
+  markers: { label: 'Markers', unit: 'marker', consumable: false },
+  paper_a4: { label: 'A4 paper', unit: 'sheet', consumable: true },
+  paper_a3: { label: 'A3 paper', unit: 'sheet', consumable: true },
+  dot_stickers: { label: 'Dot stickers', unit: 'dot', consumable: true },
+  tape: { label: 'Masking tape', unit: 'roll', consumable: false },
+  whiteboard: { label: 'Whiteboard or wall space', unit: 'board', consumable: false },
+  projector: { label: 'Projector and screen', unit: 'set', consumable: false },
+  tablet: { label: "Facilitator's tablet", unit: 'tablet', consumable: false },
+  timer: { label: 'Spare timer', unit: 'timer', consumable: false },
+  snacks: { label: 'Healthy snacks', unit: 'serving', consumable: true },
+  water: { label: 'Water', unit: 'cup', consumable: true },
 };
 
 /**
@@ -72,8 +73,10 @@ export interface MaterialRule {
   item: MaterialKey;
   per: 'person' | 'team' | 'voter_dot' | 'fixed';
   quantity: number;
-  /** Where the quantity comes from: a published guide, or "common practice". */
+  /** Where the quantity comes from: a published guide, or "common practice". For code and tests, never shown. */
   source: string;
+  /** Why this many, in Cairn's own words, as the packing list shows it ("every voter’s dots and half again spare"). */
+  why: string;
   /** The rule applies only when this setting of the item is true (snacks and water at a break). */
   onlyIfSetting?: 'snacks';
 }
@@ -113,43 +116,42 @@ export function defaultMinTimebox(timeboxMin: number): number {
   return Math.max(1, Math.round((timeboxMin * 2) / 3));
 }
 
-// Origins of the quantities, written once so the packing list can name them.
+// Why each quantity is what it is, in Cairn's own words (the origins of the numbers are in the comments).
 const PRACTICE = 'common practice';
-const SPARE_DOTS =
-  'a published facilitation guide; common practice: dots per voter × voters, plus 50 % spare';
+const SPARE_DOTS = 'a published facilitation guide; common practice: dots per voter × voters, plus 50 % spare';
 const DOTS_PER_VOTER =
   'published guides (Global Learning Partners, "Dot-mocracy"; Dotmocracy handbook): 3–5 dots per voter is common';
-const INTERVIEW_CYCLE = 'd.school gift-giving exercise: 2 × 4 min interview, 2 × 4 min dig deeper';
 const STORYBOARD_STEPS = 'common practice; published method cards: a storyboard runs 10–20 steps';
-const RAPID_SKETCH = 'common practice: 8 sketches in 8 minutes, one minute each';
+const QUICK_SKETCHES = 'common practice: quick sketches, about a minute each, one idea a box';
+const FEEDBACK_GRID = 'common practice; a published method card: a feedback grid of four parts';
 
 const marker: MaterialRule = {
   item: 'markers',
   per: 'person',
   quantity: 1,
-  source: `${PRACTICE}: one marker each, so everyone writes their own notes`,
+  source: PRACTICE, why: 'one marker each, so everyone writes their own notes',
 };
 const screen: MaterialRule = {
   item: 'projector',
   per: 'fixed',
   quantity: 1,
-  source: `${PRACTICE}: one screen the whole room can read`,
+  source: PRACTICE, why: 'one screen the whole room can read',
 };
 const facilitatorTablet: MaterialRule = {
   item: 'tablet',
   per: 'fixed',
   quantity: 1,
-  source: `${PRACTICE}: the facilitator runs the day from one tablet`,
+  source: PRACTICE, why: 'the facilitator runs the day from one tablet',
 };
 const wall: MaterialRule = {
   item: 'whiteboard',
   per: 'fixed',
   quantity: 1,
-  source: `${PRACTICE}: one shared wall or whiteboard to cluster and vote on`,
+  source: PRACTICE, why: 'one shared wall or whiteboard to cluster and vote on',
 };
-const refreshments = (snackSource: string, waterSource: string): MaterialRule[] => [
-  { item: 'snacks', per: 'person', quantity: 1, source: snackSource, onlyIfSetting: 'snacks' },
-  { item: 'water', per: 'person', quantity: 1, source: waterSource, onlyIfSetting: 'snacks' },
+const refreshments = (snackWhy: string, waterWhy: string): MaterialRule[] => [
+  { item: 'snacks', per: 'person', quantity: 1, source: PRACTICE, why: snackWhy, onlyIfSetting: 'snacks' },
+  { item: 'water', per: 'person', quantity: 1, source: PRACTICE, why: waterWhy, onlyIfSetting: 'snacks' },
 ];
 
 function activity(
@@ -190,7 +192,7 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
     defaultSettings: { rounds: 3, roundMinutes: 3, movement: true },
     movement: true,
     materials: [
-      { item: 'timer', per: 'fixed', quantity: 1, source: `${PRACTICE}: a spare timer for timed rounds` },
+      { item: 'timer', per: 'fixed', quantity: 1, source: PRACTICE, why: 'a spare timer for timed rounds' },
     ],
     description: 'Short rounds in rotating pairs so people meet someone new before the real work.',
   }),
@@ -203,14 +205,15 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
     defaultPrompt:
       'Ask your partner about a recent time they tried something new. ' +
       'Note what they say, think, do and feel.',
-    // Each partner takes a turn: 4 min interview, then 4 min digging deeper (INTERVIEW_CYCLE).
-    defaultSettings: { rounds: 2, roundMinutes: 4 },
+    // Two turns, so each partner asks once and answers once; ten minutes a turn leaves time to listen,
+    // ask why and note what was heard (common practice).
+    defaultSettings: { rounds: 2, roundMinutes: 10 },
     materials: [
-      { item: 'paper_a4', per: 'person', quantity: 1, source: `${PRACTICE}: one note sheet each (${INTERVIEW_CYCLE})` },
+      { item: 'paper_a4', per: 'person', quantity: 1, source: PRACTICE, why: 'one sheet each to note what the partner tells' },
       marker,
-      { item: 'timer', per: 'fixed', quantity: 1, source: `${PRACTICE}: a spare timer for timed rounds` },
+      { item: 'timer', per: 'fixed', quantity: 1, source: PRACTICE, why: 'a spare timer for timed rounds' },
     ],
-    description: 'Paired interviews in turns, each an interview then a dig deeper, to hear real stories.',
+    description: 'Pairs take turns: one asks about a real experience and keeps asking why, the other tells; each notes what their partner says, thinks, does and feels.',
   }),
   empathy_map: activity({
     type: 'empathy_map',
@@ -221,12 +224,12 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
     defaultPrompt: 'Add what you heard to your team’s map: what they see, hear, say and do, think and feel.',
     defaultSettings: { painsAndGains: false },
     materials: [
-      { item: 'paper_a3', per: 'team', quantity: 1, source: `${PRACTICE}: one large canvas for each team's map` },
-      { item: 'sticky_notes', per: 'person', quantity: 15, source: `${PRACTICE}: about 15 notes each for a team map` },
-      { item: 'tape', per: 'team', quantity: 1, source: `${PRACTICE}: one roll for each team to hang its map` },
+      { item: 'paper_a3', per: 'team', quantity: 1, source: PRACTICE, why: 'one large canvas for each team’s map' },
+      { item: 'sticky_notes', per: 'person', quantity: 15, source: PRACTICE, why: 'about 15 notes each for a team map' },
+      { item: 'tape', per: 'team', quantity: 1, source: PRACTICE, why: 'one roll for each team to hang its map' },
       marker,
     ],
-    description: 'Each team sorts its interview notes into the quadrants of a shared map.',
+    description: 'Each team files what it heard in the interviews under the parts of a shared map.',
   }),
   insights: activity({
     type: 'insights',
@@ -241,7 +244,7 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
         item: 'sticky_notes',
         per: 'person',
         quantity: 10,
-        source: `${PRACTICE}: about 10 notes each, one insight per note`,
+        source: PRACTICE, why: 'about 10 notes each, one insight per note',
       },
       marker,
       wall,
@@ -257,7 +260,7 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
     defaultPrompt: 'Finish the sentence: [who] needs [to do what] because [what we learned].',
     defaultSettings: {},
     materials: [
-      { item: 'sticky_notes', per: 'person', quantity: 3, source: `${PRACTICE}: a few drafts each` },
+      { item: 'sticky_notes', per: 'person', quantity: 3, source: PRACTICE, why: 'a few drafts each' },
     ],
     description: 'A guided sentence that names the person, their need and the insight behind it.',
   }),
@@ -270,7 +273,7 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
     defaultPrompt: 'Turn a need into a question: How might we [do something] for [whom] so that [outcome]?',
     defaultSettings: {},
     materials: [
-      { item: 'sticky_notes', per: 'person', quantity: 5, source: `${PRACTICE}: about 5 questions each` },
+      { item: 'sticky_notes', per: 'person', quantity: 5, source: PRACTICE, why: 'about 5 questions each' },
       wall,
     ],
     description: 'Turn needs into open questions, neither too broad nor too narrow, to vote on.',
@@ -284,11 +287,11 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
     // Criteria are optional: none means one overall vote; IMPACT_EFFORT_CRITERIA is the usual pair.
     defaultSettings: { dotsPerVoter: 3, topN: 3 },
     materials: [
-      { item: 'dot_stickers', per: 'voter_dot', quantity: 1.5, source: `${SPARE_DOTS}; ${DOTS_PER_VOTER}` },
+      { item: 'dot_stickers', per: 'voter_dot', quantity: 1.5, source: `${SPARE_DOTS}; ${DOTS_PER_VOTER}`, why: 'every voter’s dots and half again spare' },
       wall,
       screen,
     ],
-    description: 'Everyone spends a small budget of dots; the tally stays hidden until voting closes.',
+    description: 'Everyone spends a small budget of dots; the room sees the tally only when you show results.',
   }),
   preference_vote: activity({
     type: 'preference_vote',
@@ -313,23 +316,23 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
   sketch: activity({
     type: 'sketch',
     noteKinds: ['sketch', 'feedback'],
-    label: 'Sketch',
+    label: 'Quick sketches',
     phase: 'ideate',
     defaultTimeboxMin: 25,
-    defaultPrompt:
-      'Fold a sheet into eight. Sketch eight ideas in eight minutes, ' +
-      'one a minute, then photograph your sheet.',
-    defaultSettings: { sketchesPerPerson: 8 },
+    defaultPrompt: 'Draw {sketches} rough sketches of different ideas, one idea a box, then photograph your sheet.',
+    // The number of sketches is a setting of the item; its prompt names it through {sketches}.
+    defaultSettings: { sketchesPerPerson: 6 },
     materials: [
       {
         item: 'paper_a4',
         per: 'person',
         quantity: 2,
-        source: `${RAPID_SKETCH}; one sheet folded into eight, one spare`,
+        source: QUICK_SKETCHES,
+        why: 'one sheet for the boxes of sketches, and one spare',
       },
       marker,
     ],
-    description: 'Rapid paper sketches, photographed with a caption and shared for feedback.',
+    description: 'Quick rough sketches on paper, several ideas each, photographed with a caption and shared for feedback.',
   }),
   storyboard: activity({
     type: 'storyboard',
@@ -340,9 +343,9 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
     defaultPrompt: 'Tell the idea as a story, frame by frame: who they are, what happens, how it ends.',
     defaultSettings: { storyboardFrames: 12 },
     materials: [
-      { item: 'paper_a3', per: 'team', quantity: 2, source: `${PRACTICE}: two large sheets for each team's frames` },
-      { item: 'sticky_notes', per: 'team', quantity: 20, source: `${STORYBOARD_STEPS}; a note a frame, with spare` },
-      { item: 'tape', per: 'team', quantity: 1, source: `${PRACTICE}: one roll for each team` },
+      { item: 'paper_a3', per: 'team', quantity: 2, source: PRACTICE, why: 'two large sheets for each team’s frames' },
+      { item: 'sticky_notes', per: 'team', quantity: 20, source: STORYBOARD_STEPS, why: 'a note a frame, with spare' },
+      { item: 'tape', per: 'team', quantity: 1, source: PRACTICE, why: 'one roll for each team' },
       marker,
     ],
     description: "Each team lays out its idea as ordered frames, the prototype the others will test.",
@@ -362,15 +365,16 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
         item: 'paper_a3',
         per: 'team',
         quantity: 1,
-        source: `${PRACTICE}: one sheet a team for the feedback capture grid (d.school method card)`,
+        source: FEEDBACK_GRID,
+        why: 'one sheet a team for the feedback grid',
       },
       {
         item: 'sticky_notes',
         per: 'person',
         quantity: 8,
-        source: `${PRACTICE}: two notes for each of the grid's four parts`,
+        source: PRACTICE, why: 'two notes for each of the grid’s four parts',
       },
-      { item: 'timer', per: 'fixed', quantity: 1, source: `${PRACTICE}: a spare timer for timed rounds` },
+      { item: 'timer', per: 'fixed', quantity: 1, source: PRACTICE, why: 'a spare timer for timed rounds' },
     ],
     description: "Testers visit another team's prototype in rounds and record feedback in four parts.",
   }),
@@ -385,8 +389,8 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
     defaultSettings: { snacks: true },
     isBreak: true,
     materials: refreshments(
-      `${PRACTICE}: one healthy snack each a break`,
-      `${PRACTICE}: a cup of water each a break`,
+      'one healthy snack each a break',
+      'a cup of water each a break',
     ),
     description: 'A pause to rest and refuel.',
   }),
@@ -401,8 +405,8 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
     defaultSettings: { snacks: true },
     isBreak: true,
     materials: refreshments(
-      `${PRACTICE}: a healthy option each at lunch, besides the meal`,
-      `${PRACTICE}: a cup of water each at lunch`,
+      'a healthy option each at lunch, besides the meal',
+      'a cup of water each at lunch',
     ),
     description: 'A proper lunch break away from the work.',
   }),
@@ -426,7 +430,7 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
     defaultPrompt: 'Before you go: what will you take away from today, and what should happen next?',
     defaultSettings: {},
     materials: [
-      { item: 'sticky_notes', per: 'person', quantity: 3, source: `${PRACTICE}: a few reflections each` },
+      { item: 'sticky_notes', per: 'person', quantity: 3, source: PRACTICE, why: 'a few reflections each' },
       screen,
     ],
     description: 'What happens next, and a short reflection from everyone.',

@@ -1,6 +1,7 @@
 import { ACTIVITY_LIBRARY, MATERIALS, MATERIAL_KEYS, type MaterialKey, type MaterialRule } from './activities';
 import type { AgendaItem } from './schemas/agenda-item';
 import { whole } from './numbers';
+import { countOf } from './words';
 
 /** One line of the packing list. */
 export interface PackingLine {
@@ -8,12 +9,12 @@ export interface PackingLine {
   label: string;
   quantity: number;
   unit: string;
-  /** Where the quantities come from, each origin once. */
-  sources: string[];
+  /** The quantity with its unit in the right number: "1 board", "2 boards". */
+  amount: string;
   /** The agenda items that need it, in agenda order. */
   usedBy: string[];
   /** How the quantity is made: each activity's share, in words and numbers, so it can be checked by hand. */
-  shares: { itemId: string; title: string; quantity: number; how: string }[];
+  shares: { itemId: string; title: string; quantity: number; how: string; why: string }[];
   /** Added up over the activities (used up), or the most any one activity needs (used again). */
   adds: 'sum' | 'max';
   /** Dot stickers when the votes run on the phones: a paper fallback, not a requirement. */
@@ -27,15 +28,15 @@ const num = (n: number) => String(Math.round(n * 100) / 100);
 function shareWords(rule: MaterialRule, item: AgendaItem, headcount: number, teamCount: number, quantity: number): string {
   switch (rule.per) {
     case 'person':
-      return `${num(rule.quantity)} × ${headcount} people = ${num(quantity)}`;
+      return `${num(rule.quantity)} × ${countOf(headcount, 'person')} = ${num(quantity)}`;
     case 'team':
-      return `${num(rule.quantity)} × ${teamCount} teams = ${num(quantity)}`;
+      return `${num(rule.quantity)} × ${countOf(teamCount, 'team')} = ${num(quantity)}`;
     case 'fixed':
       return `${num(quantity)} for the room`;
     case 'voter_dot': {
       const dots = item.settings.dotsPerVoter ?? ACTIVITY_LIBRARY[item.type].defaultSettings.dotsPerVoter ?? 1;
       const criteria = Math.max(1, item.settings.criteria?.length ?? 0);
-      return `${dots} dots × ${criteria} ${criteria === 1 ? 'criterion' : 'criteria'} × ${headcount} people × ${num(rule.quantity)} (with spares) = ${num(quantity)}`;
+      return `${countOf(dots, 'dot')} × ${countOf(criteria, 'criterion')} × ${countOf(headcount, 'person')} × ${num(rule.quantity)} (with spares) = ${num(quantity)}`;
     }
   }
 }
@@ -68,20 +69,19 @@ function ruleQuantity(rule: MaterialRule, item: AgendaItem, headcount: number, t
 export function packingList(items: AgendaItem[], headcount: number, teamCount: number): PackingLine[] {
   whole('The headcount', headcount);
   whole('The number of teams', teamCount);
-  const lines = new Map<MaterialKey, { quantity: number; sources: Set<string>; usedBy: Set<string>; shares: PackingLine['shares'] }>();
+  const lines = new Map<MaterialKey, { quantity: number; usedBy: Set<string>; shares: PackingLine['shares'] }>();
   for (const item of items) {
     for (const rule of ACTIVITY_LIBRARY[item.type].materials) {
       if (rule.onlyIfSetting && item.settings[rule.onlyIfSetting] !== true) continue;
       const quantity = ruleQuantity(rule, item, headcount, teamCount);
       let line = lines.get(rule.item);
       if (!line) {
-        line = { quantity: 0, sources: new Set(), usedBy: new Set(), shares: [] };
+        line = { quantity: 0, usedBy: new Set(), shares: [] };
         lines.set(rule.item, line);
       }
       line.quantity = MATERIALS[rule.item].consumable ? line.quantity + quantity : Math.max(line.quantity, quantity);
-      line.sources.add(rule.source);
       line.usedBy.add(item.id);
-      line.shares.push({ itemId: item.id, title: item.title, quantity, how: shareWords(rule, item, headcount, teamCount, quantity) });
+      line.shares.push({ itemId: item.id, title: item.title, quantity, how: shareWords(rule, item, headcount, teamCount, quantity), why: rule.why });
     }
   }
   // Lines in the catalogue's order, so the list reads the same every time.
@@ -96,7 +96,7 @@ export function packingList(items: AgendaItem[], headcount: number, teamCount: n
         label: MATERIALS[key].label,
         quantity,
         unit: MATERIALS[key].unit,
-        sources: [...line.sources],
+        amount: countOf(quantity, MATERIALS[key].unit),
         usedBy: [...line.usedBy],
         shares: line.shares,
         adds: MATERIALS[key].consumable ? ('sum' as const) : ('max' as const),

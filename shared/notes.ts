@@ -35,11 +35,11 @@ export const EMPATHY_MAP_PARTS: readonly NotePart[] = [
 
 /** The extra quadrants of an empathy map whose item sets `painsAndGains`. */
 export const PAINS_AND_GAINS_PARTS: readonly NotePart[] = [
-  { id: 'pains', label: 'Pains', hint: 'Fears, frustrations, obstacles' },
-  { id: 'gains', label: 'Gains', hint: 'Wants, needs, measures of success' },
+  { id: 'pains', label: 'Pains', hint: 'What gets in their way or worries them' },
+  { id: 'gains', label: 'Gains', hint: 'What would make it worth it for them' },
 ];
 
-/** The four parts of the feedback capture grid (d.school method card), in Cairn's plain words. */
+/** The four parts of the feedback grid, in Cairn's plain words (after a published method card's four parts). */
 export const FEEDBACK_GRID_PARTS: readonly NotePart[] = [
   { id: 'worked', label: 'What worked', hint: 'What the tester liked' },
   { id: 'didnt_work', label: "What didn't work", hint: 'What to change' },

@@ -65,20 +65,29 @@ export const LUNCH_FROM = '11:30';
 /** On a full day lunch starts in this span (common practice). */
 export const LUNCH_TO = '14:00';
 
-/** Where each rule comes from, shown beside the warning. */
+/**
+ * Why each rule matters, in Cairn's own words, shown beside the warning. Where the numbers come from
+ * stays here, in comments, and in the tests: never on screen.
+ */
 export const RULE_ORIGINS: Record<ScheduleWarningCode, string> = {
-  load_above_ceiling: 'common practice: leave slack in the plan, agendas always overrun',
-  phases_out_of_order:
-    'the design-thinking process: empathize, define, ideate, prototype, test, in that order',
-  no_break_stretch: 'published workshop-planning guides: never more than 60–90 min without a break',
-  short_lunch: 'published workshop-planning guides: on a full day, lunch of at least 45 min',
-  talk_too_long: 'common practice: keep talks short, people learn by doing',
+  // Common practice: planned time at most 85 % of the window.
+  load_above_ceiling: 'leave slack in the plan: a day always runs over somewhere',
+  // The design-thinking process runs empathize, define, ideate, prototype, test in order.
+  phases_out_of_order: 'each phase builds on what the one before it found, so the day runs them in order',
+  // Published workshop-planning guides: never more than 60–90 min without a break.
+  no_break_stretch: 'people stop listening well after an hour or so without a pause',
+  // Published workshop-planning guides: on a full day, lunch of at least 45 min.
+  short_lunch: 'a full day needs a real meal away from the work, not a quick bite',
+  // Common practice: keep talks short, people learn by doing.
+  talk_too_long: 'people learn by doing: keep talk from the front short',
   overruns_window: 'the day window set in the brief',
-  day_too_short:
-    'common practice: each phase the day covers needs at least one activity, at its shortest',
+  // Common practice: each phase the day covers needs at least one activity, at its shortest.
+  day_too_short: 'each phase the day covers needs at least one activity, even at its shortest',
   pinned_overlap: 'the clock time the item is pinned to (e.g. when the catering arrives)',
-  idle_end: `common practice: keep about an hour of slack at the end; more than ${IDLE_END_MIN} min leaves the room idle`,
-  lunch_off_midday: `common practice: on a full day, lunch starts between ${LUNCH_FROM} and ${LUNCH_TO}`,
+  // Common practice: about an hour of slack at the end.
+  idle_end: `about an hour of slack at the end is enough; more than ${IDLE_END_MIN} min leaves the room waiting`,
+  // Common practice: lunch around midday on a full day.
+  lunch_off_midday: `people get hungry around midday: on a full day lunch starts between ${LUNCH_FROM} and ${LUNCH_TO}`,
 };
 
 /** The phases a design day needs when the agenda is still empty. */

@@ -1,6 +1,7 @@
 /**
  * Team sizes that work in a design workshop: 3 to 7 people, ideally 5, at most 4 teams in one room
- * (common practice, from university design-thinking guides; see the briefs' CHECKS.md).
+ * (common practice, from university design-thinking guides: teams of 3–7, ideally 5; at most 4
+ * teams in a room, one facilitator for every 2 teams).
  */
 export const TEAM_SIZE = { min: 3, max: 7, ideal: 5, maxTeams: 4 } as const;
 

@@ -1,5 +1,5 @@
 import { ACTIVITY_LIBRARY, defaultMinTimebox } from './activities';
-import { fillDots } from './words';
+import { fillDots, fillSketches } from './words';
 import type { ActivitySettings, ActivityType, AgendaItem } from './schemas/agenda-item';
 import type { DayWindow } from './schemas/day-window';
 
@@ -40,7 +40,8 @@ function step(type: ActivityType, overrides: ItemOverrides = {}): Omit<AgendaIte
 }
 
 // Both templates speak in neutral words: "{topic}" and "{people}" are filled from the brief when a
-// workshop is made (fillTemplateText), "{dots}" from the vote's own budget whenever the prompt is shown
+// workshop is made (fillTemplateText), "{dots}" from the vote's own budget and "{sketches}" from the
+// sketching item's setting whenever the prompt is shown
 // (showPrompt), so a prompt never names a number the facilitator has since changed.
 const FULL_DAY: AgendaTemplate = {
   id: 'full-day',
@@ -96,11 +97,11 @@ const FULL_DAY: AgendaTemplate = {
       prompt: 'Rank the challenges, the one you most want first. Cairn will form even teams.',
     }),
     step('sketch', {
-      title: 'Eight ideas in eight minutes',
+      title: 'Quick sketches',
       timeboxMin: 20,
       prompt:
-        "Fold a sheet into eight. Sketch eight ways to help with your team's challenge, " +
-        'one a minute, then photograph your sheet.',
+        "Draw {sketches} rough sketches of ways to help with your team's challenge, one idea a box, " +
+        'then photograph your sheet.',
     }),
     step('break', { title: 'Afternoon break' }),
     step('storyboard', {
@@ -168,11 +169,11 @@ const HALF_DAY: AgendaTemplate = {
       prompt: 'Rank the challenges, the one you most want first. Cairn will form even teams.',
     }),
     step('sketch', {
-      title: 'Eight ideas in eight minutes',
+      title: 'Quick sketches',
       timeboxMin: 20,
       prompt:
-        "Fold a sheet into eight. Sketch eight ways to help with your team's challenge, " +
-        'one a minute, then photograph your sheet.',
+        "Draw {sketches} rough sketches of ways to help with your team's challenge, one idea a box, " +
+        'then photograph your sheet.',
     }),
     step('break'),
     step('storyboard', {
@@ -230,11 +231,14 @@ export function fillTemplateText(text: string, fill: TemplateFill): string {
 }
 
 /**
- * The prompt as the results and the report show it: a dot vote's count of dots ("{dots}", "three
- * dots") follows the vote's budget where given, else the item's, as the live screens do (fillDots).
+ * The prompt as every screen shows it: a dot vote's count of dots ("{dots}", "three dots") follows the
+ * vote's budget where given, else the item's; a sketching item's "{sketches}" its number of sketches.
  * @example showPrompt({ type: 'dot_vote', prompt: 'Spend your {dots} dots', settings: { dotsPerVoter: 5 } }) // 'Spend your 5 dots'
  */
 export function showPrompt(item: Pick<AgendaItem, 'type' | 'prompt' | 'settings'>, voteDots?: number | null): string {
+  if (item.type === 'sketch') {
+    return fillSketches(item.prompt, item.settings.sketchesPerPerson ?? ACTIVITY_LIBRARY.sketch.defaultSettings.sketchesPerPerson);
+  }
   if (item.type !== 'dot_vote') return item.prompt;
   // The vote's own budget, once it was set up, wins over the plan's (as the live screens show it).
   return fillDots(item.prompt, voteDots ?? item.settings.dotsPerVoter ?? ACTIVITY_LIBRARY.dot_vote.defaultSettings.dotsPerVoter);

@@ -1,13 +1,33 @@
 import { finite } from './numbers';
 
+// English plural categories from the CLDR rules the runtime ships (Intl.PluralRules): "one" for exactly 1.
+const ENGLISH_PLURAL = new Intl.PluralRules('en');
+
+/** Plurals English does not make with a plain "s", for the nouns Cairn counts. */
+const IRREGULAR: Readonly<Record<string, string>> = { person: 'people', criterion: 'criteria', child: 'children' };
+
 /**
- * A count with its noun, singular for exactly one: `countOf(1, 'option')` is "1 option". Refuses a count
- * that is not a finite number (it would read "NaN dots").
- * @example countOf(4, 'dot') // '4 dots'
+ * The plural of an English noun Cairn counts: irregular ones from a short list, "-es" after s, x, z,
+ * ch and sh ("sketches", "boxes"), "-ies" after a consonant and y ("copies"), else "-s".
+ * @example pluralOf('sketch') // 'sketches'
  */
-export function countOf(n: number, word: string, pluralWord = `${word}s`): string {
+export function pluralOf(word: string): string {
+  const irregular = IRREGULAR[word];
+  if (irregular) return irregular;
+  if (/(?:s|x|z|ch|sh)$/.test(word)) return `${word}es`;
+  if (/[^aeiou]y$/.test(word)) return `${word.slice(0, -1)}ies`;
+  return `${word}s`;
+}
+
+/**
+ * A count with its noun in the form English's plural rule (CLDR, through `Intl.PluralRules`) asks for:
+ * `countOf(1, 'option')` is "1 option", `countOf(5, 'sketch')` "5 sketches". Give the noun in the
+ * singular; `pluralWord` overrides the plural. Refuses a count that is not a finite number ("NaN dots").
+ * @example countOf(1, 'person') // '1 person'
+ */
+export function countOf(n: number, word: string, pluralWord?: string): string {
   finite('A count', n);
-  return `${n} ${n === 1 ? word : pluralWord}`;
+  return `${n} ${ENGLISH_PLURAL.select(n) === 'one' ? word : (pluralWord ?? pluralOf(word))}`;
 }
 
 /** Number words a prompt may use for a count of dots ("Spend your three dots …"). */
@@ -38,4 +58,35 @@ export function percentText(value: number, digits = 0): string {
   if (!Number.isInteger(digits) || digits < 0 || digits > 10) throw new RangeError(`Digits must be a whole number from 0 to 10, not ${digits}`);
   const f = 10 ** digits;
   return `${Math.round(value * f) / f}\u00a0%`;
+}
+
+/**
+ * A sketching prompt with the `{sketches}` placeholder taken from the item's setting: "{sketches}
+ * sketches" agrees in number ("1 sketch") and `{sketches}` alone is the number.
+ * @example fillSketches('Draw {sketches} sketches.', 6) // 'Draw 6 sketches.'
+ */
+export function fillSketches(prompt: string, sketches: number | null | undefined): string {
+  if (sketches === null || sketches === undefined || !Number.isInteger(sketches) || sketches < 1) return prompt;
+  return prompt.replace(/\{sketches\}\s+sketch(?:es)?\b/gi, () => countOf(sketches, 'sketch')).replace(/\{sketches\}/gi, String(sketches));
+}
+
+/**
+ * A calendar date (`YYYY-MM-DD`) as the reader's locale writes it in full ("15 April 2027",
+ * "April 15, 2027", "15. April 2027"), through `Intl`; the one date format of Cairn's pages. An empty
+ * or malformed date reads as it is.
+ * @example dayText('2027-04-15', 'en-GB') // '15 April 2027'
+ */
+export function dayText(isoDate: string | null | undefined, locale?: string): string {
+  if (!isoDate || !/^\d{4}-\d{2}-\d{2}$/.test(isoDate)) return isoDate ?? '';
+  // Read and written in UTC, so the day never moves with the viewer's time zone.
+  return new Intl.DateTimeFormat(locale, { dateStyle: 'long', timeZone: 'UTC' }).format(new Date(`${isoDate}T00:00:00Z`));
+}
+
+/**
+ * An instant as the reader's locale writes a date and a 24-hour time ("15 April 2027, 14:05"), through
+ * `Intl`, in the reader's time zone unless one is given.
+ * @example dateTimeText(Date.UTC(2027, 3, 15, 12, 5), 'en-GB', 'UTC') // '15 April 2027 at 12:05'
+ */
+export function dateTimeText(ms: number, locale?: string, timeZone?: string): string {
+  return new Intl.DateTimeFormat(locale, { dateStyle: 'long', timeStyle: 'short', hourCycle: 'h23', timeZone }).format(new Date(ms));
 }

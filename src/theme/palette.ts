@@ -1,3 +1,5 @@
+import { CRITERION_MARKS, MARK_LETTER } from '../../shared/marks';
+
 /** Cairn's light palette: deep teal, warm sand and a coral accent on a calm light background. */
 export const LIGHT = {
   primary: '#0b5d5b',
@@ -26,13 +28,11 @@ export const PROJECTOR = {
   coral: '#ff9f8a',
 } as const;
 
-/** Cairn's own dot palette for criteria: each colour comes with a shape and a letter, so no meaning rests on colour alone. */
-export const CRITERION_MARKS = [
-  { colour: '#0b5d5b', shape: 'circle', letter: 'A' },
-  { colour: '#b9452f', shape: 'triangle', letter: 'B' },
-  { colour: '#6b4f1d', shape: 'square', letter: 'C' },
-  { colour: '#3d4f8a', shape: 'diamond', letter: 'D' },
-] as const;
+/** Cairn's own dot palette for criteria, declared in shared/ so the PDF draws the same marks. */
+export { CRITERION_MARKS } from '../../shared/marks';
+
+/** The projector's light counterparts of the criterion colours: the marks' own colours are too dark to see on its dark screen. */
+export const PROJECTOR_MARK_COLOURS = [PROJECTOR.teal, PROJECTOR.coral, PROJECTOR.sand, PROJECTOR.muted] as const;
 
 /**
  * Text and background pairs the screens use, checked against WCAG 2.x AA in the tests.
@@ -63,11 +63,16 @@ export const TEXT_PAIRS: [string, string, string][] = [
   [PROJECTOR.coral, PROJECTOR.background, 'projector countdown'],
   [PROJECTOR.sand, PROJECTOR.surface, 'projector cards'],
   [PROJECTOR.text, PROJECTOR.surface, 'projector text on cards'],
-  ...CRITERION_MARKS.map((m): [string, string, string] => ['#ffffff', m.colour, `criterion letter ${m.letter} on its mark`]),
-  [PROJECTOR.background, PROJECTOR.teal, 'criterion letter A on its projector mark'],
-  [PROJECTOR.background, PROJECTOR.coral, 'criterion letter B on its projector mark'],
-  [PROJECTOR.background, PROJECTOR.sand, 'criterion letter C on its projector mark'],
-  [PROJECTOR.background, PROJECTOR.muted, 'criterion letter D on its projector mark'],
+  // A letter on the sticker's colour is drawn in the paper's colour; a letter on the paper in the sticker's.
+  ...CRITERION_MARKS.map((m): [string, string, string] =>
+    MARK_LETTER[m.shape].on === 'mark' ? ['#ffffff', m.colour, `criterion letter ${m.letter} on its mark`] : [m.colour, '#ffffff', `criterion letter ${m.letter} inside its mark`],
+  ),
+  ...CRITERION_MARKS.map((m, i): [string, string, string] => {
+    const colour = PROJECTOR_MARK_COLOURS[i]!;
+    return MARK_LETTER[m.shape].on === 'mark'
+      ? [PROJECTOR.background, colour, `criterion letter ${m.letter} on its projector mark`]
+      : [colour, PROJECTOR.background, `criterion letter ${m.letter} inside its projector mark`];
+  }),
   [LIGHT.warning, LIGHT.surface, 'uneven team sizes warning on the console'],
   [LIGHT.positive, LIGHT.surface, 'confirmations on cards'],
   [LIGHT.positive, LIGHT.background, 'confirmations on the phone page'],

@@ -100,7 +100,7 @@ describe('photo files by their signature', () => {
 
 describe('when a photo may be shown as it is', () => {
   it('a photo of no one always; a photo of people only with everyone’s consent on record', () => {
-    // Cairn's consent rule (PRODUCT.md): photos showing people only for consenting participants.
+    // Cairn's consent rule: photos showing people only for consenting participants.
     expect(photoCleared({ showsPeople: false, peopleConsent: false }, false)).toBe(true);
     expect(photoCleared({ showsPeople: true, peopleConsent: true }, true)).toBe(true);
     expect(photoCleared({ showsPeople: true, peopleConsent: true }, false)).toBe(false);

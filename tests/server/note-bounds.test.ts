@@ -32,7 +32,7 @@ async function send(itemId: string, extra: Record<string, unknown> = {}) {
 
 describe('notes on an item that takes none', () => {
   it('are refused on a talk, a break, a lunch and a vote, and nothing is stored', async () => {
-    // Pinned by hand from the brief's activity table ("Break / Lunch: —"; a vote takes dots, not notes).
+    // Pinned by hand: a talk, a break or lunch takes no notes; a vote takes dots, not notes.
     for (const type of ['welcome', 'break', 'lunch', 'dot_vote', 'team_sort'] as const) {
       expect(ACTIVITY_LIBRARY[type].noteKinds).toEqual([]);
       const state = await commandData(facilitator, 'session:goto', { index: types.indexOf(type) });

@@ -295,7 +295,7 @@ describe('the agenda', () => {
 });
 
 describe('the packing list', () => {
-  it('has dot stickers for every voter plus spare, with where the rule comes from', async () => {
+  it('has dot stickers for every voter plus spare, with Cairn’s reason for the number', async () => {
     const res = await as(owner).get(`/api/workshops/${demoId}/materials`);
     expect(res.status).toBe(200);
     const dots = res.body.lines.find((l: { key: string }) => l.key === 'dot_stickers');
@@ -306,7 +306,9 @@ describe('the packing list', () => {
     expect(votes.length).toBeGreaterThan(0);
     const raw = votes.reduce((sum, v) => sum + (v.settings.dotsPerVoter ?? 1) * Math.max(1, v.settings.criteria?.length ?? 0) * 18 * 1.5, 0);
     expect(dots.quantity).toBe(Math.ceil(raw));
-    expect(dots.sources.join(' ').length).toBeGreaterThan(10);
+    expect(dots.shares[0].why).toBe('every voter’s dots and half again spare');
+    // Where the numbers come from stays in the code: the answer names no source.
+    expect(JSON.stringify(res.body)).not.toMatch(/handbook|Global Learning|d\.school|method card|published/i);
     expect(dots.usedBy).toEqual(votes.map((v) => v.id));
     expect(res.body.lines.map((l: { key: string }) => l.key)).toContain('sticky_notes');
   });

@@ -26,7 +26,7 @@ function roundTrip(trueSend: number, clientError: number, up: number, hold: numb
 }
 
 describe('ntpSample', () => {
-  it('gives the constructed check of CHECKS.md', () => {
+  it('gives the offset and delay of a constructed check worked out by hand', () => {
     // RFC 5905 §8: offset = ((T2-T1)+(T3-T4))/2, delay = (T4-T1)-(T3-T2).
     // T1 0.000, T2 0.060, T3 0.061, T4 0.021 s -> θ 0.050 s, δ 0.020 s.
     const seconds = ntpSample(0.0, 0.06, 0.061, 0.021);

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { IMPACT_EFFORT_CRITERIA, newAgendaItem } from '../../shared/activities';
+import { ACTIVITY_LIBRARY, IMPACT_EFFORT_CRITERIA, newAgendaItem } from '../../shared/activities';
 import { cautionsFor } from '../../shared/cautions';
 import { packingList } from '../../shared/materials';
 import { instantiateTemplate } from '../../shared/templates';
@@ -22,8 +22,10 @@ describe('packingList', () => {
     it('3 dots, 2 criteria, 18 voters: 3 × 2 × 18 × 1.5 = 162', () => {
       const vote = item('dot_vote', { dotsPerVoter: 3, criteria: [...IMPACT_EFFORT_CRITERIA] });
       const dots = line(packingList([vote], HEADCOUNT, TEAMS), 'dot_stickers');
-      expect(dots).toMatchObject({ quantity: 162, unit: 'dots', usedBy: [vote.id] });
-      expect(dots!.sources.join(' ')).toMatch(/50 % spare/);
+      expect(dots).toMatchObject({ quantity: 162, unit: 'dot', amount: '162 dots', usedBy: [vote.id] });
+      // The origin stays in the rule (for this test); the screen says Cairn's own reason.
+      expect(ACTIVITY_LIBRARY.dot_vote.materials.find((r) => r.item === 'dot_stickers')!.source).toMatch(/50 % spare/);
+      expect(dots!.shares[0]!.why).toBe('every voter’s dots and half again spare');
     });
 
     it('no criteria counts as one: 3 × 1 × 18 × 1.5 = 81', () => {
@@ -79,7 +81,7 @@ describe('packingList', () => {
     // Two breaks and lunch with snacks: 3 × 18 = 54 of each; a break without snacks adds nothing.
     const items = [item('break'), item('lunch'), item('break'), item('break', { snacks: false })];
     const list = packingList(items, HEADCOUNT, TEAMS);
-    expect(line(list, 'snacks')).toMatchObject({ quantity: 54, unit: 'servings' });
+    expect(line(list, 'snacks')).toMatchObject({ quantity: 54, unit: 'serving', amount: '54 servings' });
     expect(line(list, 'water')?.quantity).toBe(54);
     expect(line(list, 'snacks')?.usedBy).toEqual(items.slice(0, 3).map((i) => i.id));
   });
@@ -110,7 +112,7 @@ describe('packingList', () => {
       water: 72,
     });
     for (const l of list) {
-      expect(l.sources.length).toBeGreaterThan(0);
+      expect(l.shares.every((s) => s.why.length > 0)).toBe(true);
       expect(l.label.length).toBeGreaterThan(0);
     }
   });
@@ -186,12 +188,25 @@ describe('why this many', () => {
     const vote = { ...newAgendaItem('dot_vote', 'v1'), title: 'Pick the challenges', settings: { dotsPerVoter: 5, criteria: [{ id: 'impact', label: 'Impact' }, { id: 'effort', label: 'Effort' }] } };
     const line = packingList([vote], 24, 3).find((l) => l.key === 'dot_stickers')!;
     expect(line.quantity).toBe(360);
-    expect(line.shares).toEqual([{ itemId: 'v1', title: 'Pick the challenges', quantity: 360, how: '5 dots × 2 criteria × 24 people × 1.5 (with spares) = 360' }]);
+    expect(line.shares).toEqual([
+      { itemId: 'v1', title: 'Pick the challenges', quantity: 360, how: '5 dots × 2 criteria × 24 people × 1.5 (with spares) = 360', why: 'every voter’s dots and half again spare' },
+    ]);
     expect(line.adds).toBe('sum');
     // Votes run on the phones: paper dots are the fallback.
     expect(line.fallback).toBe(true);
     // The words on screen name no source.
-    for (const l of packingList([vote], 24, 3)) for (const s of l.shares) expect(s.how).not.toMatch(/guide|handbook|practice|d\.school/i);
+    for (const l of packingList([vote], 24, 3)) for (const s of l.shares) expect(`${s.how} ${s.why}`).not.toMatch(/guide|handbook|practice|d\.school|method card|published/i);
+    // Every reason in the library, too: whatever agenda is packed, the screen names no source.
+    for (const def of Object.values(ACTIVITY_LIBRARY)) for (const r of def.materials) expect(r.why).not.toMatch(/guide|handbook|practice|d\.school|method card|published|dotmocracy|global learning/i);
+  });
+
+  it('says each amount in the right number: "1 board", "1 set", "2 boards"', () => {
+    // English grammar (CLDR plural rule "one" for exactly 1).
+    const list = packingList([item('insights'), item('welcome')], 1, 1);
+    expect(line(list, 'whiteboard')?.amount).toBe('1 board');
+    expect(line(list, 'projector')?.amount).toBe('1 set');
+    expect(line(list, 'markers')?.amount).toBe('1 marker');
+    expect(line(list, 'sticky_notes')?.shares[0]!.how).toBe('10 × 1 person = 10');
   });
 
   it('adds the shares of used-up things and takes the largest of things used again', () => {

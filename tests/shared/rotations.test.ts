@@ -130,7 +130,7 @@ describe('pairsForRound and partnerOf', () => {
 });
 
 describe('testRotation', () => {
-  // No published table exists for test rounds: these are the properties PRODUCT.md asks for
+  // No published table exists for test rounds: these are Cairn's rules for test rounds
   // (never your own team; each team tested by as many others as possible), checked exhaustively.
   /** Teams of uneven sizes 2, 3, 4, … with members `t0m0`, `t0m1`, … */
   const teamsOf = (count: number): RotationTeam[] =>

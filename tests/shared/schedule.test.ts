@@ -48,7 +48,7 @@ describe('rule defaults', () => {
     expect(rules.maxStretchMin).toBe(90);
     // Published workshop-planning guides: on a full day, lunch of at least 45 min.
     expect(rules.minLunchMin).toBe(45);
-    // Common practice (Cairn's product brief): leave slack, planned time at most 85 % of the window.
+    // Common practice: leave slack, planned time at most 85 % of the window (agendas always overrun).
     expect(rules.loadCeilingPct).toBe(85);
     // Common practice: talk-only items of at most 20 min.
     expect(rules.maxTalkMin).toBe(20);
@@ -87,6 +87,7 @@ describe('computeSchedule', () => {
     const w = s.warnings.find((x) => x.code === 'load_above_ceiling');
     expect(w?.message).toMatch(/86\.1\u00a0%/);
     expect(w?.origin).toMatch(/slack/);
+    expect(w?.origin).not.toMatch(/common practice|published|guide/);
     // Exactly at the ceiling is allowed: 306 / 360 = 85 %.
     const at = [item('interview', 81), item('break', 15), item('sketch', 85), item('lunch', 45), item('storyboard', 80)];
     expect(computeSchedule(at, FULL_DAY, rules).loadPct).toBe(85);
@@ -107,7 +108,8 @@ describe('computeSchedule', () => {
       expect(w).toHaveLength(1);
       expect(w[0]!.itemIds).toEqual([a.id, b.id]);
       expect(w[0]!.message).toMatch(/95 min without a break from 13:00/);
-      expect(w[0]!.origin).toMatch(/60–90 min/);
+      // The screen gives Cairn's reason, not the guides' names.
+      expect(w[0]!.origin).toMatch(/an hour or so without a pause/);
     });
 
     it('checks the last stretch of the day as well, and lunch resets the stretch', () => {

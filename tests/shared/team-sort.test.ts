@@ -49,7 +49,7 @@ function randomRoom(random: () => number, challengeIds: string[], people: number
 
 /**
  * The least total cost of a team sort by trying every way to put each participant in a team, kept when the
- * sizes fit the layout: by default sizes within one of each other (the product brief's rule); with a
+ * sizes fit the layout: by default sizes within one of each other (Cairn's rule: teams as even as possible); with a
  * largest size, every team between its smallest and largest size; with fixed sizes, exactly those.
  */
 function exhaustive(participants: TeamSortParticipant[], challengeIds: string[], layout?: TeamLayout): number {
