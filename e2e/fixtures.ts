@@ -59,7 +59,7 @@ export async function openStartDialog(page: Page): Promise<void> {
   await dialog.or(running).first().waitFor();
   if (await dialog.isVisible()) return;
   await running.click();
-  await page.getByRole('button', { name: 'End it' }).click();
+  await page.getByRole('dialog').getByRole('button', { name: 'End the live session' }).click();
   await page.getByTestId('run-live').click();
   await dialog.waitFor();
 }

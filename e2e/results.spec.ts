@@ -82,7 +82,7 @@ test('after a short live run: the results page, the notes and tallies CSV as the
 
   // End the day; the plan has a Results button.
   await consolePage.getByTestId('stop-session').click();
-  await consolePage.getByRole('button', { name: 'End it' }).click();
+  await consolePage.getByRole('dialog').getByRole('button', { name: 'End the live session' }).click();
   await expect(consolePage.getByTestId('workshop-title')).toBeVisible();
   await consolePage.getByTestId('open-results').click();
   await expect(consolePage.getByTestId('results-title')).toHaveText(TITLE);

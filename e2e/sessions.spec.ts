@@ -16,7 +16,7 @@ async function sendNote(consolePage: Page, phone: Page, text: string): Promise<v
 
 async function endSession(consolePage: Page): Promise<void> {
   await consolePage.getByTestId('stop-session').click();
-  await consolePage.getByRole('button', { name: 'End it' }).click();
+  await consolePage.getByRole('dialog').getByRole('button', { name: 'End the live session' }).click();
   await expect(consolePage.getByTestId('workshop-title')).toBeVisible();
 }
 

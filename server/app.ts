@@ -52,6 +52,10 @@ import { ReportService } from './features/results/report.service';
 import { RetentionService } from './features/results/retention.service';
 import { resultsRoutes } from './features/results/results.router';
 import type { ClientToServerEvents, ServerToClientEvents, SocketData } from '../shared/events';
+import { installMessages } from '../shared/schemas/messages';
+
+// Every validation message written for a person, before any schema parses.
+installMessages();
 
 /** A built Cairn app: Express and socket.io on one HTTP server that is not listening yet. */
 export interface CairnApp {

@@ -449,6 +449,17 @@ export function noteRefusal(type: ActivityType, kind: SubmissionInput['kind']): 
 }
 
 /**
+ * An item's activity type and phase as a heading line says them ("Dot vote · Ideate"); said once when
+ * both are the same word ("Closing", never "Closing · Closing").
+ * @example typeAndPhase('closing', 'closing') // 'Closing'
+ */
+export function typeAndPhase(type: ActivityType, phase: Phase): string {
+  const label = ACTIVITY_LIBRARY[type].label;
+  const phaseLabel = PHASE_LABELS[phase];
+  return label.toLowerCase() === phaseLabel.toLowerCase() ? label : `${label} · ${phaseLabel}`;
+}
+
+/**
  * Whether an agenda item is a break (a break or lunch, or any item placed in the break phase).
  * @example isBreakItem({ type: 'lunch', ... }) // true
  */

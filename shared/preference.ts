@@ -141,3 +141,15 @@ export function sharedFirstPlace(rows: { optionId: string; rank: number }[]): st
   const first = rows.filter((r) => r.rank === 1).map((r) => r.optionId);
   return first.length > 1 ? first : [];
 }
+
+/**
+ * The plain names of the preference-vote methods on every screen and in the report; the methods' own
+ * names (the Borda count, the Schulze method) stay in the code and its docs.
+ */
+export const METHOD_LABELS = { borda: 'Points by place', schulze: 'Head-to-head' } as const satisfies Record<'borda' | 'schulze', string>;
+
+/** What each method counts, in one sentence a facilitator can repeat to the room. */
+export const METHOD_EXPLAINED = {
+  borda: 'Points by place: with n options a first place earns n−1 points, a last place 0.',
+  schulze: 'Head-to-head: an option beats another when more voters prefer it, counting chains of such wins; the order follows who beats whom.',
+} as const satisfies Record<'borda' | 'schulze', string>;

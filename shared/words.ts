@@ -90,3 +90,21 @@ export function dayText(isoDate: string | null | undefined, locale?: string): st
 export function dateTimeText(ms: number, locale?: string, timeZone?: string): string {
   return new Intl.DateTimeFormat(locale, { dateStyle: 'long', timeStyle: 'short', hourCycle: 'h23', timeZone }).format(new Date(ms));
 }
+
+/**
+ * The calendar date of an instant as the reader's locale writes it in full ("16 December 2026"), in the
+ * reader's time zone unless one is given: the same format as `dayText`, for instants.
+ * @example dateText(Date.UTC(2026, 11, 16, 15, 5), 'en-GB', 'UTC') // '16 December 2026'
+ */
+export function dateText(ms: number, locale?: string, timeZone?: string): string {
+  return new Intl.DateTimeFormat(locale, { dateStyle: 'long', timeZone }).format(new Date(ms));
+}
+
+/**
+ * The time of day of an instant on a 24-hour clock ("15:05"), as Cairn's plans write times, in the reader's
+ * time zone unless one is given.
+ * @example timeText(Date.UTC(2026, 11, 16, 15, 5), 'en-US', 'UTC') // '15:05'
+ */
+export function timeText(ms: number, locale?: string, timeZone?: string): string {
+  return new Intl.DateTimeFormat(locale, { hour: '2-digit', minute: '2-digit', hourCycle: 'h23', timeZone }).format(new Date(ms));
+}

@@ -149,7 +149,9 @@ describe('sending the report', () => {
     const [toObserver, toParticipant] = inbox.slice(before);
 
     expect(toObserver!.to).toEqual(['tomas@harbourlane.example']);
-    expect(toObserver!.subject).toBe('Report of the Cairn workshop “Harbour Lane: the report” (2027-03-13)');
+    expect(toObserver!.subject).toBe('Report of the Cairn workshop “Harbour Lane: the report” (13 March 2027)');
+    // Cairn's writing rule: an e-mail's first sentence starts with a capital.
+    expect(toParticipant!.text).toMatch(/^Hello,\n\nYou asked/);
     expect(toObserver!.text).toContain(`/workshops/${day.workshopId}/report`);
     expect(toObserver!.text).toContain('Thanks for a great day, <everyone>!');
     expect(toObserver!.attachments).toEqual([]);

@@ -131,13 +131,13 @@ describe('vote results on the results page', () => {
     // By hand from the ballots X>Y>Z, Y>Z>X, X>Z>Y: X beats Y 2–1 and Z 2–1, Y beats Z 2–1 (a Condorcet order);
     // Borda with n−1 … 0 points: X 2+0+2 = 4, Y 1+2+0 = 3, Z 0+1+1 = 2.
     expect(v.method).toBe('schulze');
-    expect(v.rankedBy).toBe('Schulze method');
+    expect(v.rankedBy).toBe('Head-to-head');
     expect(v.overall.map((o) => [o.label, o.rank, o.selected])).toEqual([
       ['Ride buddies', 1, true],
       ['Route cards', 2, false],
       ['Night lights', 3, false],
     ]);
-    expect(v.tables[0]!.label).toBe('Borda count');
+    expect(v.tables[0]!.label).toBe('Points by place');
     expect(v.tables[0]!.rows.map((o) => [o.label, o.score, o.rank])).toEqual([
       ['Ride buddies', 4, 1],
       ['Route cards', 3, 2],

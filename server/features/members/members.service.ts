@@ -1,3 +1,4 @@
+import { dayText } from '../../../shared/words';
 import crypto from 'node:crypto';
 import { Op } from 'sequelize';
 import type { Database } from '../../db';
@@ -82,7 +83,7 @@ export class MembersService {
       to: body.email,
       subject: `${inviter.name} invites you to the Cairn workshop “${w.title}”`,
       text:
-        `Hello,\n\n${inviter.name} invites you to the workshop “${w.title}” (${w.date}) as ${ROLE_WORDS[body.role]}.\n\n` +
+        `Hello,\n\n${inviter.name} invites you to the workshop “${w.title}” (${dayText(w.date, 'en-GB')}) as ${ROLE_WORDS[body.role]}.\n\n` +
         (body.role === 'observer'
           ? 'As an observer you can read the plan, the results and the report.\n\n'
           : 'As a co-facilitator you can plan the agenda, run the live console and moderate.\n\n') +

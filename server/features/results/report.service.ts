@@ -1,4 +1,4 @@
-import { percentText } from '../../../shared/words';
+import { dayText, percentText } from '../../../shared/words';
 import fs from 'node:fs';
 import fsp from 'node:fs/promises';
 import path from 'node:path';
@@ -11,7 +11,7 @@ import { AppError, errors } from '../../common/errors';
 import type { ResultsService } from './results.service';
 import { exportFileName } from './export.service';
 import type { SessionSelector } from '../../../shared/sessions';
-import { ACTIVITY_LIBRARY, PHASE_LABELS } from '../../../shared/activities';
+import { typeAndPhase } from '../../../shared/activities';
 import { contributionsText, voteScoreLabel } from '../../../shared/schemas/results';
 import { partLabel } from '../../../shared/schemas/activities';
 import type {
@@ -349,7 +349,7 @@ function writeSection(w: ReportWriter, s: ResultSection): void {
 /** Writes one activity: its heading, prompt and sections. */
 function writeActivity(w: ReportWriter, a: ActivityResult): void {
   w.heading(`${a.position}. ${a.title}`, 2);
-  w.write(`${ACTIVITY_LIBRARY[a.type].label} · ${PHASE_LABELS[a.phase]}`, { size: 9, color: INK.muted });
+  w.write(typeAndPhase(a.type, a.phase), { size: 9, color: INK.muted });
   if (a.prompt) w.write(a.prompt, { size: 9.5, color: INK.muted, gap: 3 });
   for (const s of a.sections) writeSection(w, s);
 }
@@ -374,7 +374,7 @@ export function renderReportPdf(r: WorkshopResults, photos: Map<string, Buffer> 
   w.write('Cairn · Workshop report', { size: 10, weight: 'bold', color: INK.teal, gap: 4 });
   w.write(r.workshop.title, { size: 22, weight: 'bold', gap: 4 });
   w.write(
-    `${r.workshop.date} · ${r.workshop.window.start}–${r.workshop.window.end} · led by ${r.workshop.ownerName}` +
+    `${dayText(r.workshop.date, 'en-GB')} · ${r.workshop.window.start}–${r.workshop.window.end} · led by ${r.workshop.ownerName}` +
       ` · ${r.participation.joined} ${r.participation.joined === 1 ? 'participant' : 'participants'} joined`,
     { color: INK.muted, gap: 2 },
   );
@@ -403,8 +403,8 @@ export function renderReportPdf(r: WorkshopResults, photos: Map<string, Buffer> 
       { label: 'Activity', width: w.contentWidth - 282 },
       { label: 'Planned', width: 70 },
       { label: 'Actual', width: 70 },
-      { label: 'Min planned', width: 50 },
-      { label: 'Min actual', width: 40 },
+      { label: 'Planned minutes', width: 50 },
+      { label: 'Actual minutes', width: 40 },
       { label: '±', width: 30 },
     ],
     s.agenda.map((a) => [
@@ -511,7 +511,7 @@ export class ReportService {
     return out;
   }
 
-  /** The workshop's co-facilitators and observers, and the participants who left an address (masked). */
+  /** The workshop's co-facilitators and observers, and the participants who left an e-mail address (masked). */
   async recipients(workshopId: string): Promise<ReportRecipients> {
     const { Membership, User, LiveSession, Participant } = this.ctx.db.models;
     const memberships = await Membership.findAll({ where: { workshopId }, order: [['createdAt', 'ASC']] });
@@ -550,7 +550,7 @@ export class ReportService {
       ? await this.ctx.db.models.Participant.findAll({ where: { id: [...new Set(body.participantIds)] } })
       : [];
     const note = body.note ? `${sender.name} adds:\n\n${body.note}\n\n` : '';
-    const title = `“${w.title}” (${w.date})`;
+    const title = `“${w.title}” (${dayText(w.date, 'en-GB')})`;
     const link = `${baseUrl}/workshops/${encodeURIComponent(workshopId)}/report`;
     const send = async (mail: Parameters<AppContext['mail']['send']>[0]) => {
       try {
@@ -578,10 +578,10 @@ export class ReportService {
           to: p.email,
           subject: `Report of the workshop ${title}`,
           text:
-            `Hello,\n\nyou asked for the report of the workshop ${title}. It is attached as a PDF; ` +
+            `Hello,\n\nYou asked for the report of the workshop ${title}. It is attached as a PDF; ` +
             `the names of participants are removed from it.\n\n${note}` +
-            'You get this message because you left this address on your phone at the workshop. ' +
-            "The organisation's data-protection policy applies; the facilitator deletes addresses after the workshop.\n",
+            'You get this message because you left your e-mail address on your phone at the workshop. ' +
+            "The organisation's data-protection policy applies; the facilitator can delete e-mail addresses after the workshop.\n",
           attachments: [{ filename: fileName, content: pdf, contentType: 'application/pdf' }],
         });
       }

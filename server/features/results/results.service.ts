@@ -10,6 +10,7 @@ import { MATRIX_RANKING, quadrantName, rankingName } from '../../../shared/matri
 import type { AgendaItem } from '../../../shared/schemas/agenda-item';
 import { FEEDBACK_GRID_PARTS, PHOTO_TYPES } from '../../../shared/schemas/activities';
 import { VoteKind, type VoteResults } from '../../../shared/schemas/voting';
+import { METHOD_LABELS } from '../../../shared/preference';
 import { showPrompt } from '../../../shared/templates';
 import { storyKey } from '../../../shared/activities';
 import type {
@@ -292,8 +293,8 @@ export function voteSection(v: VoteResults): Extract<ResultSection, { kind: 'vot
   if (v.kind === 'preference_vote') {
     const selected = new Set(v.chosen ?? v.top.selected);
     const mark = (method: string) => (v.rules.method === method ? selected : new Set<string>());
-    const borda = { id: 'borda', label: 'Borda count', rows: voteRows(v, v.borda.map((r) => ({ ...r, score: r.points })), mark('borda')) };
-    const schulze = { id: 'schulze', label: 'Schulze method', rows: voteRows(v, v.schulze.ranking.map((r) => ({ ...r, score: r.wins })), mark('schulze')) };
+    const borda = { id: 'borda', label: METHOD_LABELS.borda, rows: voteRows(v, v.borda.map((r) => ({ ...r, score: r.points })), mark('borda')) };
+    const schulze = { id: 'schulze', label: METHOD_LABELS.schulze, rows: voteRows(v, v.schulze.ranking.map((r) => ({ ...r, score: r.wins })), mark('schulze')) };
     const [main, other] = v.rules.method === 'borda' ? [borda, schulze] : [schulze, borda];
     return {
       kind: 'votes',
