@@ -185,3 +185,48 @@ describe('sending the report', () => {
     expect(list.status).toBe(403);
   });
 });
+
+describe('notes in other scripts', () => {
+  // Invented notes: Japanese ("the bike's lock was hard to find") and Arabic ("hello world", then a note
+  // with a number). Source Sans 3 has neither script; the report takes them from its shipped fallbacks.
+  const JAPANESE = '自転車の鍵が見つからない';
+  const ARABIC_FIRST = 'مرحبا';
+  const ARABIC_SECOND = 'بالعالم';
+
+  /** PDF.js's text items of every page, with where each starts and its font. */
+  async function items(pdf: Buffer): Promise<{ str: string; x: number; y: number; font: string }[]> {
+    const doc = await pdfjs.getDocument({ data: new Uint8Array(pdf), useSystemFonts: false, isEvalSupported: false }).promise;
+    const out: { str: string; x: number; y: number; font: string }[] = [];
+    for (let i = 1; i <= doc.numPages; i++) {
+      const page = await doc.getPage(i);
+      const content = await page.getTextContent();
+      for (const item of content.items) {
+        if ('str' in item && item.str.trim()) out.push({ str: [...item.str].filter((c) => c.charCodeAt(0) >= 32).join(''), x: item.transform[4] as number, y: item.transform[5] as number + i * 10_000, font: content.styles[item.fontName]?.fontFamily ?? '' });
+      }
+    }
+    await doc.destroy();
+    return out;
+  }
+
+  it('prints Japanese and Arabic notes in their own letters, right-to-left text set from the right', async () => {
+    const results = await new ResultsService(t.cairn.ctx).results(day.workshopId);
+    const section = results.activities.flatMap((a) => a.sections).find((s) => s.kind === 'notes');
+    expect(section, 'a notes section to add to').toBeDefined();
+    const groups = section!.kind === 'notes' ? (section!.byTheme.length ? section!.byTheme : section!.byTeam) : [];
+    const base = groups[0]!.notes[0]!;
+    groups[0]!.notes.push({ ...base, id: 'jp', text: JAPANESE }, { ...base, id: 'ar', text: `${ARABIC_FIRST} ${ARABIC_SECOND}` });
+    const found = await items(await renderReportPdf(results));
+    const all = found.map((i) => i.str).join('');
+    // Every Japanese character is there, read back through the PDF's own character map.
+    for (const ch of JAPANESE) expect(all).toContain(ch);
+    // Both Arabic words are there; on their line the first word stands right of the second (Unicode
+    // Bidirectional Algorithm, UAX #9: a right-to-left paragraph reads from the right).
+    const word = (w: string) => found.find((i) => i.str.includes(w) || i.str.includes([...w].reverse().join('')));
+    const first = word(ARABIC_FIRST);
+    const second = word(ARABIC_SECOND);
+    expect(first, JSON.stringify(found.filter((i) => /[\u0600-\u06ff]/.test(i.str)))).toBeDefined();
+    expect(second).toBeDefined();
+    expect(Math.abs(first!.y - second!.y)).toBeLessThan(1);
+    expect(first!.x).toBeGreaterThan(second!.x);
+  });
+});

@@ -1,9 +1,8 @@
 import { dayText, percentText } from '../../../shared/words';
-import fs from 'node:fs';
 import fsp from 'node:fs/promises';
 import path from 'node:path';
-import { createRequire } from 'node:module';
 import PDFDocument from 'pdfkit';
+import { FACES, HAS_FONTS, hasRtl, layoutBidi, scriptRuns, useFace, type Weight } from './report-fonts';
 import { Op } from 'sequelize';
 import type { AppContext } from '../../context';
 import type { UserRow } from '../../db/models';
@@ -28,60 +27,6 @@ import type {
 /** Cairn's report colours: the light palette's teal, text and muted grey (src/theme/palette.ts). */
 const INK = { teal: '#0b5d5b', text: '#1e2a29', muted: '#4f5d5b', rule: '#d8cdb8' };
 
-/** The script subsets of Source Sans 3 as @fontsource ships them, in the order a character is looked up. */
-const SUBSETS = ['latin', 'latin-ext', 'vietnamese', 'greek', 'greek-ext', 'cyrillic', 'cyrillic-ext'] as const;
-type Subset = (typeof SUBSETS)[number];
-type Weight = 'regular' | 'bold';
-
-/** Where Cairn's shipped font lives: WOFF (version 1) files load in pdfkit; its WOFF2 files do not. */
-function fontDir(): { dir: string; ranges: Record<Subset, [number, number][]> } | null {
-  try {
-    const require = createRequire(import.meta.url);
-    const pkg = path.dirname(require.resolve('@fontsource/source-sans-3/package.json'));
-    const unicode = JSON.parse(fs.readFileSync(path.join(pkg, 'unicode.json'), 'utf8')) as Record<string, string>;
-    const ranges = {} as Record<Subset, [number, number][]>;
-    for (const subset of SUBSETS) {
-      ranges[subset] = (unicode[subset] ?? '').split(',').map((r) => {
-        const [a, b] = r.replace(/U\+/g, '').split('-');
-        return [parseInt(a!, 16), parseInt(b ?? a!, 16)] as [number, number];
-      });
-    }
-    const dir = path.join(pkg, 'files');
-    return fs.existsSync(path.join(dir, 'source-sans-3-latin-400-normal.woff')) ? { dir, ranges } : null;
-  } catch {
-    return null;
-  }
-}
-
-const FONTS = fontDir();
-
-/** The subset whose file holds a code point (latin when none does: the PDF then shows a missing-glyph box). */
-function subsetOf(codePoint: number): Subset {
-  if (!FONTS) return 'latin';
-  for (const subset of SUBSETS) {
-    if (FONTS.ranges[subset].some(([a, b]) => codePoint >= a && codePoint <= b)) return subset;
-  }
-  return 'latin';
-}
-
-/** Splits text into runs that one subset file can draw. */
-export function scriptRuns(text: string): { subset: Subset; text: string }[] {
-  const runs: { subset: Subset; text: string }[] = [];
-  for (const ch of text) {
-    const subset = subsetOf(ch.codePointAt(0)!);
-    const last = runs.at(-1);
-    if (last && last.subset === subset) last.text += ch;
-    else runs.push({ subset, text: ch });
-  }
-  return runs;
-}
-
-/** The name a subset and weight are registered under. */
-function fontName(subset: Subset, weight: Weight): string {
-  if (!FONTS) return weight === 'bold' ? 'Helvetica-Bold' : 'Helvetica';
-  return `SourceSans3-${subset}-${weight}`;
-}
-
 /** Local clock time of an instant on this server (the laptop at the venue), as HH:MM. */
 function clockOf(ms: number | null): string {
   if (ms === null) return '—';
@@ -96,7 +41,13 @@ function minutes(n: number | null, signed = false): string {
   return n < 0 ? `−${s}` : signed && n > 0 ? `+${s}` : s;
 }
 
-/** Writes Cairn's report into a pdfkit document: text stays text (no markup is read), every script in Source Sans 3 where it has one. */
+/** Space between lines of the report's text, in points. */
+const LINE_GAP = 1.5;
+
+/**
+ * Writes Cairn's report into a pdfkit document: text stays text (no markup is read), every script in
+ * Source Sans 3 where it has one and in a shipped fallback where it has not, right-to-left text in order.
+ */
 class ReportWriter {
   readonly doc: PDFKit.PDFDocument;
   private readonly left = 56;
@@ -118,12 +69,6 @@ class ReportWriter {
         CreationDate: new Date(r.generatedAt),
       },
     });
-    if (FONTS) {
-      for (const subset of SUBSETS) {
-        this.doc.registerFont(fontName(subset, 'regular'), path.join(FONTS.dir, `source-sans-3-${subset}-400-normal.woff`));
-        this.doc.registerFont(fontName(subset, 'bold'), path.join(FONTS.dir, `source-sans-3-${subset}-700-normal.woff`));
-      }
-    }
     this.width = this.doc.page.width - this.left - 56;
   }
 
@@ -134,24 +79,54 @@ class ReportWriter {
   ): void {
     const doc = this.doc;
     doc.fontSize(o.size ?? 10.5).fillColor(o.color ?? INK.text);
-    // Helvetica has no glyphs outside Windows-1252: without the shipped font, other letters become '?'.
-    const safe = FONTS ? text : text.replace(/[^\x20-\x7e\u00a0-\u00ff\n]/g, '?');
-    const runs = scriptRuns(safe.length ? safe : ' ');
-    const options = { width: o.width ?? this.width - (o.indent ?? 0), lineGap: 1.5 };
-    runs.forEach((run, i) => {
-      doc.font(fontName(run.subset, o.weight ?? 'regular'));
-      const continued = i < runs.length - 1;
-      if (i === 0 && o.at) doc.text(run.text, o.at.x, o.at.y, { ...options, continued });
-      else if (i === 0) doc.text(run.text, this.left + (o.indent ?? 0), doc.y, { ...options, continued });
-      else doc.text(run.text, { continued });
-    });
+    // Helvetica has no glyphs outside Windows-1252: without the shipped fonts, other letters become '?'.
+    const safe = HAS_FONTS ? text : text.replace(/[^\x20-\x7e\u00a0-\u00ff\n]/g, '?');
+    const width = o.width ?? this.width - (o.indent ?? 0);
+    const x = o.at ? o.at.x : this.left + (o.indent ?? 0);
+    if (HAS_FONTS && hasRtl(safe)) {
+      this.writeBidi(safe, x, o.at ? o.at.y : doc.y, width, o.weight ?? 'regular');
+    } else {
+      const runs = scriptRuns(safe.length ? safe : ' ');
+      const options = { width, lineGap: LINE_GAP };
+      runs.forEach((run, i) => {
+        useFace(doc, run.face, o.weight ?? 'regular');
+        const continued = i < runs.length - 1;
+        if (i === 0) doc.text(run.text, x, o.at ? o.at.y : doc.y, { ...options, continued });
+        else doc.text(run.text, { continued });
+      });
+    }
     if (o.gap) doc.y += o.gap;
+  }
+
+  /**
+   * Writes text that holds right-to-left letters line by line in display order (report-fonts.ts): a
+   * right-to-left paragraph is set flush right, its first word at the right edge.
+   */
+  private writeBidi(text: string, x: number, y: number, width: number, weight: Weight): void {
+    const doc = this.doc;
+    let top = y;
+    for (const line of layoutBidi(doc, text, width, weight)) {
+      let at = line.rtl ? x + width - line.width : x;
+      for (const piece of line.pieces) {
+        useFace(doc, piece.face, weight);
+        // Features make pdfkit shape the piece as one run, so the engine puts a right-to-left run in order.
+        const options = { lineBreak: false, features: [] } as PDFKit.Mixins.TextOptions;
+        doc.text(piece.text, at, top, options);
+        at += doc.widthOfString(piece.text, options);
+      }
+      useFace(doc, FACES[0] ?? null, weight);
+      top += doc.currentLineHeight(true) + LINE_GAP;
+    }
+    doc.x = x;
+    doc.y = top;
   }
 
   /** The height a text takes at a width (measured in the regular Latin face, close enough for layout). */
   heightOf(text: string, width: number, size = 10.5): number {
-    this.doc.font(fontName('latin', 'regular')).fontSize(size);
-    return this.doc.heightOfString(text || ' ', { width, lineGap: 1.5 });
+    useFace(this.doc, FACES[0] ?? null, 'regular');
+    this.doc.fontSize(size);
+    if (HAS_FONTS && hasRtl(text)) return layoutBidi(this.doc, text, width, 'regular').length * (this.doc.currentLineHeight(true) + LINE_GAP);
+    return this.doc.heightOfString(text || ' ', { width, lineGap: LINE_GAP });
   }
 
   /** Starts a new page when less than `needed` points are left. */
