@@ -149,7 +149,7 @@ test('the live console, projector and phone through a vote, and the results, pas
   await page.getByTestId('stop-session').click();
   await expect(page.getByRole('dialog')).toBeVisible();
   await scan(page, 'console-end-confirmation');
-  await page.getByRole('button', { name: 'End it' }).click();
+  await page.getByRole('dialog').getByRole('button', { name: 'End the live session' }).click();
   await expect(page.getByTestId('workshop-title')).toBeVisible();
 
   // Results: the page, the send-report dialog, the delete-now confirmation, and the report.

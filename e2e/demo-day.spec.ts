@@ -280,7 +280,7 @@ test('the demo day with five phones: every activity hands the next what it made'
   await snap('team-sort-confirmed');
 
   // Sketch: Ana's photo shows people (all agreed); the room sees it; she withdraws consent and the projector blurs it within a second.
-  await next('Eight ideas in eight minutes');
+  await next('Quick sketches');
   await ana.getByTestId('photo-input').setInputFiles({ name: 'sketches.png', mimeType: 'image/png', buffer: sketchPng(250) });
   await ana.getByTestId('photo-caption').fill('Eight ways to show free docks');
   await ana.getByTestId('shows-people').click();
@@ -360,7 +360,7 @@ test('the demo day with five phones: every activity hands the next what it made'
 
   // End the day, then read the results as the facilitator.
   await consolePage.getByTestId('stop-session').click();
-  await consolePage.getByRole('button', { name: 'End it' }).click();
+  await consolePage.getByRole('dialog').getByRole('button', { name: 'End the live session' }).click();
   await expect(ana.getByTestId('session-ended')).toBeVisible();
   await consolePage.goto(`/workshops/${workshopId}/results`);
   await expect(consolePage.getByTestId('results-title')).toHaveText(title);
