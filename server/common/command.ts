@@ -159,9 +159,8 @@ export class SocketCommands {
     const def = COMMANDS[event];
     const access = def.access;
     const fail = (err: unknown) => {
-      if (err instanceof AppError) {
-        reply({ error: { code: err.code, message: err.message, ...(err.detail?.reason ? { reason: err.detail.reason } : {}), ...(err.detail?.params ? { params: err.detail.params } : {}) } });
-      } else {
+      if (err instanceof AppError) reply({ error: { code: err.code, message: err.message } });
+      else {
         this.logger.error({ err, event }, 'socket command failed');
         reply({ error: { code: 'internal', message: 'Something went wrong on the server' } });
       }

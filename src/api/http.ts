@@ -1,4 +1,5 @@
-import { ClientError, errorOfBody } from './errors';
+import type { ErrorCode } from '../../shared/errors';
+import { ClientError } from './errors';
 
 /** What an HTTP call threw: the one client error (kept under this name for the screens that catch it). */
 export { ClientError as ApiError } from './errors';
@@ -37,8 +38,13 @@ async function send<T>(method: string, path: string, body?: unknown, retry = tru
     return send<T>(method, path, body, false, extra);
   }
   if (res.status === 204) return undefined as T;
-  const data = (await res.json().catch(() => null)) as unknown;
-  if (!res.ok) throw errorOfBody(res.status, data, `The server answered ${res.status}`);
+  const data = (await res.json().catch(() => null)) as
+    | { error?: { code: ErrorCode; message: string; fields?: Record<string, string> } }
+    | null;
+  if (!res.ok) {
+    const e = data?.error;
+    throw new ClientError(e?.code ?? 'internal', e?.message ?? `The server answered ${res.status}`, res.status, e?.fields ?? {});
+  }
   return data as T;
 }
 

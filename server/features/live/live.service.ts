@@ -1,4 +1,3 @@
-import type { Locale } from '../../../shared/locales';
 import crypto from 'node:crypto';
 import QRCode from 'qrcode';
 import { QueryTypes, UniqueConstraintError, type Transaction } from 'sequelize';
@@ -314,9 +313,9 @@ export class LiveService {
   /** What a phone may learn about a live session from its join code before joining. */
   async joinInfo(code: string): Promise<JoinInfo> {
     const session = await this.joinable(code);
-    const w = await this.ctx.db.models.Workshop.findByPk(session.workshopId, { attributes: ['id', 'title', 'consentText', 'retentionDays'] });
+    const w = await this.ctx.db.models.Workshop.findByPk(session.workshopId, { attributes: ['id', 'title', 'consentText'] });
     if (!w) throw errors.notFound('That workshop');
-    return { sessionId: session.id, workshopTitle: w.title, consentText: w.consentText, retentionDays: w.retentionDays ?? null };
+    return { sessionId: session.id, workshopTitle: w.title, consentText: w.consentText };
   }
 
   /** Joins a live session from a phone: the same device gets the same participant back, with the name and consent it gave last. */
@@ -327,7 +326,7 @@ export class LiveService {
       const now = new Date();
       const found = await Participant.findOne({ where: { sessionId: session.id, deviceId: body.deviceId }, transaction });
       if (found) {
-        found.set({ displayName: body.displayName, photoConsent: body.photoConsent, lastSeenAt: now, ...(body.locale ? { locale: body.locale } : {}) });
+        found.set({ displayName: body.displayName, photoConsent: body.photoConsent, lastSeenAt: now });
         await found.save({ transaction });
         return found;
       }
@@ -340,7 +339,6 @@ export class LiveService {
           photoConsent: body.photoConsent,
           teamId: null,
           email: null,
-          locale: body.locale ?? 'en',
           joinedAt: now,
           lastSeenAt: now,
         },
@@ -522,26 +520,6 @@ export class LiveService {
     });
   }
 
-  /** Sets the language the projector shows this session in. */
-  setProjectorLocale(sessionId: string, locale: Locale): Promise<LiveState> {
-    return this.command(sessionId, (s) => {
-      if (s.projectorLocale === locale) return false;
-      s.projectorLocale = locale;
-    });
-  }
-
-  /** Keeps the language a participant's phone now shows, for the e-mail with the report. */
-  async setParticipantLocale(participantId: string, sessionId: string, locale: Locale): Promise<Me> {
-    const p = await this.ctx.db.writeTx(async (transaction) => {
-      const row = await this.ctx.db.models.Participant.findByPk(participantId, { transaction });
-      if (!row || row.sessionId !== sessionId) throw errors.forbidden('You are not in this session any more; join again');
-      row.locale = locale;
-      await row.save({ transaction });
-      return row;
-    });
-    return toMe(p);
-  }
-
   /** Shows or hides the current activity's results on the projector. */
   setRevealed(sessionId: string, revealed: boolean): Promise<LiveState> {
     return this.command(sessionId, (s) => {
@@ -692,10 +670,8 @@ export class LiveService {
 
   private async joinable(code: string): Promise<LiveSessionRow> {
     const row = await this.ctx.db.models.LiveSession.findOne({ where: { joinCode: code } });
-    if (!row) {
-      throw new AppError(404, 'not_found', `No live session has the code ${code}; check the code on the projector`, undefined, { reason: 'join_code_unknown', params: { code } });
-    }
-    if (row.status !== 'live') throw new AppError(404, 'not_found', 'That live session has ended', undefined, { reason: 'join_ended' });
+    if (!row) throw new AppError(404, 'not_found', `No live session has the code ${code}; check the code on the big screen`);
+    if (row.status !== 'live') throw new AppError(404, 'not_found', 'That live session has ended');
     return row;
   }
 
@@ -737,7 +713,6 @@ export class LiveService {
       locked: s.locked,
       revealed: s.revealed,
       message: s.message,
-      projectorLocale: s.projectorLocale ?? 'en',
       runs: s.runs,
       version: s.version,
     };

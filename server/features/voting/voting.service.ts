@@ -341,7 +341,7 @@ export class VotingService {
         const item = state.item;
         if (!item || !VoteKind.safeParse(item.type).success) return { refused: errors.conflict('The current activity is not a vote') };
         const vote = this.voteOfItem.get(`${sessionId}:${item.id}`) ?? (await this.cachedVote(sessionId, item.id, transaction));
-        if (!vote) return { refused: new AppError(409, 'conflict', 'Voting has not opened yet', undefined, { reason: 'vote_not_open' }) };
+        if (!vote) return { refused: errors.conflict('Voting has not opened yet') };
         const ledger = this.ledgers.get(vote.id) ?? (await this.loadLedger(vote.id, sessionId, transaction));
         const mine = ledger.ballots.get(participantId) ?? [];
         const answer = (dots: Dot[]): BallotAnswer => ({
@@ -351,9 +351,9 @@ export class VotingService {
         // A retry of something already applied is answered before the checks, which may have changed since.
         const receipt = receiptKey(participantId, payload.clientId);
         if (ledger.receipts.has(receipt)) return { answer: { ...answer(mine), duplicate: true }, applied: false };
-        if (vote.status === 'draft') return { refused: new AppError(409, 'conflict', 'Voting has not opened yet', undefined, { reason: 'vote_not_open' }) };
+        if (vote.status === 'draft') return { refused: errors.conflict('Voting has not opened yet') };
         if (vote.kind !== 'dot_vote') return { refused: errors.badRequest('This vote does not take that kind of ballot') };
-        if (vote.status === 'closed') return { refused: new AppError(409, 'conflict', 'Voting has closed; your votes stay as they were', undefined, { reason: 'vote_closed' }) };
+        if (vote.status === 'closed') return { refused: errors.conflict('Voting has closed; your votes stay as they were') };
         if (!vote.options.some((o) => o.id === payload.optionId)) return { refused: errors.badRequest('This vote has no such option') };
         const check = checkBallot(vote.rules, mine, { optionId: payload.optionId, criterionId: payload.criterionId, delta: payload.delta });
         if (!check.ok) return { refused: new AppError(BALLOT_ERROR[check.code] === 'bad_request' ? 400 : 409, BALLOT_ERROR[check.code], check.message) };
@@ -777,9 +777,9 @@ export class VotingService {
         const refused = inputGate(await this.ctx.db.models.LiveSession.findByPk(sessionId, { transaction }), true, item.id);
         if (refused) throw refused;
         const vote = await Vote.findOne({ where: { sessionId, itemId: item.id }, transaction });
-        if (!vote || vote.status === 'draft') throw new AppError(409, 'conflict', 'Voting has not opened yet', undefined, { reason: 'vote_not_open' });
+        if (!vote || vote.status === 'draft') throw errors.conflict('Voting has not opened yet');
         if (!allowed.includes(vote.kind)) throw errors.badRequest('This vote does not take that kind of ballot');
-        if (vote.status === 'closed') throw new AppError(409, 'conflict', 'Voting has closed; your votes stay as they were', undefined, { reason: 'vote_closed' });
+        if (vote.status === 'closed') throw errors.conflict('Voting has closed; your votes stay as they were');
         await change(vote, transaction);
         await VoteReceipt.create({ id: crypto.randomUUID(), participantId, clientId, voteId: vote.id, createdAt: new Date() }, { transaction });
         return { answer: { duplicate: false, mine: await this.mineOf(vote, participantId, transaction) }, applied: true };
