@@ -27,8 +27,8 @@ export const INTERVIEW_PARTS: readonly NotePart[] = [
 
 /** The quadrants of a team's empathy map (the sees / hears variant of the published canvases). */
 export const EMPATHY_MAP_PARTS: readonly NotePart[] = [
-  { id: 'sees', label: 'Sees', hint: 'Around them on the first ride' },
-  { id: 'hears', label: 'Hears', hint: 'From friends, staff, the app' },
+  { id: 'sees', label: 'Sees', hint: 'What they notice around them' },
+  { id: 'hears', label: 'Hears', hint: 'What others tell them' },
   { id: 'says_does', label: 'Says & does', hint: 'Out loud, in the open' },
   { id: 'thinks_feels', label: 'Thinks & feels', hint: 'Worries and hopes' },
 ];
