@@ -1,4 +1,5 @@
-import { expect, type Browser, type Page } from '@playwright/test';
+import { expect, type APIRequestContext, type Browser, type Page } from '@playwright/test';
+import { io as ioClient } from 'socket.io-client';
 import AxeBuilder from '@axe-core/playwright';
 import fs from 'node:fs';
 import path from 'node:path';
@@ -69,4 +70,26 @@ export async function runLive(page: Page, kind: 'rehearsal' | 'day' = 'day'): Pr
   await openStartDialog(page);
   await page.getByRole('radio', { name: kind === 'day' ? 'The day itself' : 'A rehearsal' }).click();
   await page.getByRole('button', { name: 'Start the session' }).click();
+}
+
+/**
+ * A workshop of the spec's own from the half-day template, live as a rehearsal, with the facilitator's
+ * socket watching it: what the phone specs start from.
+ */
+export async function rehearseOwnWorkshop(request: APIRequestContext, baseURL: string, title: string, objective: string) {
+  const { accessToken } = (await (await request.post('/api/auth/sign-in', { data: DEMO.facilitator })).json()) as { accessToken: string };
+  const auth = { Authorization: `Bearer ${accessToken}` };
+  const created = await request.post('/api/workshops', {
+    headers: auth,
+    data: { title, objective, date: '2026-12-03', headcount: 12, templateId: 'half-day' },
+  });
+  expect(created.status()).toBe(201);
+  const { id: workshopId } = (await created.json()) as { id: string };
+  const live = (await (await request.post(`/api/workshops/${workshopId}/live`, { headers: auth, data: { kind: 'rehearsal' } })).json()) as {
+    sessionId: string;
+    joinCode: string;
+  };
+  const facilitator = ioClient(baseURL, { auth: { token: accessToken }, transports: ['websocket'] });
+  await facilitator.timeout(10_000).emitWithAck('session:watch', { sessionId: live.sessionId });
+  return { auth, workshopId, live, facilitator };
 }

@@ -1,7 +1,6 @@
 import { test, expect } from '@playwright/test';
-import { io as ioClient } from 'socket.io-client';
 import { PNG } from 'pngjs';
-import { DEMO } from './fixtures';
+import { rehearseOwnWorkshop } from './fixtures';
 
 /** A small grey picture, enough for the server's image checks. */
 function photoPng(): Buffer {
@@ -16,23 +15,10 @@ test('a phone keeps a note and a photo made offline through a reload, says how m
   baseURL,
 }) => {
   test.setTimeout(120_000);
-  const { accessToken } = (await (await request.post('/api/auth/sign-in', { data: DEMO.facilitator })).json()) as { accessToken: string };
-  const auth = { Authorization: `Bearer ${accessToken}` };
-  const created = await request.post('/api/workshops', {
-    headers: auth,
-    data: { title: 'Outbox check for the phones', objective: 'Check the phone keeps what it made offline', date: '2026-12-03', headcount: 12, templateId: 'half-day' },
-  });
-  expect(created.status()).toBe(201);
-  const { id: workshopId } = (await created.json()) as { id: string };
+  const { auth, workshopId, live, facilitator } = await rehearseOwnWorkshop(request, baseURL!, 'Outbox check for the phones', 'Check the phone keeps what it made offline');
   const { agenda } = (await (await request.get(`/api/workshops/${workshopId}`, { headers: auth })).json()) as { agenda: { id: string; type: string }[] };
   const insights = agenda.findIndex((i) => i.type === 'insights');
   const sketch = agenda.findIndex((i) => i.type === 'sketch');
-  const live = (await (await request.post(`/api/workshops/${workshopId}/live`, { headers: auth, data: { kind: 'rehearsal' } })).json()) as {
-    sessionId: string;
-    joinCode: string;
-  };
-  const facilitator = ioClient(baseURL!, { auth: { token: accessToken }, transports: ['websocket'] });
-  await facilitator.timeout(10_000).emitWithAck('session:watch', { sessionId: live.sessionId });
   const goto = (index: number) => facilitator.timeout(10_000).emitWithAck('session:goto', { index });
   const board = async (index: number) => {
     const answer = (await facilitator.timeout(10_000).emitWithAck('activity:board', { itemId: agenda[index]!.id })) as {

@@ -1,6 +1,5 @@
 import { test, expect } from '@playwright/test';
-import { io as ioClient } from 'socket.io-client';
-import { DEMO } from './fixtures';
+import { rehearseOwnWorkshop } from './fixtures';
 
 test('a phone never asks for the sign-in cookie, keeps its shell, shows its screen offline after a reload, and catches up when back', async ({
   browser,
@@ -9,20 +8,7 @@ test('a phone never asks for the sign-in cookie, keeps its shell, shows its scre
 }) => {
   test.setTimeout(120_000);
   // The facilitator's side through the API and a socket: a workshop of its own, from a template, live.
-  const { accessToken } = (await (await request.post('/api/auth/sign-in', { data: DEMO.facilitator })).json()) as { accessToken: string };
-  const auth = { Authorization: `Bearer ${accessToken}` };
-  const created = await request.post('/api/workshops', {
-    headers: auth,
-    data: { title: 'Shell check for a first ride', objective: 'Check the phone keeps its shell', date: '2026-12-03', headcount: 12, templateId: 'half-day' },
-  });
-  expect(created.status()).toBe(201);
-  const { id: workshopId } = (await created.json()) as { id: string };
-  const live = (await (await request.post(`/api/workshops/${workshopId}/live`, { headers: auth, data: { kind: 'rehearsal' } })).json()) as {
-    sessionId: string;
-    joinCode: string;
-  };
-  const facilitator = ioClient(baseURL!, { auth: { token: accessToken }, transports: ['websocket'] });
-  await facilitator.timeout(10_000).emitWithAck('session:watch', { sessionId: live.sessionId });
+  const { auth, workshopId, live, facilitator } = await rehearseOwnWorkshop(request, baseURL!, 'Shell check for a first ride', 'Check the phone keeps its shell');
   const goto = async (index: number) => {
     const answer = (await facilitator.timeout(10_000).emitWithAck('session:goto', { index })) as { data: { item: { title: string } } };
     return answer.data.item.title;
