@@ -192,6 +192,13 @@ describe('notes in other scripts', () => {
   const JAPANESE = '自転車の鍵が見つからない';
   const ARABIC_FIRST = 'مرحبا';
   const ARABIC_SECOND = 'بالعالم';
+  // More invented notes in scripts Source Sans 3 lacks: Korean ("the bike lock is hard"), Devanagari (Hindi,
+  // "the lock is stuck"), Thai ("the lock is hard to open") and Hebrew ("the lock is stuck", two words).
+  const KOREAN = '자전거 자물쇠가 어려워요';
+  const DEVANAGARI = 'ताला फँसा है';
+  const THAI = 'ที่ล็อกเปิดยาก';
+  const HEBREW_FIRST = 'המנעול';
+  const HEBREW_SECOND = 'תקוע';
 
   /** PDF.js's text items of every page, with where each starts and its font. */
   async function items(pdf: Buffer): Promise<{ str: string; x: number; y: number; font: string }[]> {
@@ -208,25 +215,36 @@ describe('notes in other scripts', () => {
     return out;
   }
 
-  it('prints Japanese and Arabic notes in their own letters, right-to-left text set from the right', async () => {
+  it('prints Japanese, Arabic, Hebrew, Korean, Devanagari and Thai notes in their own letters, right-to-left text set from the right', async () => {
     const results = await new ResultsService(t.cairn.ctx).results(day.workshopId);
     const section = results.activities.flatMap((a) => a.sections).find((s) => s.kind === 'notes');
     expect(section, 'a notes section to add to').toBeDefined();
     const groups = section!.kind === 'notes' ? (section!.byTheme.length ? section!.byTheme : section!.byTeam) : [];
     const base = groups[0]!.notes[0]!;
-    groups[0]!.notes.push({ ...base, id: 'jp', text: JAPANESE }, { ...base, id: 'ar', text: `${ARABIC_FIRST} ${ARABIC_SECOND}` });
+    groups[0]!.notes.push(
+      { ...base, id: 'jp', text: JAPANESE },
+      { ...base, id: 'ar', text: `${ARABIC_FIRST} ${ARABIC_SECOND}` },
+      { ...base, id: 'ko', text: KOREAN },
+      { ...base, id: 'hi', text: DEVANAGARI },
+      { ...base, id: 'th', text: THAI },
+      { ...base, id: 'he', text: `${HEBREW_FIRST} ${HEBREW_SECOND}` },
+    );
     const found = await items(await renderReportPdf(results));
     const all = found.map((i) => i.str).join('');
-    // Every Japanese character is there, read back through the PDF's own character map.
-    for (const ch of JAPANESE) expect(all).toContain(ch);
-    // Both Arabic words are there; on their line the first word stands right of the second (Unicode
-    // Bidirectional Algorithm, UAX #9: a right-to-left paragraph reads from the right).
+    // Every character is there, read back through the PDF's own character map. A character its face lacks
+    // would be drawn as .notdef (glyph 0), and pdfkit maps that one glyph to the first such character only,
+    // so a note of several different letters drawn in boxes cannot read back whole.
+    for (const note of [JAPANESE, KOREAN, DEVANAGARI, THAI]) for (const ch of note.replace(/\s/g, '')) expect(all, note).toContain(ch);
+    // Both words of each right-to-left note are there; on their line the first word stands right of the
+    // second (Unicode Bidirectional Algorithm, UAX #9: a right-to-left paragraph reads from the right).
     const word = (w: string) => found.find((i) => i.str.includes(w) || i.str.includes([...w].reverse().join('')));
-    const first = word(ARABIC_FIRST);
-    const second = word(ARABIC_SECOND);
-    expect(first, JSON.stringify(found.filter((i) => /[\u0600-\u06ff]/.test(i.str)))).toBeDefined();
-    expect(second).toBeDefined();
-    expect(Math.abs(first!.y - second!.y)).toBeLessThan(1);
-    expect(first!.x).toBeGreaterThan(second!.x);
+    for (const [a, b] of [[ARABIC_FIRST, ARABIC_SECOND], [HEBREW_FIRST, HEBREW_SECOND]] as const) {
+      const first = word(a);
+      const second = word(b);
+      expect(first, JSON.stringify(found.filter((i) => /[\u0590-\u06ff]/.test(i.str)))).toBeDefined();
+      expect(second).toBeDefined();
+      expect(Math.abs(first!.y - second!.y)).toBeLessThan(1);
+      expect(first!.x).toBeGreaterThan(second!.x);
+    }
   });
 });

@@ -5,8 +5,8 @@ import bidiFactory from 'bidi-js';
 
 /**
  * The report's type: Source Sans 3 (Cairn's typeface) for every script it has, and for the scripts it
- * lacks a fallback from an @fontsource package shipped with the app (Noto Sans Arabic, Noto Sans JP),
- * so a note reads as its participant wrote it. Text with right-to-left letters is laid out line by line
+ * lacks a fallback from an @fontsource package shipped with the app (Noto Sans Arabic, Hebrew,
+ * Devanagari, Thai, JP and KR), so a note reads as its participant wrote it. Text with right-to-left letters is laid out line by line
  * and put in display order with the Unicode Bidirectional Algorithm (bidi-js), since pdfkit draws every
  * line left to right in the order it is given.
  */
@@ -62,7 +62,12 @@ function packageFaces(pkgName: string, family: string, subsets?: readonly string
 export const FACES: readonly Face[] = [
   ...packageFaces('@fontsource/source-sans-3', 'source-sans-3', ['latin', 'latin-ext', 'vietnamese', 'greek', 'greek-ext', 'cyrillic', 'cyrillic-ext']),
   ...packageFaces('@fontsource/noto-sans-arabic', 'noto-sans-arabic', ['arabic']),
+  ...packageFaces('@fontsource/noto-sans-hebrew', 'noto-sans-hebrew', ['hebrew']),
+  ...packageFaces('@fontsource/noto-sans-devanagari', 'noto-sans-devanagari', ['devanagari']),
+  ...packageFaces('@fontsource/noto-sans-thai', 'noto-sans-thai', ['thai']),
+  // Japanese before Korean: the Han characters both cover are drawn in one face, Noto Sans JP's.
   ...packageFaces('@fontsource/noto-sans-jp', 'noto-sans-jp'),
+  ...packageFaces('@fontsource/noto-sans-kr', 'noto-sans-kr'),
 ];
 
 /** Whether Cairn's own typeface was found; without it the report falls back to pdfkit's Helvetica (Latin-1 only). */
@@ -77,12 +82,21 @@ export function faceOf(codePoint: number): Face | null {
   return FACES[0]!;
 }
 
+// Marks and joiners shape with the letter before them (a Devanagari virama and zero-width joiner, a Thai
+// tone mark): they stay in that letter's run when its face has them, rather than falling to Source Sans 3.
+const CLUSTER_PART = /^[\p{M}\u200c\u200d]$/u;
+
+function covers(face: Face | null, codePoint: number): boolean {
+  return face !== null && face.ranges.some(([a, b]) => codePoint >= a && codePoint <= b);
+}
+
 /** Splits text into runs that one face can draw, in the order given. */
 export function scriptRuns(text: string): { face: Face | null; text: string }[] {
   const runs: { face: Face | null; text: string }[] = [];
   for (const ch of text) {
-    const face = faceOf(ch.codePointAt(0)!);
     const last = runs.at(-1);
+    const cp = ch.codePointAt(0)!;
+    const face = last && CLUSTER_PART.test(ch) && covers(last.face, cp) ? last.face : faceOf(cp);
     if (last && last.face === face) last.text += ch;
     else runs.push({ face, text: ch });
   }
@@ -112,8 +126,9 @@ export function useFace(doc: PDFKit.PDFDocument, face: Face | null, weight: Weig
 
 // Letters of the right-to-left scripts (Hebrew, Arabic, Syriac, Thaana, N'Ko, … and their presentation forms).
 const RTL_LETTER = /[\u0590-\u08ff\ufb1d-\ufdff\ufe70-\ufefc\u{10800}-\u{10fff}\u{1e800}-\u{1efff}]/u;
-// Scripts whose runs the shaping engine (fontkit) itself turns into display order.
-const RTL_FACE = /noto-sans-arabic/;
+// Scripts whose runs the shaping engine (fontkit) itself turns into display order: it reverses a run whose
+// script reads right to left (Arabic, Hebrew).
+const RTL_FACE = /noto-sans-(arabic|hebrew)/;
 
 /** Whether text holds a right-to-left letter, so it needs the bidirectional layout. */
 export function hasRtl(text: string): boolean {
