@@ -38,6 +38,8 @@ export interface ProjectedTime {
   /** Idle minutes left before a pinned item: the buffer still there after the drift so far. */
   bufferBeforeMin: number;
   pinned: boolean;
+  /** For a pinned item: how many minutes after its fixed clock time it now starts (0 while the buffer holds). */
+  lateMin: number;
 }
 
 /** The live day against the plan. */
@@ -93,8 +95,12 @@ export function computeDrift(input: DriftInput): Drift {
   const currentEndMin = input.nowMin + input.currentRemainingMin;
   const later = flowTimes(items.slice(currentIndex + 1), currentEndMin, { pinShiftMin, lateStart: 'wait' });
   const projected: ProjectedTime[] = [
-    { id: items[currentIndex]!.id, startMin: input.currentStartedAtMin, endMin: currentEndMin, bufferBeforeMin: 0, pinned: !!items[currentIndex]!.pinnedAt },
-    ...later.map((f, i) => ({ id: items[currentIndex + 1 + i]!.id, startMin: f.startMin, endMin: f.endMin, bufferBeforeMin: f.bufferBeforeMin, pinned: f.pinned })),
+    { id: items[currentIndex]!.id, startMin: input.currentStartedAtMin, endMin: currentEndMin, bufferBeforeMin: 0, pinned: !!items[currentIndex]!.pinnedAt, lateMin: 0 },
+    ...later.map((f, i) => {
+      const pinnedAt = items[currentIndex + 1 + i]!.pinnedAt;
+      const lateMin = pinnedAt ? Math.max(0, f.startMin - (toMinutes(pinnedAt) + pinShiftMin)) : 0;
+      return { id: items[currentIndex + 1 + i]!.id, startMin: f.startMin, endMin: f.endMin, bufferBeforeMin: f.bufferBeforeMin, pinned: f.pinned, lateMin };
+    }),
   ];
   const projectedEndMin = later.reduce((end, f) => Math.max(end, f.endMin), currentEndMin);
 
@@ -128,25 +134,61 @@ export interface Shortening {
 
 /**
  * Cuts to the items after `fromIndex` (the current item's index) that win back `minutesToRecover`
- * (rounded up to whole minutes). Breaks and lunch are never cut, no item goes below its minimum
- * timebox, and the cut is spread in proportion to each item's slack (timebox − minimum), in whole
+ * (rounded up to whole minutes) at the end of the day. Breaks and lunch are never cut, no item goes below
+ * its minimum timebox. A pinned item starts at its clock time, so minutes cut before it only widen the
+ * buffer before it: they win back at most how late it now starts (`pinnedLateMin`, by item id; a pinned
+ * item not listed is on time, 0). The minutes are therefore taken from the last stretch first (the items
+ * from the last pinned item on), then from the stretch before, up to what the pins after it let through;
+ * within a stretch the cut is spread in proportion to each item's slack (timebox − minimum), in whole
  * minutes by largest remainder (ties go to the larger slack, then the earlier item). Refuses minutes to
  * recover or an index that are not finite numbers; items whose timebox or minimum is not a finite number
  * are ignored (never cut).
  * @example suggestShortening(items, 2, 10) // { cuts: [...], recoveredMin: 10, shortfallMin: 0 }
  */
-export function suggestShortening(items: AgendaItem[], fromIndex: number, minutesToRecover: number): Shortening {
+export function suggestShortening(
+  items: AgendaItem[],
+  fromIndex: number,
+  minutesToRecover: number,
+  pinnedLateMin: Record<string, number> = {},
+): Shortening {
   finite('The index', fromIndex);
   finite('The minutes to recover', minutesToRecover);
   const wanted = Math.max(0, Math.ceil(minutesToRecover));
+  // Stretches of the later items, each starting at a pinned item (the first at the item after the current one).
+  const stretches: { lateMin: number; items: AgendaItem[] }[] = [];
+  for (const item of items.slice(Math.max(0, fromIndex + 1))) {
+    if (item.pinnedAt || stretches.length === 0) {
+      const late = pinnedLateMin[item.id] ?? 0;
+      // The first stretch, when no pinned item opens it, has no clock time to wait for.
+      const lateMin = item.pinnedAt ? (Number.isFinite(late) ? Math.max(0, Math.floor(late)) : 0) : Infinity;
+      stretches.push({ lateMin, items: [] });
+    }
+    stretches.at(-1)!.items.push(item);
+  }
+  const cuts: Shortening['cuts'] = [];
+  let left = wanted;
+  // What may still pass every pinned item after the stretch being cut.
+  let passes = Infinity;
+  for (let k = stretches.length - 1; k >= 0 && left > 0 && passes > 0; k--) {
+    const stretch = stretches[k]!;
+    const take = spreadCut(stretch.items, Math.min(left, passes));
+    cuts.unshift(...take.cuts);
+    left -= take.recoveredMin;
+    // Minutes cut before this stretch's pinned item reach past it only while it starts late.
+    passes = Math.min(passes - take.recoveredMin, stretch.lateMin);
+  }
+  return { cuts, recoveredMin: wanted - left, shortfallMin: left };
+}
+
+/** Cuts up to `wanted` whole minutes from the items, in proportion to their slack by largest remainder. */
+function spreadCut(items: AgendaItem[], wanted: number): Omit<Shortening, 'shortfallMin'> {
   const candidates = items
-    .slice(Math.max(0, fromIndex + 1))
     .filter((item) => !isBreakItem(item) && Number.isFinite(item.timeboxMin) && Number.isFinite(item.minTimeboxMin))
     .map((item, order) => ({ item, order, slack: Math.max(0, item.timeboxMin - item.minTimeboxMin) }))
     .filter((c) => c.slack > 0);
   const totalSlack = candidates.reduce((sum, c) => sum + c.slack, 0);
   const target = Math.min(wanted, totalSlack);
-  if (target === 0) return { cuts: [], recoveredMin: 0, shortfallMin: wanted };
+  if (target === 0) return { cuts: [], recoveredMin: 0 };
 
   // Largest remainder: floor every share, then hand the leftover minutes to the largest fractions.
   // A share rounded up never passes the item's slack: a remainder > 0 means floor < share ≤ slack.
@@ -169,7 +211,7 @@ export function suggestShortening(items: AgendaItem[], fromIndex: number, minute
   const cuts = shares
     .filter((s) => s.cut > 0)
     .map((s) => ({ itemId: s.item.id, fromMin: s.item.timeboxMin, toMin: s.item.timeboxMin - s.cut }));
-  return { cuts, recoveredMin: target, shortfallMin: wanted - target };
+  return { cuts, recoveredMin: target };
 }
 
 /** A live run's own timeboxes (agenda item id → minutes) and those before its last cut, for the undo. */

@@ -243,7 +243,7 @@ describe('drift around an item pinned to a clock time', () => {
   it('plans the lunch at its clock time, with the gap before it as buffer, the same as the plan page', () => {
     const d = computeDrift({ items: PINNED, window: DAY, currentIndex: 1, currentStartedAtMin: 660, currentRemainingMin: 50, nowMin: 670 });
     expect(d).toMatchObject({ plannedStartMin: 660, startedLateMin: 0, driftMin: 0, plannedEndMin: 840, projectedEnd: '14:00', overrunMin: 0 });
-    expect(at(d, 'L')).toEqual({ id: 'L', startMin: 750, endMin: 795, bufferBeforeMin: 30, pinned: true });
+    expect(at(d, 'L')).toEqual({ id: 'L', startMin: 750, endMin: 795, bufferBeforeMin: 30, pinned: true, lateMin: 0 });
     // The plan page's schedule lays the day out by the same flow.
     const plan = computeSchedule(PINNED, DAY, RuleSettings.parse({}));
     expect(plan.items.find((i) => i.id === 'L')).toMatchObject({ start: '12:30', bufferBeforeMin: 30 });
@@ -262,8 +262,45 @@ describe('drift around an item pinned to a clock time', () => {
 
   it('moves the pinned item only by the drift beyond its buffer: 40 min late, lunch at 12:40 and the day 10 min over', () => {
     const d = computeDrift({ items: PINNED, window: DAY, currentIndex: 1, currentStartedAtMin: 700, currentRemainingMin: 50, nowMin: 710 });
-    expect(at(d, 'L')).toMatchObject({ startMin: 760, endMin: 805, bufferBeforeMin: 0 });
+    expect(at(d, 'L')).toMatchObject({ startMin: 760, endMin: 805, bufferBeforeMin: 0, lateMin: 10 });
     expect(d).toMatchObject({ driftMin: 10, projectedEnd: '14:10', overrunMin: 10 });
+  });
+
+  it('suggests cuts that win time back at the end, not cuts that only widen the buffer before the pin', () => {
+    // Worked by hand. A ran 40 min over; B (slack 20) runs to 12:40, lunch starts 12:40 (10 min late),
+    // C (slack 15) ends 14:10: 10 min over. Cutting B alone would end B at 12:30 and win all 10 min; but
+    // with 70 min over, lunch waits for B only 10 min past 12:30, so B can give at most 10 and C the rest.
+    const d = computeDrift({ items: PINNED, window: DAY, currentIndex: 0, currentStartedAtMin: 600, currentRemainingMin: 40, nowMin: 660 });
+    expect(at(d, 'L')).toMatchObject({ startMin: 760, lateMin: 10 });
+    const late = Object.fromEntries(d.projected.map((p) => [p.id, p.lateMin]));
+    // 10 min over: taken after the pin first (C), where every minute counts.
+    expect(suggestShortening(PINNED, 0, d.overrunMin, late)).toEqual({ cuts: [{ itemId: 'C', fromMin: 45, toMin: 35 }], recoveredMin: 10, shortfallMin: 0 });
+    // 22 min over: C gives its 15, B at most the 10 lunch waits for it; 7 come from B.
+    expect(suggestShortening(PINNED, 0, 22, late)).toEqual({
+      cuts: [{ itemId: 'B', fromMin: 60, toMin: 53 }, { itemId: 'C', fromMin: 45, toMin: 30 }],
+      recoveredMin: 22,
+      shortfallMin: 0,
+    });
+    // 40 min over: C 15 + B 10 (the lunch's lateness); the rest cannot be won back before the pin.
+    expect(suggestShortening(PINNED, 0, 40, late)).toEqual({
+      cuts: [{ itemId: 'B', fromMin: 60, toMin: 50 }, { itemId: 'C', fromMin: 45, toMin: 30 }],
+      recoveredMin: 25,
+      shortfallMin: 15,
+    });
+  });
+
+  it('never cuts before a pinned item that still has buffer: that would only widen the buffer', () => {
+    // A on time: lunch holds 12:30 with 30 min of buffer. Asked for 25 min (as if the day were over), only C can give.
+    const d = computeDrift({ items: PINNED, window: DAY, currentIndex: 0, currentStartedAtMin: 600, currentRemainingMin: 40, nowMin: 620 });
+    expect(at(d, 'L')).toMatchObject({ lateMin: 0, bufferBeforeMin: 30 });
+    const late = Object.fromEntries(d.projected.map((p) => [p.id, p.lateMin]));
+    expect(suggestShortening(PINNED, 0, 25, late)).toEqual({ cuts: [{ itemId: 'C', fromMin: 45, toMin: 30 }], recoveredMin: 15, shortfallMin: 10 });
+    // Without the lateness given, a pinned item counts as on time.
+    expect(suggestShortening(PINNED, 0, 25)).toEqual(suggestShortening(PINNED, 0, 25, late));
+    // The 15 min cut to C moves the projected end by exactly 15.
+    const cut = PINNED.map((i) => (i.id === 'C' ? { ...i, timeboxMin: 30 } : i));
+    const after = computeDrift({ items: cut, window: DAY, currentIndex: 0, currentStartedAtMin: 600, currentRemainingMin: 40, nowMin: 620 });
+    expect(d.projectedEndMin - after.projectedEndMin).toBe(15);
   });
 
   it('starts ahead of the buffer when early: lunch still waits for 12:30', () => {
