@@ -12,7 +12,7 @@ export interface DriftInput {
   currentIndex: number;
   /** When the current item actually started. */
   currentStartedAtMin: number;
-  /** Minutes left on the current item's countdown (paused or not); negative once it overruns. */
+  /** Minutes left on the current item's countdown (paused or not); 0 or negative once it overruns (it still runs now). */
   currentRemainingMin: number;
   nowMin: number;
   /** How long the finished items actually took, to show where the time went. */
@@ -92,7 +92,8 @@ export function computeDrift(input: DriftInput): Drift {
   const plannedStartMin = plan[currentIndex]!.startMin;
   const plannedEndMin = plan.reduce((end, p) => Math.max(end, p.endMin), startMin);
 
-  const currentEndMin = input.nowMin + input.currentRemainingMin;
+  // An item past its countdown still runs: it ends no earlier than now.
+  const currentEndMin = input.nowMin + Math.max(0, input.currentRemainingMin);
   const later = flowTimes(items.slice(currentIndex + 1), currentEndMin, { pinShiftMin, lateStart: 'wait' });
   const projected: ProjectedTime[] = [
     { id: items[currentIndex]!.id, startMin: input.currentStartedAtMin, endMin: currentEndMin, bufferBeforeMin: 0, pinned: !!items[currentIndex]!.pinnedAt, lateMin: 0 },
@@ -267,32 +268,36 @@ export function undoRunCut(run: RunTimeboxes): RunTimeboxes {
 }
 
 /** Why the live drift is measured from where it is. */
-export type DriftAnchorReason = 'plan' | 'other_date' | 'late';
+export type DriftAnchorReason = 'plan' | 'other_date' | 'late' | 'early';
 
 /** Where the planned times of a live session start. */
 export interface DriftAnchor {
-  /** The planned start of the first item, in minutes since midnight of the day the session started. */
+  /** Where the plan's first item is taken to start, in minutes since midnight of the day the session started. */
   anchorMin: number;
   reason: DriftAnchorReason;
-  /** How late the first item started against the plan (0 unless `reason` is `'late'`). */
+  /** How late the first run item started against the plan (0 unless `reason` is `'late'`). */
   lateMin: number;
+  /** How early the first run item started against the plan (0 unless `reason` is `'early'`). */
+  earlyMin: number;
   /**
    * How far pinned clock times move: 0 on the workshop's date (lunch pinned at 12:30 stays at 12:30
-   * when the day started late: the buffer before it takes the late minutes), the whole shift on another
-   * date (a rehearsal keeps the day's shape).
+   * when the day started late or early: the buffer before it takes the difference), the whole shift on
+   * another date (a rehearsal keeps the day's shape).
    */
   pinnedShiftMin: number;
 }
 
 /**
- * Where the planned times of a live session are anchored: at the plan's own start (the day window)
- * when the session runs on the workshop's date and its first item started on time or early; at the
- * moment the first item actually started when the session runs on another date (a rehearsal the
- * evening before) or started late, so drift measures the session against its own clock, never
- * against the time of day on another date.
+ * Where the planned times of a live session are anchored, so drift compares the time the activities
+ * took with their planned timeboxes from the session's actual start: at the plan's own start (the day
+ * window) when the session runs on the workshop's date and its first item started on time (within the
+ * grace); else at the moment the first item actually started, less the planned minutes before that item
+ * (a rehearsal that begins at the sketching still measures the sketching against its own timebox) —
+ * whether it runs on another date (a rehearsal the evening before), starts late, or starts early (a try
+ * at 07:16 on the day is not "164 min ahead of plan"). Never against the time of day on another date.
  * @example driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-14', startedMin: 612 })
- *   // { anchorMin: 612, reason: 'late', lateMin: 12 }
- * Refuses minutes (the window's start, the start, the grace) that are not finite numbers.
+ *   // { anchorMin: 612, reason: 'late', lateMin: 12, earlyMin: 0, pinnedShiftMin: 0 }
+ * Refuses minutes (the window's start, the start, the offset, the grace) that are not finite numbers.
  */
 export function driftAnchor(input: {
   workshopDate: string;
@@ -302,16 +307,21 @@ export function driftAnchor(input: {
   startedDate: string;
   /** When the first item started, minutes since midnight of `startedDate`. */
   startedMin: number;
-  /** Lateness below this many minutes counts as on time (default 1). */
+  /** Planned minutes from the window's start to the start of the item the session ran first (default 0: the first item). */
+  firstItemOffsetMin?: number;
+  /** A difference below this many minutes counts as on time (default 1). */
   graceMin?: number;
 }): DriftAnchor {
   finite('The window’s start', input.windowStartMin);
   finite('The start', input.startedMin);
+  const offset = finite('The offset of the first item run', input.firstItemOffsetMin ?? 0);
   const grace = finite('The grace', input.graceMin ?? 1);
+  const anchorMin = input.startedMin - offset;
   if (input.startedDate !== input.workshopDate) {
-    return { anchorMin: input.startedMin, reason: 'other_date', lateMin: 0, pinnedShiftMin: input.startedMin - input.windowStartMin };
+    return { anchorMin, reason: 'other_date', lateMin: 0, earlyMin: 0, pinnedShiftMin: anchorMin - input.windowStartMin };
   }
-  const late = input.startedMin - input.windowStartMin;
-  if (late >= grace) return { anchorMin: input.startedMin, reason: 'late', lateMin: late, pinnedShiftMin: 0 };
-  return { anchorMin: input.windowStartMin, reason: 'plan', lateMin: 0, pinnedShiftMin: 0 };
+  const late = anchorMin - input.windowStartMin;
+  if (late >= grace) return { anchorMin, reason: 'late', lateMin: late, earlyMin: 0, pinnedShiftMin: 0 };
+  if (-late >= grace) return { anchorMin, reason: 'early', lateMin: 0, earlyMin: -late, pinnedShiftMin: 0 };
+  return { anchorMin: input.windowStartMin, reason: 'plan', lateMin: 0, earlyMin: 0, pinnedShiftMin: 0 };
 }

@@ -333,18 +333,47 @@ describe('drift around an item pinned to a clock time', () => {
 
 describe('driftAnchor', () => {
   // Worked by hand: the window starts at 10:00 (600 min); Cairn's own rule (issue of a rehearsal the evening before).
-  it('keeps the plan when the session runs on the workshop date and starts on time or early', () => {
-    expect(driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-14', startedMin: 600 })).toEqual({ anchorMin: 600, reason: 'plan', lateMin: 0, pinnedShiftMin: 0 });
-    expect(driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-14', startedMin: 585 })).toEqual({ anchorMin: 600, reason: 'plan', lateMin: 0, pinnedShiftMin: 0 });
+  it('keeps the plan when the session runs on the workshop date and starts on time', () => {
+    expect(driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-14', startedMin: 600 })).toEqual({ anchorMin: 600, reason: 'plan', lateMin: 0, earlyMin: 0, pinnedShiftMin: 0 });
+    expect(driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-14', startedMin: 600.5 })).toEqual({ anchorMin: 600, reason: 'plan', lateMin: 0, earlyMin: 0, pinnedShiftMin: 0 });
+  });
+
+  it('anchors at the first start when the session starts early on the day', () => {
+    expect(driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-14', startedMin: 585 })).toEqual({ anchorMin: 585, reason: 'early', lateMin: 0, earlyMin: 15, pinnedShiftMin: 0 });
+  });
+
+  it('reads no huge drift for a try at 07:16 on the day: the reported "164 min ahead of plan"', () => {
+    // Started at 07:16, 10:00 planned: by the time of day that is 164 min early, and the console read
+    // "164 min ahead". From the session's own start, 5 min into A (25 left), it runs on plan.
+    const anchor = driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-14', startedMin: 436 });
+    expect(anchor).toMatchObject({ anchorMin: 436, reason: 'early', earlyMin: 164 });
+    const d = computeDrift({ items: SIMPLE, window: WINDOW, currentIndex: 0, currentStartedAtMin: 436, currentRemainingMin: 25, nowMin: 441, anchorMin: anchor.anchorMin, pinnedShiftMin: anchor.pinnedShiftMin });
+    expect(d).toMatchObject({ plannedStartMin: 436, startedLateMin: 0, driftMin: 0, projectedEnd: '08:46' });
+    // Without the anchor (drift by the time of day) it reads 164 min ahead.
+    const byClock = computeDrift({ items: SIMPLE, window: WINDOW, currentIndex: 0, currentStartedAtMin: 436, currentRemainingMin: 25, nowMin: 441 });
+    expect(byClock.driftMin).toBe(-164);
+  });
+
+  it("measures a rehearsal that begins at a later item against that item's own planned time", () => {
+    // A rehearsal at 23:00 that starts with C (planned 10:50, 50 min after the window's start): C is
+    // planned 23:00–23:40; 10 min in with 30 left it is on plan, not "50 min ahead".
+    const anchor = driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-13', startedMin: 1380, firstItemOffsetMin: 50 });
+    expect(anchor).toEqual({ anchorMin: 1330, reason: 'other_date', lateMin: 0, earlyMin: 0, pinnedShiftMin: 730 });
+    const d = computeDrift({ items: SIMPLE, window: WINDOW, currentIndex: 2, currentStartedAtMin: 1380, currentRemainingMin: 30, nowMin: 1390, anchorMin: anchor.anchorMin, pinnedShiftMin: anchor.pinnedShiftMin });
+    expect(d).toMatchObject({ plannedStartMin: 1380, startedLateMin: 0, driftMin: 0, projectedEnd: '23:40', overrunMin: 0 });
+    // 10 min over on C: 10 min behind, whatever the time of day.
+    expect(computeDrift({ items: SIMPLE, window: WINDOW, currentIndex: 2, currentStartedAtMin: 1380, currentRemainingMin: -10, nowMin: 1430, anchorMin: anchor.anchorMin, pinnedShiftMin: anchor.pinnedShiftMin }).driftMin).toBe(10);
+    // On the day, starting C on time at 10:50 is on plan.
+    expect(driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-14', startedMin: 650, firstItemOffsetMin: 50 })).toMatchObject({ anchorMin: 600, reason: 'plan' });
   });
 
   it('anchors at the first start when the session starts late on the day', () => {
-    expect(driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-14', startedMin: 612 })).toEqual({ anchorMin: 612, reason: 'late', lateMin: 12, pinnedShiftMin: 0 });
+    expect(driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-14', startedMin: 612 })).toEqual({ anchorMin: 612, reason: 'late', lateMin: 12, earlyMin: 0, pinnedShiftMin: 0 });
   });
 
   it('anchors at the first start on any other date, early or late in the day', () => {
-    expect(driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-13', startedMin: 23 * 60 })).toEqual({ anchorMin: 1380, reason: 'other_date', lateMin: 0, pinnedShiftMin: 780 });
-    expect(driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-20', startedMin: 480 })).toEqual({ anchorMin: 480, reason: 'other_date', lateMin: 0, pinnedShiftMin: -120 });
+    expect(driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-13', startedMin: 23 * 60 })).toEqual({ anchorMin: 1380, reason: 'other_date', lateMin: 0, earlyMin: 0, pinnedShiftMin: 780 });
+    expect(driftAnchor({ workshopDate: '2026-05-14', windowStartMin: 600, startedDate: '2026-05-20', startedMin: 480 })).toEqual({ anchorMin: 480, reason: 'other_date', lateMin: 0, earlyMin: 0, pinnedShiftMin: -120 });
   });
 
   it('measures a rehearsal at 23:00 against its own start, not the time of day', () => {
