@@ -1,6 +1,12 @@
 import type { ActivitySettings, ActivityType, AgendaItem, Criterion, Phase } from './schemas/agenda-item';
 import type { SubmissionInput } from './schemas/live';
 import { atLeast } from './numbers';
+import { CLOSING_PARTS, EMPATHY_MAP_PARTS, FEEDBACK_GRID_PARTS, INTERVIEW_PARTS, PAINS_AND_GAINS_PARTS, type NotePart } from './notes';
+
+/** The kinds of vote Cairn runs; each is the activity type of the same name (the library's `vote` trait). */
+export const VOTE_KINDS = ['dot_vote', 'preference_vote', 'team_sort'] as const satisfies readonly ActivityType[];
+/** A kind of vote, e.g. `'dot_vote'`. */
+export type VoteKindName = (typeof VOTE_KINDS)[number];
 
 /** Everything Cairn can put on a packing list, in the list's order (plain data, no zod: the phone's code imports this file). */
 export const MATERIAL_KEYS = [
@@ -99,6 +105,25 @@ export interface ActivityDefinition {
   movement: boolean;
   /** The kinds of note phones may send to it; none for a talk, a break or a vote (votes go as ballots). */
   noteKinds: readonly SubmissionInput['kind'][];
+  // The live traits: what the server, the console, the projector and the phone do differently for the type.
+  /** Participants meet in rotating pairs drawn by round-robin (the icebreaker and the interview share the pairing). */
+  paired: boolean;
+  /** It runs in rounds the facilitator moves through: rotating pairs, or the test rounds' visits. */
+  rounds: boolean;
+  /** Its notes belong to a team: the console sets teams up for it and a phone shows its team. */
+  teamBoard: boolean;
+  /** Teammates' phones share one board: a note goes to the team's room the moment it comes. */
+  liveTeamRoom: boolean;
+  /** The kind of note a photo becomes when phones take photos for it; `null` when it takes none. */
+  photos: 'sketch' | 'frame' | null;
+  /** Its notes stream to the console to moderate (hide, merge, themes, promote) and to the projector; true exactly when it takes notes. */
+  moderated: boolean;
+  /** The vote it runs, so its screens are the voting ones and phones send ballots; `null` for every other activity. */
+  vote: VoteKindName | null;
+  /** The parts its notes are filed under; empty when its notes stand alone. */
+  noteParts: readonly NotePart[];
+  /** Parts added to `noteParts` while a setting of the item is on (the empathy map's pains and gains). */
+  extraParts: { setting: 'painsAndGains'; parts: readonly NotePart[] } | null;
   materials: MaterialRule[];
   description: string;
 }
@@ -154,15 +179,28 @@ const refreshments = (snackWhy: string, waterWhy: string): MaterialRule[] => [
   { item: 'water', per: 'person', quantity: 1, source: PRACTICE, why: waterWhy, onlyIfSetting: 'snacks' },
 ];
 
-function activity(
-  def: Omit<ActivityDefinition, 'minTimeboxMin' | 'talkOnly' | 'isBreak' | 'movement' | 'noteKinds'> &
-    Partial<Pick<ActivityDefinition, 'minTimeboxMin' | 'talkOnly' | 'isBreak' | 'movement' | 'noteKinds'>>,
-): ActivityDefinition {
+/** The fields an activity may leave out, taking the usual value (no notes, no pairs, no rounds, …). */
+type Defaulted =
+  | 'minTimeboxMin' | 'talkOnly' | 'isBreak' | 'movement' | 'noteKinds' | 'paired' | 'rounds' | 'teamBoard'
+  | 'liveTeamRoom' | 'photos' | 'moderated' | 'vote' | 'noteParts' | 'extraParts';
+
+function activity(def: Omit<ActivityDefinition, Defaulted> & Partial<Pick<ActivityDefinition, Defaulted>>): ActivityDefinition {
+  const noteKinds = def.noteKinds ?? [];
   return {
     talkOnly: false,
     isBreak: false,
     movement: false,
-    noteKinds: [],
+    noteKinds,
+    paired: false,
+    rounds: false,
+    teamBoard: false,
+    liveTeamRoom: false,
+    photos: null,
+    // An activity that takes notes streams them to the console for moderation; the icebreaker only shows pairs.
+    moderated: noteKinds.length > 0,
+    vote: null,
+    noteParts: [],
+    extraParts: null,
     minTimeboxMin: defaultMinTimebox(def.defaultTimeboxMin),
     ...def,
   };
@@ -183,6 +221,8 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
   }),
   icebreaker: activity({
     type: 'icebreaker',
+    paired: true,
+    rounds: true,
     label: 'Icebreaker',
     phase: 'opening',
     defaultTimeboxMin: 15,
@@ -198,6 +238,9 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
   }),
   interview: activity({
     type: 'interview',
+    paired: true,
+    rounds: true,
+    noteParts: INTERVIEW_PARTS,
     noteKinds: ['note'],
     label: 'Interview',
     phase: 'empathize',
@@ -217,6 +260,10 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
   }),
   empathy_map: activity({
     type: 'empathy_map',
+    teamBoard: true,
+    liveTeamRoom: true,
+    noteParts: EMPATHY_MAP_PARTS,
+    extraParts: { setting: 'painsAndGains', parts: PAINS_AND_GAINS_PARTS },
     noteKinds: ['note'],
     label: 'Empathy map',
     phase: 'empathize',
@@ -280,6 +327,7 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
   }),
   dot_vote: activity({
     type: 'dot_vote',
+    vote: 'dot_vote',
     label: 'Dot vote',
     phase: 'ideate',
     defaultTimeboxMin: 10,
@@ -295,6 +343,7 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
   }),
   preference_vote: activity({
     type: 'preference_vote',
+    vote: 'preference_vote',
     label: 'Preference vote',
     phase: 'ideate',
     defaultTimeboxMin: 10,
@@ -305,6 +354,7 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
   }),
   team_sort: activity({
     type: 'team_sort',
+    vote: 'team_sort',
     label: 'Team sort',
     phase: 'ideate',
     defaultTimeboxMin: 10,
@@ -315,6 +365,8 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
   }),
   sketch: activity({
     type: 'sketch',
+    teamBoard: true,
+    photos: 'sketch',
     noteKinds: ['sketch', 'feedback'],
     label: 'Quick sketches',
     phase: 'ideate',
@@ -336,6 +388,9 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
   }),
   storyboard: activity({
     type: 'storyboard',
+    teamBoard: true,
+    liveTeamRoom: true,
+    photos: 'frame',
     noteKinds: ['frame'],
     label: 'Storyboard',
     phase: 'prototype',
@@ -352,6 +407,9 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
   }),
   test_rounds: activity({
     type: 'test_rounds',
+    rounds: true,
+    teamBoard: true,
+    noteParts: FEEDBACK_GRID_PARTS,
     noteKinds: ['feedback'],
     label: 'Test rounds',
     phase: 'test',
@@ -423,6 +481,7 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
   }),
   closing: activity({
     type: 'closing',
+    noteParts: CLOSING_PARTS,
     noteKinds: ['reflection'],
     label: 'Closing',
     phase: 'closing',
@@ -436,6 +495,45 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
     description: 'What happens next, and a short reflection from everyone.',
   }),
 };
+
+/** The activity types of which a trait holds, in the library's order. */
+function typesWhere(holds: (def: ActivityDefinition) => boolean): ReadonlySet<ActivityType> {
+  return new Set(Object.values(ACTIVITY_LIBRARY).filter(holds).map((d) => d.type));
+}
+
+/** Activities whose pairs rotate by round-robin (the library's `paired`). */
+export const PAIRED_TYPES = typesWhere((d) => d.paired);
+/** Activities that run in rounds (the library's `rounds`). */
+export const ROUND_TYPES = typesWhere((d) => d.rounds);
+/** Activities whose notes belong to a team (the library's `teamBoard`). */
+export const TEAM_TYPES = typesWhere((d) => d.teamBoard);
+/** Activities whose teammates share a board as notes come (the library's `liveTeamRoom`). */
+export const LIVE_TEAM_TYPES = typesWhere((d) => d.liveTeamRoom);
+/** Activities whose phones take photos (the library's `photos`). */
+export const PHOTO_TYPES = typesWhere((d) => d.photos !== null);
+/** Activities whose notes are moderated on the console and shown on the projector (the library's `moderated`). */
+export const MODERATED_TYPES = typesWhere((d) => d.moderated);
+/** Activities that run a vote, whose screens are the voting ones (the library's `vote`). */
+export const VOTE_TYPES = typesWhere((d) => d.vote !== null);
+
+/**
+ * Whether an activity type runs a vote; narrows the type to its vote kind.
+ * @example isVoteType('team_sort') // true
+ */
+export function isVoteType(type: string): type is VoteKindName {
+  return (ACTIVITY_LIBRARY as Record<string, ActivityDefinition | undefined>)[type]?.vote != null;
+}
+
+/**
+ * The parts an activity's notes are filed under (with the extra parts its settings turn on); empty for
+ * activities whose notes stand alone.
+ * @example notePartsFor('empathy_map', { painsAndGains: true }).length // 6
+ */
+export function notePartsFor(type: ActivityType, settings: ActivitySettings): readonly NotePart[] {
+  const def = ACTIVITY_LIBRARY[type];
+  const extra = def.extraParts;
+  return extra && settings[extra.setting] ? [...def.noteParts, ...extra.parts] : def.noteParts;
+}
 
 /**
  * Why a phone's note of a kind cannot go to an activity of a type, or `null` when it can: a talk, a

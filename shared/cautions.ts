@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { ACTIVITY_LIBRARY } from './activities';
+import { ACTIVITY_LIBRARY, PHOTO_TYPES } from './activities';
 import type { AgendaItem } from './schemas/agenda-item';
 import { whole } from './numbers';
 
@@ -15,9 +15,6 @@ export interface Caution {
   text: string;
   itemIds: string[];
 }
-
-// Activity types whose phones upload photos of paper work.
-const PHOTO_TYPES = new Set<AgendaItem['type']>(['sketch', 'storyboard']);
 
 /**
  * The cautions a plan raises: food at breaks, movement in icebreakers, the room itself (always,

@@ -4,7 +4,8 @@ import { SubmissionInput } from './live';
 
 // The parts, guided sentences and limits live in a file without zod, which the phone's code imports.
 export * from '../notes';
-import { ACTIVITY_LIMITS, GUIDED_SENTENCES, type GuidedKind } from '../notes';
+import { ACTIVITY_LIMITS } from '../notes';
+import { GUIDED_SENTENCES, type GuidedKind } from '../guided';
 
 /** The fields of a guided sentence as the server accepts them: exactly its fields, each filled and within the limit. */
 export function guidedFieldsSchema(kind: GuidedKind): z.ZodType<Record<string, string>> {

@@ -2,9 +2,10 @@ import { z } from 'zod';
 import { Criterion } from './agenda-item';
 import { OVERALL_CRITERION } from '../tally';
 import { MATRIX_RANKING } from '../matrix';
+import { VOTE_KINDS } from '../activities';
 
-/** The activity types that are votes: a dot vote, a preference vote (Cairn's) and a team sort (Cairn's). */
-export const VoteKind = z.enum(['dot_vote', 'preference_vote', 'team_sort']);
+/** The activity types that are votes: a dot vote, a preference vote (Cairn's) and a team sort (Cairn's); declared in the activity library. */
+export const VoteKind = z.enum(VOTE_KINDS);
 /** A kind of vote, e.g. `'dot_vote'`. */
 export type VoteKind = z.infer<typeof VoteKind>;
 

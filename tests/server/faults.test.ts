@@ -1,4 +1,4 @@
-import { notePartsFor } from '../../shared/schemas/activities';
+import { notePartsFor } from '../../shared/activities';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs/promises';
 import os from 'node:os';

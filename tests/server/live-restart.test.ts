@@ -1,4 +1,4 @@
-import { notePartsFor } from '../../shared/schemas/activities';
+import { notePartsFor } from '../../shared/activities';
 import fs from 'node:fs/promises';
 import os from 'node:os';
 import path from 'node:path';

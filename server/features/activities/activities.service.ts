@@ -7,14 +7,11 @@ import { liveRooms, type LiveIo, type LiveService } from '../live/live.service';
 import { photoCleared } from './photos.service';
 import { pairsForRound, roundRobinLength, testRotation } from '../../../shared/rotations';
 import { fieldErrors } from '../../../shared/errors';
-import { noteRefusal, storyKey, storyOwner } from '../../../shared/activities';
+import { LIVE_TEAM_TYPES, MODERATED_TYPES, PAIRED_TYPES, ROUND_TYPES, notePartsFor, noteRefusal, storyKey, storyOwner } from '../../../shared/activities';
 import type { ActivityType } from '../../../shared/schemas/agenda-item';
 import type { SubmissionInput, SubmissionView } from '../../../shared/schemas/live';
 import {
-  PAIRED_TYPES,
-  ROUND_TYPES,
   guidedFieldsSchema,
-  notePartsFor,
   type ActivityBoard,
   type NoteView,
   type PersonRef,
@@ -30,26 +27,6 @@ export type Viewer = { kind: 'console' } | { kind: 'room' } | { kind: 'phone'; p
 
 /** Changes to one item within this window are announced together, so a room typing at once costs a few broadcasts. */
 const CHANGE_TICK_MS = 250;
-
-/** The activity types whose notes and rules this feature owns (votes and breaks are someone else's). */
-const NOTE_TYPES: ReadonlySet<string> = new Set([
-  'icebreaker',
-  'interview',
-  'empathy_map',
-  'insights',
-  'point_of_view',
-  'how_might_we',
-  'sketch',
-  'storyboard',
-  'test_rounds',
-  'closing',
-]);
-
-/** Teams whose phones share a board: their notes go to the team's room as they come. */
-const LIVE_TEAM_TYPES: ReadonlySet<string> = new Set(['empathy_map', 'storyboard']);
-
-/** Whose story a storyboard frame belongs to: its team, or its author when they had none. */
-const storyKeyOf = storyKey;
 
 const refuse = (message: string) => new AppError(400, 'bad_request', message);
 
@@ -114,7 +91,7 @@ export class ActivitiesService {
     // A talk, a break or a vote takes no notes at all; every other activity only its own kinds.
     const refusal = noteRefusal(item.type as ActivityType, input.kind);
     if (refusal) throw refuse(refusal);
-    if (!NOTE_TYPES.has(item.type)) return;
+    if (!MODERATED_TYPES.has(item.type as ActivityType)) return;
     const type = item.type as ActivityType;
     const parts = notePartsFor(type, item.settings);
     // An activity with parts files every note under one (the phone always offers them); one without takes none.
@@ -196,12 +173,12 @@ export class ActivitiesService {
   private async afterSubmission(view: SubmissionView): Promise<void> {
     const { AgendaItem, Submission } = this.ctx.db.models;
     const item = await AgendaItem.findByPk(view.itemId, { attributes: ['id', 'type'] });
-    if (!item || !NOTE_TYPES.has(item.type)) return;
+    if (!item || !MODERATED_TYPES.has(item.type as ActivityType)) return;
     const row = await Submission.findByPk(view.id);
     if (!row) return;
     const sessionId = row.sessionId;
     const rooms = [liveRooms.facilitators(sessionId), liveRooms.screens(sessionId)];
-    if (LIVE_TEAM_TYPES.has(item.type) && row.teamId && this.io) {
+    if (LIVE_TEAM_TYPES.has(item.type as ActivityType) && row.teamId && this.io) {
       // As a teammate's phone sees it: named, and a photo blurred unless cleared.
       const [note] = await this.notesFor(sessionId, [row], { kind: 'phone', participantId: '' });
       if (note) this.io.to(liveRooms.team(row.teamId)).emit('notes:added', note);
@@ -253,7 +230,7 @@ export class ActivitiesService {
         if (r.participantId === me) return true;
         if (r.mergedIntoId) return false;
         if (r.hidden) return false;
-        if (LIVE_TEAM_TYPES.has(item.type)) return sameTeam(r);
+        if (LIVE_TEAM_TYPES.has(item.type as ActivityType)) return sameTeam(r);
         if (r.kind === 'sketch') return true;
         if (r.kind === 'feedback' && r.fields?.sketchId) {
           const sketch = byId.get(r.fields.sketchId);
@@ -491,7 +468,7 @@ export class ActivitiesService {
     const { Submission } = this.ctx.db.models;
     const order = await this.ctx.db.writeTx(async (transaction) => {
       const frames = (await Submission.findAll({ where: { sessionId, itemId, kind: 'frame' }, order: [['createdAt', 'ASC']], transaction })).filter(
-        (f) => storyKeyOf(f) === key && !f.mergedIntoId,
+        (f) => storyKey(f) === key && !f.mergedIntoId,
       );
       const known = new Set(frames.map((f) => f.id));
       if (frameIds.some((id) => !known.has(id))) throw refuse('Those frames are not all in this storyboard');
@@ -672,7 +649,7 @@ export class ActivitiesService {
         text: r.text,
         fields: r.fields,
         teamId: r.teamId,
-        storyKey: storyKeyOf(r),
+        storyKey: storyKey(r),
         themeId: r.themeId,
         mergedIntoId: r.mergedIntoId ?? null,
         duplicates: nc.duplicates.get(r.id) ?? 0,

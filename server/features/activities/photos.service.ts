@@ -7,7 +7,8 @@ import type { AppContext } from '../../context';
 import type { PhotoRow } from '../../db/models';
 import { AppError, errors } from '../../common/errors';
 import { inputGate, type LiveService } from '../live/live.service';
-import { ACTIVITY_LIMITS, PHOTO_TYPES, type PhotoUploadAnswer, type PhotoUploadFields } from '../../../shared/schemas/activities';
+import { ACTIVITY_LIBRARY } from '../../../shared/activities';
+import { ACTIVITY_LIMITS, type PhotoUploadAnswer, type PhotoUploadFields } from '../../../shared/schemas/activities';
 import type { ActivityType } from '../../../shared/schemas/agenda-item';
 
 /** The picture formats Cairn takes, told apart by their first bytes. */
@@ -120,7 +121,8 @@ export class PhotosService {
     const refused = inputGate(session, Boolean(participant && session));
     if (refused || !session) throw refused;
     if (!item || item.workshopId !== session.workshopId) throw errors.notFound('That agenda item');
-    if (!PHOTO_TYPES.has(item.type as ActivityType)) throw errors.badRequest('This activity does not take photos');
+    const photoKind = ACTIVITY_LIBRARY[item.type as ActivityType].photos;
+    if (!photoKind) throw errors.badRequest('This activity does not take photos');
     const tooMany = (mine: number) =>
       errors.badRequest(`You have added ${mine} photos to this activity, the most one person can; ask the facilitator to hide some`);
     const mine = await Photo.count({ where: { participantId, itemId: item.id } });
@@ -167,7 +169,7 @@ export class PhotosService {
       const made = await this.live.createSubmission(participantId, sessionId, {
         clientId: fields.clientId,
         itemId: item.id,
-        kind: item.type === 'sketch' ? 'sketch' : 'frame',
+        kind: photoKind,
         text: fields.caption,
         fields: { photoId: photo.id },
       });

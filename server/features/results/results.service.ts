@@ -8,11 +8,11 @@ import { selectSessions, sessionName, type SessionSelector } from '../../../shar
 import { competitionRanks, OVERALL_CRITERION } from '../../../shared/tally';
 import { MATRIX_RANKING, quadrantName, rankingName } from '../../../shared/matrix';
 import type { AgendaItem } from '../../../shared/schemas/agenda-item';
-import { FEEDBACK_GRID_PARTS, PHOTO_TYPES } from '../../../shared/schemas/activities';
-import { VoteKind, type VoteResults } from '../../../shared/schemas/voting';
+import { FEEDBACK_GRID_PARTS } from '../../../shared/schemas/activities';
+import type { VoteResults } from '../../../shared/schemas/voting';
 import { METHOD_LABELS } from '../../../shared/preference';
 import { showPrompt } from '../../../shared/templates';
-import { storyKey } from '../../../shared/activities';
+import { ACTIVITY_LIBRARY, isVoteType, storyKey } from '../../../shared/activities';
 import type {
   ActivityResult,
   AgendaRunRow,
@@ -151,9 +151,6 @@ export const feedbackProvider: ActivityProvider = (item, input) => {
   ];
 };
 
-/** The key a storyboard is kept under: its team, or its author when they had none (as the activity keeps frame orders). */
-const storyKeyOf: (n: Pick<NoteResult, 'teamId' | 'participantId'>) => string = storyKey;
-
 /** The workshop's photos, each with whether it may be shown (consent honoured), read once per build. */
 function photosOf(input: ResultsInput): Promise<{ row: PhotoRow; shown: boolean }[]> {
   return input.memo('photos', async () => {
@@ -178,12 +175,12 @@ export const storyboardProvider: ActivityProvider = async (item, input) => {
   ]);
   const shown = new Set(photos.filter((p) => p.shown).map((p) => p.row.id));
   const orders: Record<string, string[]> = Object.assign({}, ...states.filter((st) => st.itemId === item.id).map((st) => st.frameOrders));
-  const keys = [...new Set(frames.map(storyKeyOf))];
+  const keys = [...new Set(frames.map(storyKey))];
   return [
     {
       kind: 'storyboards',
       boards: keys.map((key) => {
-        const mine = frames.filter((f) => storyKeyOf(f) === key);
+        const mine = frames.filter((f) => storyKey(f) === key);
         const order = orders[key] ?? [];
         const at = (id: string) => (order.includes(id) ? order.indexOf(id) : order.length);
         mine.sort((a, b) => at(a.id) - at(b.id) || a.createdAt - b.createdAt);
@@ -203,7 +200,7 @@ export const storyboardProvider: ActivityProvider = async (item, input) => {
 
 /** Photos of sketches: each with its caption, team, author and the feedback it got; pictures only where consent allows. */
 export const sketchPhotosProvider: ActivityProvider = async (item, input) => {
-  if (!PHOTO_TYPES.has(item.type) || item.type === 'storyboard') return [];
+  if (ACTIVITY_LIBRARY[item.type].photos !== 'sketch') return [];
   const sketches = input.notes.filter((n) => n.itemId === item.id && n.kind === 'sketch' && n.fields?.photoId);
   if (sketches.length === 0) return [];
   const photos = new Map((await photosOf(input)).map((p) => [p.row.id, p]));
@@ -341,7 +338,7 @@ function voteResultsOf(input: ResultsInput): Promise<VoteResults[]> {
 
 /** Vote results of an activity: dot votes (ranks, ties, criteria matrix), preference votes (both methods, pairwise table), team sorts. */
 export const votesProvider: ActivityProvider = async (item, input) => {
-  if (!VoteKind.safeParse(item.type).success) return [];
+  if (!isVoteType(item.type)) return [];
   return (await voteResultsOf(input)).filter((v) => v.itemId === item.id).map(voteSection);
 };
 
@@ -466,7 +463,7 @@ function participationOf(input: ResultsInput, votes: VoteResults[]): Participati
       const voted = mine.reduce((sum, v) => sum + v.participation.voted, 0);
       const contributors = Math.max(voted, new Set(notes.map((n) => n.participantId)).size);
       // A vote's contributions are its ballots, not notes: counting its notes would read "0 notes" beside "3 of 3 voted".
-      const ballots = VoteKind.safeParse(item.type).success ? voted : null;
+      const ballots = isVoteType(item.type) ? voted : null;
       return { itemId: item.id, title: item.title, contributors, notes: notes.length, ballots, rate: joined === 0 ? 0 : Math.min(1, contributors / joined) };
     })
     .filter((a) => a.notes > 0 || a.contributors > 0);

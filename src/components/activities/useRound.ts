@@ -1,5 +1,5 @@
 import { ref, watch, type Ref } from 'vue';
-import { ROUND_TYPES } from '../../../shared/notes';
+import { ROUND_TYPES } from '../../../shared/activities';
 import type { RoundView } from '../../../shared/schemas/activities';
 import type { LiveItem } from '../../../shared/schemas/live';
 import type { ActivityChannel } from './useActivityChannel';
