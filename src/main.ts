@@ -9,9 +9,10 @@ import 'quasar/dist/quasar.css';
 import './css/app.css';
 import App from './App.vue';
 import { createCairnRouter } from './router';
-import { LIGHT } from './theme/palette';
+import { LIGHT, PROJECTOR, applyPalette } from './theme/palette';
 import { i18n } from './i18n';
 
+applyPalette(document.documentElement.style);
 const app = createApp(App);
 app.use(createPinia());
 app.use(Quasar, {
@@ -22,11 +23,11 @@ app.use(Quasar, {
       primary: LIGHT.primary,
       secondary: LIGHT.sand,
       accent: LIGHT.accent,
-      dark: '#0e2a28',
+      dark: PROJECTOR.surface,
       positive: LIGHT.positive,
       negative: LIGHT.negative,
       info: LIGHT.info,
-      warning: '#e0a526',
+      warning: LIGHT.warningMark,
     },
     notify: { position: 'top' },
   },

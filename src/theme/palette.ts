@@ -15,6 +15,27 @@ export const LIGHT = {
   negative: '#a3261b',
   warning: '#8a5a00',
   info: '#1f5673',
+  /** Text and icons on a teal or coral fill. */
+  onPrimary: '#ffffff',
+  /** A tint of teal behind the current item and the moderator's picks. */
+  primaryTint: '#e4f1ef',
+  /** A faint coral behind cautions. */
+  accentTint: '#fff8f5',
+  /** The amber of warning stripes and marks (not for text). */
+  warningMark: '#e0a526',
+  warningBg: '#fff4dc',
+  warningInk: '#4a3200',
+  positiveBg: '#dcefe0',
+  positiveInk: '#1f4d26',
+  negativeBg: '#fde2dc',
+  negativeInk: '#7a1d10',
+  /** The offline banner's deeper red: it must read at a glance on a phone in a bright room. */
+  negativeDeep: '#5c160c',
+  /** Lines and frames on sand and white. */
+  line: '#d8cdb8',
+  lineLight: '#e4dccd',
+  /** The outline of something absent or off (a phone that left), 3:1 against white for a graphic. */
+  neutral: '#6b6b6b',
 } as const;
 
 /** Cairn's high-contrast dark palette for the projector (read at 8 m). */
@@ -26,7 +47,28 @@ export const PROJECTOR = {
   teal: '#7fdccf',
   sand: '#ecdcc0',
   coral: '#ff9f8a',
+  /** Frames on projector cards. */
+  line: '#3a5a57',
 } as const;
+
+const kebab = (name: string): string => name.replace(/[A-Z]/g, (c) => `-${c.toLowerCase()}`);
+
+/**
+ * Every palette colour as a CSS custom property: `--cairn-<name>` for the light palette and
+ * `--cairn-projector-<name>` for the projector's; components take their colours only from these.
+ * @example cssVariables()['--cairn-primary'] // '#0b5d5b'
+ */
+export function cssVariables(): Record<string, string> {
+  return {
+    ...Object.fromEntries(Object.entries(LIGHT).map(([k, v]) => [`--cairn-${kebab(k)}`, v])),
+    ...Object.fromEntries(Object.entries(PROJECTOR).map(([k, v]) => [`--cairn-projector-${kebab(k)}`, v])),
+  };
+}
+
+/** Writes every palette variable onto an element's style (the document's root at start-up), so `var(--cairn-…)` resolves everywhere below it. */
+export function applyPalette(style: Pick<CSSStyleDeclaration, 'setProperty'>): void {
+  for (const [name, value] of Object.entries(cssVariables())) style.setProperty(name, value);
+}
 
 /** Cairn's own dot palette for criteria, declared in shared/ so the PDF draws the same marks. */
 export { CRITERION_MARKS } from '../../shared/marks';
@@ -43,20 +85,20 @@ export const TEXT_PAIRS: [string, string, string][] = [
   [LIGHT.text, LIGHT.surface, 'body text on cards'],
   [LIGHT.muted, LIGHT.background, 'secondary text on the page'],
   [LIGHT.muted, LIGHT.surface, 'secondary text on cards'],
-  ['#ffffff', LIGHT.primary, 'button text on teal'],
-  ['#ffffff', LIGHT.accent, 'button text on coral'],
+  [LIGHT.onPrimary, LIGHT.primary, 'button text on teal'],
+  [LIGHT.onPrimary, LIGHT.accent, 'button text on coral'],
   [LIGHT.primary, LIGHT.surface, 'teal links and headings on cards'],
   [LIGHT.primary, LIGHT.background, 'teal headings on the page'],
   [LIGHT.primaryDark, LIGHT.sand, 'text on sand chips'],
   [LIGHT.text, LIGHT.sandLight, 'text on the sand header'],
   [LIGHT.negative, LIGHT.surface, 'error messages'],
-  [LIGHT.warning, '#fff4dc', 'warning text on its banner'],
+  [LIGHT.warning, LIGHT.warningBg, 'warning text on its banner'],
   [LIGHT.accent, LIGHT.surface, 'coral countdown on cards'],
-  ['#1f4d26', '#dcefe0', 'connected chip'],
-  ['#7a1d10', '#fde2dc', 'reconnecting chip'],
-  ['#5c160c', '#fde2dc', 'offline banner on phones'],
-  ['#4a3200', '#fff4dc', 'shortening suggestion on the console'],
-  [LIGHT.text, '#e4f1ef', 'current item on the console timeline'],
+  [LIGHT.positiveInk, LIGHT.positiveBg, 'connected chip'],
+  [LIGHT.negativeInk, LIGHT.negativeBg, 'reconnecting chip'],
+  [LIGHT.negativeDeep, LIGHT.negativeBg, 'offline banner on phones'],
+  [LIGHT.warningInk, LIGHT.warningBg, 'shortening suggestion on the console'],
+  [LIGHT.text, LIGHT.primaryTint, 'current item on the console timeline'],
   [PROJECTOR.text, PROJECTOR.background, 'projector text'],
   [PROJECTOR.muted, PROJECTOR.background, 'projector secondary text'],
   [PROJECTOR.teal, PROJECTOR.background, 'projector headings'],
@@ -65,7 +107,7 @@ export const TEXT_PAIRS: [string, string, string][] = [
   [PROJECTOR.text, PROJECTOR.surface, 'projector text on cards'],
   // A letter on the sticker's colour is drawn in the paper's colour; a letter on the paper in the sticker's.
   ...CRITERION_MARKS.map((m): [string, string, string] =>
-    MARK_LETTER[m.shape].on === 'mark' ? ['#ffffff', m.colour, `criterion letter ${m.letter} on its mark`] : [m.colour, '#ffffff', `criterion letter ${m.letter} inside its mark`],
+    MARK_LETTER[m.shape].on === 'mark' ? [LIGHT.surface, m.colour, `criterion letter ${m.letter} on its mark`] : [m.colour, LIGHT.surface, `criterion letter ${m.letter} inside its mark`],
   ),
   ...CRITERION_MARKS.map((m, i): [string, string, string] => {
     const colour = PROJECTOR_MARK_COLOURS[i]!;

@@ -36,7 +36,7 @@ function pointStyleOf(shape: MarkShape, colour: string, paper: string, px = 14):
 /**
  * The look of the criterion at `index` on a theme: its colour, the paper it sits on, the letter's ink,
  * chart point style, letter and sticker variant.
- * @example markOf(1, 'light') // { colour: '#b9452f', paper: '#ffffff', ink: '#b9452f', letter: 'B', shape: 'ring', ... }
+ * @example markOf(1, 'light') // { colour: CRITERION_MARKS[1].colour, paper: LIGHT.surface, ink: CRITERION_MARKS[1].colour, letter: 'B', shape: 'ring', ... }
  */
 export function markOf(index: number, theme: ChartTheme) {
   const mark = criterionMark(index);
