@@ -10,7 +10,7 @@ import type {
   VoteSources,
   VoteView,
 } from '../../shared/schemas/voting';
-import { checkBallot } from '../../shared/tally';
+import { castDot } from '../../shared/votes';
 import type { CairnSocket } from '../socket/client';
 import { newId } from '../socket/ids';
 import { ClientError } from '../api/errors';
@@ -156,19 +156,15 @@ export const useVotingStore = defineStore('voting', () => {
   }
 
   /**
-   * Adds (`+1`) or takes back (`-1`) one dot. The rule is checked here first with the same function the
-   * server runs, so a refusal shows at once; the server's answer then replaces the ballot.
+   * Adds (`+1`) or takes back (`-1`) one dot. The dot is applied here first with the same function the
+   * server runs (castDot), so a refusal shows at once; the server's answer then replaces the ballot.
    */
   async function dot(optionId: string, criterionId: string, delta: 1 | -1): Promise<void> {
     const v = vote.value;
     if (!v || !v.mine) return;
-    const dots = v.mine.dots.map((d) => ({ ...d, voterId: 'me' }));
-    const check = checkBallot(v.rules, dots, { optionId, criterionId, delta });
-    if (!check.ok) throw new ClientError(check.code, check.message);
-    const current = v.mine.dots.find((d) => d.optionId === optionId && d.criterionId === criterionId);
-    const nextDots = current
-      ? v.mine.dots.map((d) => (d === current ? { ...d, count: d.count + delta } : d)).filter((d) => d.count > 0)
-      : [...v.mine.dots, { optionId, criterionId, count: delta }];
+    const cast = castDot(v.rules, v.mine.dots.map((d) => ({ ...d, voterId: 'me' })), 'me', { optionId, criterionId, delta });
+    if (!cast.ok) throw new ClientError(cast.code, cast.message);
+    const nextDots = cast.dots.map(({ optionId: o, criterionId: c, count }) => ({ optionId: o, criterionId: c, count }));
     vote.value = { ...v, mine: { ...v.mine, dots: nextDots } };
     try {
       await send({ event: 'vote:dot', payload: { clientId: newId(), optionId, criterionId, delta } });

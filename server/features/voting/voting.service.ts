@@ -1,52 +1,34 @@
 import crypto from 'node:crypto';
-import { QueryTypes, UniqueConstraintError, type Transaction } from 'sequelize';
+import { UniqueConstraintError, type Transaction } from 'sequelize';
 import type { AppContext } from '../../context';
 import type { LiveSessionRow, VoteRow } from '../../db/models';
-import type { RawStatements } from '../../db';
 import { AppError, errors } from '../../common/errors';
 import { inputGate, liveRooms, type LiveIo, type LiveService } from '../live/live.service';
-import {
-  checkBallot,
-  criteriaMatrix,
-  criterionIds,
-  OVERALL_CRITERION,
-  participation,
-  selectTopN,
-  suggestDotsPerVoter,
-  tallyDots,
-  type BallotErrorCode,
-  type Dot,
-  type TallyRow,
-} from '../../../shared/tally';
-import { borda, schulze } from '../../../shared/preference';
-import { MATRIX_RANKING, rankByMatrix } from '../../../shared/matrix';
+import { type BallotErrorCode, type Dot } from '../../../shared/tally';
+import { castDot, rulesFor } from '../../../shared/votes';
 import { sortIntoTeams } from '../../../shared/team-sort';
 import type { SetTeamsPayload, Team } from '../../../shared/schemas/team';
 import { fieldErrors, type ErrorCode } from '../../../shared/errors';
-import type { LiveItem, LiveState, ParticipantView } from '../../../shared/schemas/live';
+import type { LiveItem, LiveState } from '../../../shared/schemas/live';
 import {
   MAX_OPTION_TEXT,
   VoteKind,
   VoteRules,
   type BallotAnswer,
   type DotPayload,
-  type DotVoteResults,
   type MyBallot,
-  type Participation,
-  type PreferenceResults,
   type ProposeTeamsPayload,
   type RankPayload,
   type TeamProposal,
-  type TeamSortResults,
   type VoteOption,
   type VoteResults,
   type VoteSetupPayload,
   type VoteSources,
   type VoteView,
 } from '../../../shared/schemas/voting';
+import { DotLedgers, receiptKey } from './dot-ledger';
+import { VoteTally } from './tally.service';
 
-/** Tallies pushed to a room at most this often: live enough for the console, cheap when a room of phones votes at once. */
-export const TALLY_INTERVAL_MS = 300;
 /** Earlier notes offered as options, newest first: enough for a day's wall, small enough for one answer. */
 const SOURCE_NOTES_LIMIT = 300;
 /** Submission kinds worth promoting to a vote option. */
@@ -81,89 +63,14 @@ function setJson<K extends 'options' | 'rules' | 'chosen' | 'proposal'>(row: Vot
   row.changed(key, true);
 }
 
-/** Parses rules with their schema; a refusal names the fields, as a payload refusal does. */
-function parseRules(value: unknown): VoteRules {
+/** The rules of a vote (shared/votes.ts rulesFor), parsed with their schema; a refusal names the fields, as a payload refusal does. */
+function parseRules(value: VoteRules): VoteRules {
   const r = VoteRules.safeParse(value);
   if (r.success) return r.data;
   const message = Object.entries(fieldErrors(r.error))
     .map(([field, problem]) => `${field}: ${problem}`)
     .join('; ');
   throw new AppError(400, 'validation_failed', message);
-}
-
-/**
- * The rules of a vote: what the facilitator gave, else the plan's settings of the item, else Cairn's
- * defaults (dots per voter suggested from the number of options by shared/tally.ts).
- */
-export function rulesFor(item: LiveItem, optionCount: number, given: Partial<VoteRules> = {}): VoteRules {
-  const s = item.settings;
-  const dotsPerVoter = given.dotsPerVoter ?? (optionCount >= 2 ? suggestDotsPerVoter(optionCount) : (s.dotsPerVoter ?? 3));
-  const topN = given.topN ?? s.topN ?? (item.type === 'team_sort' ? optionCount : 3);
-  return parseRules({
-    dotsPerVoter,
-    // Without a cap of its own, one option may take the whole budget.
-    capPerOption: given.capPerOption ?? s.capPerOption ?? dotsPerVoter,
-    allowStacking: given.allowStacking ?? s.allowStacking ?? true,
-    criteria: given.criteria ?? s.criteria ?? [],
-    topN: Math.max(1, optionCount > 0 ? Math.min(topN, optionCount) : topN),
-    // Two criteria (impact and effort) rank by their matrix unless the facilitator says otherwise.
-    rankBy: given.rankBy ?? ((given.criteria ?? s.criteria ?? []).length >= 2 ? MATRIX_RANKING : OVERALL_CRITERION),
-    method: given.method ?? 'schulze',
-  });
-}
-
-/** What the dot path keeps of a vote between commits: each voter's committed dots, and which client ids of the session were applied. */
-interface DotLedger {
-  ballots: Map<string, Dot[]>;
-  receipts: Set<string>;
-}
-
-/** A group commit's dot writes: the final count of every dot it changed, and the receipts it adds. */
-interface DotWrites {
-  dots: Map<string, { voteId: string; participantId: string; optionId: string; criterionId: string; count: number }>;
-  receipts: [id: string, participantId: string, clientId: string, voteId: string, createdAt: string][];
-}
-
-/** Rows a multi-row statement carries: 6 values each stays under SQLite's oldest limit of 999 parameters. */
-const ROWS_PER_STATEMENT = 150;
-
-function receiptKey(participantId: string, clientId: string): string {
-  return `${participantId}\n${clientId}`;
-}
-
-function chunks<T>(list: T[], size: number): T[][] {
-  const out: T[][] = [];
-  for (let i = 0; i < list.length; i += size) out.push(list.slice(i, i + size));
-  return out;
-}
-
-/** Stores a group commit's dots: counts by upsert on the unique (vote, voter, option, criterion) index, zeros deleted, receipts appended. */
-async function storeDots(sql: RawStatements, writes: DotWrites): Promise<void> {
-  const rows = [...writes.dots.values()];
-  for (const part of chunks(
-    rows.filter((r) => r.count > 0),
-    ROWS_PER_STATEMENT,
-  )) {
-    await sql.once(
-      `INSERT INTO vote_dots (id, voteId, participantId, optionId, criterionId, count) VALUES ${part.map(() => '(?, ?, ?, ?, ?, ?)').join(', ')}
-       ON CONFLICT (voteId, participantId, optionId, criterionId) DO UPDATE SET count = excluded.count`,
-      part.flatMap((r) => [crypto.randomUUID(), r.voteId, r.participantId, r.optionId, r.criterionId, r.count]),
-    );
-  }
-  for (const r of rows.filter((row) => row.count === 0)) {
-    await sql.run('DELETE FROM vote_dots WHERE voteId = ? AND participantId = ? AND optionId = ? AND criterionId = ?', [
-      r.voteId,
-      r.participantId,
-      r.optionId,
-      r.criterionId,
-    ]);
-  }
-  for (const part of chunks(writes.receipts, ROWS_PER_STATEMENT)) {
-    await sql.once(
-      `INSERT INTO vote_receipts (id, participantId, clientId, voteId, createdAt) VALUES ${part.map(() => '(?, ?, ?, ?, ?)').join(', ')}`,
-      part.flat(),
-    );
-  }
 }
 
 /** A vote row as the screens see it. */
@@ -189,27 +96,22 @@ function toView(row: VoteRow, mine: MyBallot | null): VoteView {
 export class VotingService {
   private io: LiveIo | null = null;
   private teamSetter: { set(sessionId: string, payload: SetTeamsPayload): Promise<Team[]> } | null = null;
-  private tallyTicks = new Map<string, { timer: NodeJS.Timeout | null; lastAt: number; itemId: string }>();
-  private closed = false;
-  // The dot path is the hottest in a room (every phone, several times, within seconds), so it keeps
-  // what does not change under it in memory: which session a participant is in, the open vote of
-  // the current item (dropped on every change of a vote), and each vote's ledger.
-  private sessionOfParticipant = new Map<string, string>();
-  private participantsRead = new Map<string, Promise<void>>();
-  private voteOfItem = new Map<string, VoteRow>();
-  private ledgers = new Map<string, DotLedger>();
-  private receiptsOfSession = new Map<string, Set<string>>();
-  private dotWrites = new WeakMap<Transaction, DotWrites>();
+  /** The dot path's memory of votes, ballots and receipts, and its SQL. */
+  private ledgers: DotLedgers;
+  /** The tallies and their announcement. */
+  private tally: VoteTally;
 
   constructor(
     private ctx: AppContext,
     private live: LiveService,
   ) {
+    this.ledgers = new DotLedgers(ctx);
+    this.tally = new VoteTally(ctx, live);
     // Another Cairn process on the same file voted, or changed a vote: read the votes afresh.
-    ctx.db.onExternalChange(() => this.forgetVotes());
+    ctx.db.onExternalChange(() => this.ledgers.forget());
     // A vote left open when the session ends is closed with it: no ballot can change any more, and the results take it whole.
     live.onEnding(async (sessionId, transaction) => {
-      this.forgetVotes();
+      this.ledgers.forget();
       await ctx.db.models.Vote.update({ status: 'closed' }, { where: { sessionId, status: 'open' }, transaction });
     });
   }
@@ -217,6 +119,7 @@ export class VotingService {
   /** Broadcasts through this socket.io server from now on. */
   attach(io: LiveIo): void {
     this.io = io;
+    this.tally.attach(io);
   }
 
   /** Where a confirmed team sort sets its teams (server/features/teams). */
@@ -226,9 +129,7 @@ export class VotingService {
 
   /** Stops pending tally announcements (the app is shutting down). */
   close(): void {
-    this.closed = true;
-    for (const tick of this.tallyTicks.values()) if (tick.timer) clearTimeout(tick.timer);
-    this.tallyTicks.clear();
+    this.tally.close();
   }
 
   /** The current item's vote; a participant also gets their own ballot. Before set-up, an empty draft with the plan's rules. */
@@ -242,7 +143,7 @@ export class VotingService {
         status: 'draft',
         ready: false,
         options: [],
-        rules: rulesFor(item, 0),
+        rules: parseRules(rulesFor(item, 0)),
         chosen: null,
         mine: participantId ? { itemId: item.id, dots: [], ranking: null } : null,
       };
@@ -274,9 +175,9 @@ export class VotingService {
       if (seen.has(key)) throw errors.badRequest(`Two options read “${o.text}”; keep one`);
       seen.add(key);
     }
-    const rules = rulesFor(item, options.length, payload.rules ?? {});
+    const rules = parseRules(rulesFor(item, options.length, payload.rules ?? {}));
     const row = await this.ctx.db.writeTx(async (transaction) => {
-      this.forgetVotes();
+      this.ledgers.forget();
       await this.checkStillCurrent(sessionId, item.id, transaction);
       const existing = await Vote.findOne({ where: { sessionId, itemId: item.id }, transaction });
       if (existing) {
@@ -322,7 +223,7 @@ export class VotingService {
    * (`storeDots`). The acknowledgement still comes only after that commit.
    */
   async dot(participantId: string, sessionId: string, payload: DotPayload, fromSocket?: string): Promise<BallotAnswer> {
-    if (!(await this.inSession(participantId, sessionId))) throw errors.notInSession();
+    if (!(await this.ledgers.inSession(participantId, sessionId))) throw errors.notInSession();
     const db = this.ctx.db;
     const outcome = await db.batchTx(
       async (transaction): Promise<{ refused: AppError } | { answer: BallotAnswer; applied: boolean }> => {
@@ -340,133 +241,33 @@ export class VotingService {
         // One read of the live state a vote: the current item is the vote's item.
         const item = state.item;
         if (!item || !VoteKind.safeParse(item.type).success) return { refused: errors.conflict('The current activity is not a vote') };
-        const vote = this.voteOfItem.get(`${sessionId}:${item.id}`) ?? (await this.cachedVote(sessionId, item.id, transaction));
+        const vote = await this.ledgers.vote(sessionId, item.id, transaction);
         if (!vote) return { refused: errors.conflict('Voting has not opened yet') };
-        const ledger = this.ledgers.get(vote.id) ?? (await this.loadLedger(vote.id, sessionId, transaction));
+        const ledger = await this.ledgers.ledger(vote.id, sessionId, transaction);
         const mine = ledger.ballots.get(participantId) ?? [];
         const answer = (dots: Dot[]): BallotAnswer => ({
           duplicate: false,
           mine: { itemId: vote.itemId, dots: dots.map((d) => ({ optionId: d.optionId, criterionId: d.criterionId, count: d.count })), ranking: null },
         });
         // A retry of something already applied is answered before the checks, which may have changed since.
-        const receipt = receiptKey(participantId, payload.clientId);
-        if (ledger.receipts.has(receipt)) return { answer: { ...answer(mine), duplicate: true }, applied: false };
+        if (ledger.receipts.has(receiptKey(participantId, payload.clientId))) return { answer: { ...answer(mine), duplicate: true }, applied: false };
         if (vote.status === 'draft') return { refused: errors.conflict('Voting has not opened yet') };
         if (vote.kind !== 'dot_vote') return { refused: errors.badRequest('This vote does not take that kind of ballot') };
         if (vote.status === 'closed') return { refused: errors.conflict('Voting has closed; your votes stay as they were') };
         if (!vote.options.some((o) => o.id === payload.optionId)) return { refused: errors.badRequest('This vote has no such option') };
-        const check = checkBallot(vote.rules, mine, { optionId: payload.optionId, criterionId: payload.criterionId, delta: payload.delta });
-        if (!check.ok) return { refused: new AppError(BALLOT_ERROR[check.code] === 'bad_request' ? 400 : 409, BALLOT_ERROR[check.code], check.message) };
+        const change = { optionId: payload.optionId, criterionId: payload.criterionId, delta: payload.delta };
+        const cast = castDot(vote.rules, mine, participantId, change);
+        if (!cast.ok) return { refused: new AppError(BALLOT_ERROR[cast.code] === 'bad_request' ? 400 : 409, BALLOT_ERROR[cast.code], cast.message) };
         // Checked: the ledger moves now, so the next dot of this batch sees it, and the writes wait for the commit.
-        const row = mine.find((d) => d.optionId === payload.optionId && d.criterionId === payload.criterionId);
-        const count = (row?.count ?? 0) + payload.delta;
-        const next = [
-          ...mine.filter((d) => d !== row),
-          ...(count === 0 ? [] : [{ voterId: participantId, optionId: payload.optionId, criterionId: payload.criterionId, count }]),
-        ];
-        ledger.ballots.set(participantId, next);
-        ledger.receipts.add(receipt);
-        const writes = this.dotWritesOf(transaction);
-        writes.dots.set([vote.id, participantId, payload.optionId, payload.criterionId].join('\n'), {
-          voteId: vote.id,
-          participantId,
-          optionId: payload.optionId,
-          criterionId: payload.criterionId,
-          count,
-        });
-        // Dates as Sequelize writes them for SQLite, so the model reads them back alike.
-        writes.receipts.push([crypto.randomUUID(), participantId, payload.clientId, vote.id, new Date().toISOString().replace('T', ' ').replace('Z', ' +00:00')]);
-        return { answer: answer(next), applied: true };
+        this.ledgers.record(transaction, ledger, vote, participantId, payload.clientId, cast.dots, { optionId: payload.optionId, criterionId: payload.criterionId, count: cast.count });
+        return { answer: answer(cast.dots), applied: true };
       },
       // The batch rolled back: what the ledgers learnt from it is not stored, so they are read again.
-      () => this.forgetVotes(),
+      () => this.ledgers.forget(),
     );
     if ('refused' in outcome) throw outcome.refused;
     if (outcome.applied) this.afterBallot(sessionId, participantId, outcome.answer.mine, fromSocket);
     return outcome.answer;
-  }
-
-  /**
-   * Whether a participant is in a session (it never changes once joined). The first miss of a session
-   * reads all its participants at once: in a burst, every phone's first dot would otherwise read its own.
-   */
-  private async inSession(participantId: string, sessionId: string): Promise<boolean> {
-    const known = this.sessionOfParticipant.get(participantId);
-    if (known) return known === sessionId;
-    let reading = this.participantsRead.get(sessionId);
-    if (!reading) {
-      reading = this.ctx.db.sequelize
-        .query<{ id: string }>('SELECT id FROM participants WHERE sessionId = ?', { replacements: [sessionId], type: QueryTypes.SELECT })
-        .then((rows) => {
-          for (const r of rows) this.sessionOfParticipant.set(r.id, sessionId);
-        });
-      this.participantsRead.set(sessionId, reading);
-      // A read that failed is tried again by the next dot.
-      reading.catch(() => this.participantsRead.delete(sessionId));
-    }
-    await reading;
-    const read = this.sessionOfParticipant.get(participantId);
-    if (read) return read === sessionId;
-    // Joined after the session's participants were read, or in another session.
-    const p = await this.ctx.db.models.Participant.findByPk(participantId, { attributes: ['id', 'sessionId'] });
-    if (p) this.sessionOfParticipant.set(participantId, p.sessionId);
-    return p?.sessionId === sessionId;
-  }
-
-  /** The vote of an item, from memory while no command has changed any vote since it was read. */
-  private async cachedVote(sessionId: string, itemId: string, transaction: Transaction): Promise<VoteRow | null> {
-    const k = `${sessionId}:${itemId}`;
-    const known = this.voteOfItem.get(k);
-    if (known) return known;
-    const vote = await this.ctx.db.models.Vote.findOne({ where: { sessionId, itemId }, transaction });
-    if (vote) this.voteOfItem.set(k, vote);
-    return vote;
-  }
-
-  /** Forgets the votes and ledgers kept in memory: called inside every transaction that changes a vote, and after a rolled-back batch. */
-  private forgetVotes(): void {
-    this.voteOfItem.clear();
-    this.ledgers.clear();
-    this.receiptsOfSession.clear();
-  }
-
-  /** Reads a vote's ledger inside the writer's transaction: every voter's dots on it and the receipts of its session. */
-  private async loadLedger(voteId: string, sessionId: string, transaction: Transaction): Promise<DotLedger> {
-    const sql = this.ctx.db.raw(transaction);
-    const dots = await sql.all<{ participantId: string; optionId: string; criterionId: string; count: number }>(
-      'SELECT participantId, optionId, criterionId, count FROM vote_dots WHERE voteId = ?',
-      [voteId],
-    );
-    let receipts = this.receiptsOfSession.get(sessionId);
-    if (!receipts) {
-      const rows = await sql.all<{ participantId: string; clientId: string }>(
-        'SELECT r.participantId, r.clientId FROM vote_receipts r JOIN votes v ON v.id = r.voteId WHERE v.sessionId = ?',
-        [sessionId],
-      );
-      receipts = new Set(rows.map((r) => receiptKey(r.participantId, r.clientId)));
-      this.receiptsOfSession.set(sessionId, receipts);
-    }
-    const ballots = new Map<string, Dot[]>();
-    for (const d of dots) {
-      const list = ballots.get(d.participantId) ?? [];
-      list.push({ voterId: d.participantId, optionId: d.optionId, criterionId: d.criterionId, count: Number(d.count) });
-      ballots.set(d.participantId, list);
-    }
-    const ledger = { ballots, receipts };
-    this.ledgers.set(voteId, ledger);
-    return ledger;
-  }
-
-  /** The dot writes a transaction collects; the first dot of a transaction has them stored just before its commit. */
-  private dotWritesOf(transaction: Transaction): DotWrites {
-    let writes = this.dotWrites.get(transaction);
-    if (!writes) {
-      const fresh: DotWrites = { dots: new Map(), receipts: [] };
-      this.dotWrites.set(transaction, fresh);
-      this.ctx.db.beforeCommit(transaction, () => storeDots(this.ctx.db.raw(transaction), fresh));
-      writes = fresh;
-    }
-    return writes;
   }
 
   /** Stores a participant's order of the options (replacing their earlier one), exactly once per `clientId`. */
@@ -490,7 +291,7 @@ export class VotingService {
       }
     });
     if (applied) {
-      this.receiptsOfSession.get(sessionId)?.add(receiptKey(participantId, payload.clientId));
+      this.ledgers.addReceipt(sessionId, participantId, payload.clientId);
       this.afterBallot(sessionId, participantId, answer.mine, fromSocket);
     }
     return answer;
@@ -502,7 +303,7 @@ export class VotingService {
     if (asker !== 'runner' && !state.revealed) throw errors.forbidden('The results are hidden until the facilitator reveals them');
     const item = await this.currentVoteItem(sessionId);
     const row = await this.readyVote(sessionId, item.id);
-    return this.resultsOf(row, item.title, await this.live.participants(sessionId));
+    return this.tally.resultsOf(row, item.title, await this.live.participants(sessionId));
   }
 
   /**
@@ -514,7 +315,7 @@ export class VotingService {
     const row = await this.readyVote(sessionId, item.id);
     if (row.kind === 'team_sort') throw errors.badRequest('A team sort forms teams; confirm them instead');
     if (row.status !== 'closed') throw errors.conflict('Close the vote before carrying options forward');
-    const results = await this.resultsOf(row, item.title, await this.live.participants(sessionId));
+    const results = await this.tally.resultsOf(row, item.title, await this.live.participants(sessionId));
     if (results.kind === 'team_sort') throw errors.badRequest('A team sort forms teams; confirm them instead');
     const { selected, tiedAtCutoff } = results.top;
     const n = row.rules.topN;
@@ -525,7 +326,7 @@ export class VotingService {
       throw errors.badRequest('Only options tied at the cut-off can be picked besides the top N');
     }
     const saved = await this.ctx.db.writeTx(async (transaction) => {
-      this.forgetVotes();
+      this.ledgers.forget();
       const fresh = await this.ctx.db.models.Vote.findByPk(row.id, { transaction });
       if (!fresh) throw errors.notFound('That vote');
       if (fresh.status !== 'closed') throw errors.conflict('Close the vote before carrying options forward');
@@ -632,7 +433,7 @@ export class VotingService {
       cost: result.cost,
     };
     await this.ctx.db.writeTx(async (transaction) => {
-      this.forgetVotes();
+      this.ledgers.forget();
       const fresh = await Vote.findByPk(row.id, { transaction });
       if (!fresh) throw errors.notFound('That vote');
       setJson(fresh, 'proposal', proposal);
@@ -653,7 +454,7 @@ export class VotingService {
     if (row.kind !== 'team_sort') throw errors.badRequest('Only a team sort confirms teams');
     const teams = await this.teamSetter.set(sessionId, payload);
     const saved = await this.ctx.db.writeTx(async (transaction) => {
-      this.forgetVotes();
+      this.ledgers.forget();
       const fresh = await this.ctx.db.models.Vote.findByPk(row.id, { transaction });
       if (!fresh) throw errors.notFound('That vote');
       fresh.status = 'closed';
@@ -686,7 +487,7 @@ export class VotingService {
     if (votes.length === 0) return [];
     const people = await this.live.participants(sessionId);
     const out: VoteResults[] = [];
-    for (const v of votes) out.push(await this.resultsOf(v, title.get(v.itemId) ?? '', people));
+    for (const v of votes) out.push(await this.tally.resultsOf(v, title.get(v.itemId) ?? '', people));
     return out;
   }
 
@@ -719,7 +520,7 @@ export class VotingService {
   private async setStatus(sessionId: string, status: 'open' | 'closed'): Promise<VoteView> {
     const item = await this.currentVoteItem(sessionId);
     const { row, changed } = await this.ctx.db.writeTx(async (transaction) => {
-      this.forgetVotes();
+      this.ledgers.forget();
       await this.checkStillCurrent(sessionId, item.id, transaction);
       const vote = await this.ctx.db.models.Vote.findOne({ where: { sessionId, itemId: item.id }, transaction });
       if (!vote) throw errors.conflict('Set the vote up first: choose its options');
@@ -734,7 +535,7 @@ export class VotingService {
     if (!changed) return toView(row, null);
     const view = this.announce(row);
     // Closing settles the tallies: the console gets the final ones at once.
-    if (status === 'closed') this.scheduleTally(sessionId, item.id);
+    if (status === 'closed') this.tally.scheduleTally(sessionId, item.id);
     return view;
   }
 
@@ -742,7 +543,7 @@ export class VotingService {
   private announce(row: VoteRow): VoteView {
     const view = toView(row, null);
     this.io?.to(liveRooms.session(row.sessionId)).emit('vote:updated', view);
-    this.scheduleTally(row.sessionId, row.itemId);
+    this.tally.scheduleTally(row.sessionId, row.itemId);
     return view;
   }
 
@@ -800,7 +601,7 @@ export class VotingService {
   private afterBallot(sessionId: string, participantId: string, mine: MyBallot, fromSocket?: string): void {
     const others = this.io?.to(liveRooms.participant(participantId));
     (fromSocket ? others?.except(fromSocket) : others)?.emit('ballot:updated', mine);
-    this.scheduleTally(sessionId, mine.itemId);
+    this.tally.scheduleTally(sessionId, mine.itemId);
   }
 
   /** A participant's own ballot in a vote. */
@@ -816,120 +617,5 @@ export class VotingService {
     }
     const row = await VoteRanking.findOne({ where: { voteId: vote.id, participantId }, transaction });
     return { itemId: vote.itemId, dots: [], ranking: row ? row.ranking : null };
-  }
-
-  /**
-   * A vote's results from the stored ballots, counted by the pure functions of shared/. The room is
-   * everyone online now plus everyone who voted, so a voter whose phone dropped still counts.
-   */
-  private async resultsOf(row: VoteRow, itemTitle: string, people: ParticipantView[]): Promise<VoteResults> {
-    const { VoteRanking } = this.ctx.db.models;
-    const optionIds = row.options.map((o) => o.id);
-    const base = { itemId: row.itemId, itemTitle, status: row.status, options: row.options, rules: row.rules, chosen: row.chosen };
-    const online = people.filter((p) => p.online).map((p) => p.id);
-    const n = Math.min(row.rules.topN, optionIds.length);
-
-    if (row.kind === 'dot_vote') {
-      // Raw rows: a room's dots are thousands of rows, read a few times a second while votes come in.
-      const rows = await this.ctx.db.sequelize.query<{ participantId: string; optionId: string; criterionId: string; count: number }>(
-        'SELECT participantId, optionId, criterionId, count FROM vote_dots WHERE voteId = ?',
-        { replacements: [row.id], type: QueryTypes.SELECT },
-      );
-      const dots: Dot[] = rows.map((d) => ({ voterId: d.participantId, optionId: d.optionId, criterionId: d.criterionId, count: Number(d.count) }));
-      const voterIds = [...new Set([...online, ...dots.map((d) => d.voterId)])];
-      const tally = tallyDots(optionIds, criterionIds(row.rules), dots);
-      const [first, second] = row.rules.criteria;
-      // Impact (the first criterion) up, effort (the second) across: the usual reading of such a matrix.
-      const byMatrix = first && second ? rankByMatrix(criteriaMatrix(tally, second.id, first.id), first.dotMeans ?? 'high', second.dotMeans ?? 'high') : null;
-      const ranked: TallyRow[] =
-        row.rules.rankBy === MATRIX_RANKING && byMatrix
-          ? // A matrix row's dots are the first criterion's: the matrix orders by quadrant, then by them.
-            byMatrix.map((m) => ({ optionId: m.optionId, dots: m.y, rank: m.rank, tied: m.tied, nearTie: false }))
-          : row.rules.rankBy === OVERALL_CRITERION
-            ? tally.overall
-            : (tally.perCriterion[row.rules.rankBy] ?? tally.overall);
-      const results: DotVoteResults = {
-        kind: 'dot_vote',
-        ...base,
-        participation: participation(voterIds, dots, row.rules),
-        perCriterion: tally.perCriterion,
-        overall: tally.overall,
-        ranked,
-        top: selectTopN(ranked, n),
-        matrix: first && second && byMatrix ? { xCriterionId: second.id, yCriterionId: first.id, points: byMatrix } : null,
-      };
-      return results;
-    }
-
-    const rankings = await VoteRanking.findAll({ where: { voteId: row.id } });
-    const voters = new Set([...online, ...rankings.map((r) => r.participantId)]).size;
-    const rate: Participation = { voters, voted: rankings.length, rate: voters === 0 ? 0 : rankings.length / voters, dotsLeft: null };
-    const ballots = rankings.map((r) => ({ ranking: r.ranking }));
-    if (row.kind === 'preference_vote') {
-      const bordaRows = borda(optionIds, ballots);
-      const s = schulze(optionIds, ballots);
-      // selectTopN reads only the option and its rank, so either method's ranking can be cut at N.
-      const byMethod: TallyRow[] = (row.rules.method === 'borda' ? bordaRows : s.ranking).map((r) => ({
-        optionId: r.optionId,
-        dots: 0,
-        rank: r.rank,
-        tied: false,
-        nearTie: false,
-      }));
-      const results: PreferenceResults = {
-        kind: 'preference_vote',
-        ...base,
-        participation: rate,
-        borda: bordaRows,
-        schulze: s,
-        top: selectTopN(byMethod, n),
-      };
-      return results;
-    }
-    const firstChoices: Record<string, number> = Object.fromEntries(optionIds.map((id) => [id, 0]));
-    for (const r of rankings) {
-      const first = r.ranking[0];
-      if (first !== undefined && first in firstChoices) firstChoices[first] += 1;
-    }
-    const results: TeamSortResults = { kind: 'team_sort', ...base, participation: rate, firstChoices };
-    return results;
-  }
-
-  /**
-   * Sends the tallies of a session's current vote soon: at once after a quiet spell, otherwise at most
-   * once every TALLY_INTERVAL_MS, so a room of phones voting together costs a few broadcasts a second.
-   */
-  private scheduleTally(sessionId: string, itemId: string): void {
-    if (this.closed) return;
-    let tick = this.tallyTicks.get(sessionId);
-    if (!tick) {
-      tick = { timer: null, lastAt: 0, itemId };
-      this.tallyTicks.set(sessionId, tick);
-    }
-    tick.itemId = itemId;
-    if (tick.timer) return;
-    const due = tick.lastAt + TALLY_INTERVAL_MS - Date.now();
-    const t = tick;
-    t.timer = setTimeout(() => {
-      t.timer = null;
-      t.lastAt = Date.now();
-      this.pushTally(sessionId, t.itemId).catch((err: unknown) => {
-        if (!this.closed) this.ctx.logger.error({ err }, 'could not send the tallies');
-      });
-    }, Math.max(0, due));
-  }
-
-  /** Sends the current vote's tallies to the facilitators, or to the whole session once revealed. */
-  private async pushTally(sessionId: string, itemId: string): Promise<void> {
-    if (this.closed || !this.io) return;
-    const state = await this.live.state(sessionId);
-    if (state.item?.id !== itemId) return;
-    // No check for listeners in the room: with broadcasts shared between processes, they may be on another one.
-    const room = state.revealed ? liveRooms.session(sessionId) : liveRooms.facilitators(sessionId);
-    const row = await this.ctx.db.models.Vote.findOne({ where: { sessionId, itemId } });
-    if (!row || this.closed) return;
-    const results = await this.resultsOf(row, state.item.title, await this.live.participants(sessionId));
-    if (this.closed) return;
-    this.io.to(room).emit('vote:tallied', results);
   }
 }

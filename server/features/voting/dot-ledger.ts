@@ -1,0 +1,184 @@
+import crypto from 'node:crypto';
+import { DataTypes, QueryTypes, type Transaction } from 'sequelize';
+import type { AppContext } from '../../context';
+import type { VoteRow } from '../../db/models';
+import type { RawStatements } from '../../db';
+import type { Dot } from '../../../shared/tally';
+
+/** What the dot path keeps of a vote between commits: each voter's committed dots, and which client ids of the session were applied. */
+export interface DotLedger {
+  ballots: Map<string, Dot[]>;
+  receipts: Set<string>;
+}
+
+/** A group commit's dot writes: the final count of every dot it changed, and the receipts it adds. */
+interface DotWrites {
+  dots: Map<string, { voteId: string; participantId: string; optionId: string; criterionId: string; count: number }>;
+  receipts: [id: string, participantId: string, clientId: string, voteId: string, createdAt: string][];
+}
+
+/** Rows a multi-row statement carries: 6 values each stays under SQLite's oldest limit of 999 parameters. */
+const ROWS_PER_STATEMENT = 150;
+
+/** Dates as Sequelize writes a DATE column for SQLite (UTC), so the model reads a receipt written here back alike. */
+const SQLITE_DATE = new DataTypes.DATE();
+
+/** The key of a receipt in a ledger: one participant's one client id. */
+export function receiptKey(participantId: string, clientId: string): string {
+  return `${participantId}\n${clientId}`;
+}
+
+function chunks<T>(list: T[], size: number): T[][] {
+  const out: T[][] = [];
+  for (let i = 0; i < list.length; i += size) out.push(list.slice(i, i + size));
+  return out;
+}
+
+/** Stores a group commit's dots: counts by upsert on the unique (vote, voter, option, criterion) index, zeros deleted, receipts appended. */
+async function storeDots(sql: RawStatements, writes: DotWrites): Promise<void> {
+  const rows = [...writes.dots.values()];
+  for (const part of chunks(
+    rows.filter((r) => r.count > 0),
+    ROWS_PER_STATEMENT,
+  )) {
+    await sql.once(
+      `INSERT INTO vote_dots (id, voteId, participantId, optionId, criterionId, count) VALUES ${part.map(() => '(?, ?, ?, ?, ?, ?)').join(', ')}
+       ON CONFLICT (voteId, participantId, optionId, criterionId) DO UPDATE SET count = excluded.count`,
+      part.flatMap((r) => [crypto.randomUUID(), r.voteId, r.participantId, r.optionId, r.criterionId, r.count]),
+    );
+  }
+  for (const r of rows.filter((row) => row.count === 0)) {
+    await sql.run('DELETE FROM vote_dots WHERE voteId = ? AND participantId = ? AND optionId = ? AND criterionId = ?', [
+      r.voteId,
+      r.participantId,
+      r.optionId,
+      r.criterionId,
+    ]);
+  }
+  for (const part of chunks(writes.receipts, ROWS_PER_STATEMENT)) {
+    await sql.once(
+      `INSERT INTO vote_receipts (id, participantId, clientId, voteId, createdAt) VALUES ${part.map(() => '(?, ?, ?, ?, ?)').join(', ')}`,
+      part.flat(),
+    );
+  }
+}
+
+/**
+ * The dot path's memory and its SQL. The dot path is the hottest in a room (every phone, several times,
+ * within seconds), so it keeps what does not change under it: which session a participant is in, the
+ * vote of the current item (forgotten on every change of a vote), each vote's ledger of committed dots
+ * and the session's receipts; a dot's writes wait for the end of its group commit and are stored there
+ * as a few multi-row statements.
+ */
+export class DotLedgers {
+  private sessionOfParticipant = new Map<string, string>();
+  private participantsRead = new Map<string, Promise<void>>();
+  private voteOfItem = new Map<string, VoteRow>();
+  private ledgers = new Map<string, DotLedger>();
+  private receiptsOfSession = new Map<string, Set<string>>();
+  private dotWrites = new WeakMap<Transaction, DotWrites>();
+
+  constructor(private ctx: AppContext) {}
+
+  /**
+   * Whether a participant is in a session (it never changes once joined). The first miss of a session
+   * reads all its participants at once: in a burst, every phone's first dot would otherwise read its own.
+   */
+  async inSession(participantId: string, sessionId: string): Promise<boolean> {
+    const known = this.sessionOfParticipant.get(participantId);
+    if (known) return known === sessionId;
+    let reading = this.participantsRead.get(sessionId);
+    if (!reading) {
+      reading = this.ctx.db.sequelize
+        .query<{ id: string }>('SELECT id FROM participants WHERE sessionId = ?', { replacements: [sessionId], type: QueryTypes.SELECT })
+        .then((rows) => {
+          for (const r of rows) this.sessionOfParticipant.set(r.id, sessionId);
+        });
+      this.participantsRead.set(sessionId, reading);
+      // A read that failed is tried again by the next dot.
+      reading.catch(() => this.participantsRead.delete(sessionId));
+    }
+    await reading;
+    const read = this.sessionOfParticipant.get(participantId);
+    if (read) return read === sessionId;
+    // Joined after the session's participants were read, or in another session.
+    const p = await this.ctx.db.models.Participant.findByPk(participantId, { attributes: ['id', 'sessionId'] });
+    if (p) this.sessionOfParticipant.set(participantId, p.sessionId);
+    return p?.sessionId === sessionId;
+  }
+
+  /** The vote of an item, from memory while no command has changed any vote since it was read. */
+  async vote(sessionId: string, itemId: string, transaction: Transaction): Promise<VoteRow | null> {
+    const k = `${sessionId}:${itemId}`;
+    const known = this.voteOfItem.get(k);
+    if (known) return known;
+    const vote = await this.ctx.db.models.Vote.findOne({ where: { sessionId, itemId }, transaction });
+    if (vote) this.voteOfItem.set(k, vote);
+    return vote;
+  }
+
+  /** A vote's ledger: from memory, else read inside the writer's transaction (every voter's dots on it and the receipts of its session). */
+  async ledger(voteId: string, sessionId: string, transaction: Transaction): Promise<DotLedger> {
+    const known = this.ledgers.get(voteId);
+    if (known) return known;
+    const sql = this.ctx.db.raw(transaction);
+    const dots = await sql.all<{ participantId: string; optionId: string; criterionId: string; count: number }>(
+      'SELECT participantId, optionId, criterionId, count FROM vote_dots WHERE voteId = ?',
+      [voteId],
+    );
+    let receipts = this.receiptsOfSession.get(sessionId);
+    if (!receipts) {
+      const rows = await sql.all<{ participantId: string; clientId: string }>(
+        'SELECT r.participantId, r.clientId FROM vote_receipts r JOIN votes v ON v.id = r.voteId WHERE v.sessionId = ?',
+        [sessionId],
+      );
+      receipts = new Set(rows.map((r) => receiptKey(r.participantId, r.clientId)));
+      this.receiptsOfSession.set(sessionId, receipts);
+    }
+    const ballots = new Map<string, Dot[]>();
+    for (const d of dots) {
+      const list = ballots.get(d.participantId) ?? [];
+      list.push({ voterId: d.participantId, optionId: d.optionId, criterionId: d.criterionId, count: Number(d.count) });
+      ballots.set(d.participantId, list);
+    }
+    const ledger = { ballots, receipts };
+    this.ledgers.set(voteId, ledger);
+    return ledger;
+  }
+
+  /**
+   * Records an applied dot: the ledger moves now (so the next dot of the same batch sees it), and its
+   * writes, the dot's new count and its receipt, wait for the commit of `transaction`.
+   */
+  record(transaction: Transaction, ledger: DotLedger, vote: VoteRow, participantId: string, clientId: string, dots: Dot[], dot: { optionId: string; criterionId: string; count: number }): void {
+    ledger.ballots.set(participantId, dots);
+    ledger.receipts.add(receiptKey(participantId, clientId));
+    const writes = this.writesOf(transaction);
+    writes.dots.set([vote.id, participantId, dot.optionId, dot.criterionId].join('\n'), { voteId: vote.id, participantId, ...dot });
+    writes.receipts.push([crypto.randomUUID(), participantId, clientId, vote.id, SQLITE_DATE.stringify(new Date(), { timezone: '+00:00' })]);
+  }
+
+  /** Adds a receipt stored by another path (a ranking) to its session's receipts, if they are kept. */
+  addReceipt(sessionId: string, participantId: string, clientId: string): void {
+    this.receiptsOfSession.get(sessionId)?.add(receiptKey(participantId, clientId));
+  }
+
+  /** Forgets the votes and ledgers kept in memory: called inside every transaction that changes a vote, and after a rolled-back batch. */
+  forget(): void {
+    this.voteOfItem.clear();
+    this.ledgers.clear();
+    this.receiptsOfSession.clear();
+  }
+
+  /** The dot writes a transaction collects; the first dot of a transaction has them stored just before its commit. */
+  private writesOf(transaction: Transaction): DotWrites {
+    let writes = this.dotWrites.get(transaction);
+    if (!writes) {
+      const fresh: DotWrites = { dots: new Map(), receipts: [] };
+      this.dotWrites.set(transaction, fresh);
+      this.ctx.db.beforeCommit(transaction, () => storeDots(this.ctx.db.raw(transaction), fresh));
+      writes = fresh;
+    }
+    return writes;
+  }
+}

@@ -1,0 +1,144 @@
+import { QueryTypes } from 'sequelize';
+import type { AppContext } from '../../context';
+import type { VoteRow } from '../../db/models';
+import { liveRooms, type LiveIo, type LiveService } from '../live/live.service';
+import { criterionIds, participation, selectTopN, tallyDots, type Dot, type TallyRow } from '../../../shared/tally';
+import { borda, schulze } from '../../../shared/preference';
+import { rankedRows } from '../../../shared/votes';
+import type { ParticipantView } from '../../../shared/schemas/live';
+import type { DotVoteResults, Participation, PreferenceResults, TeamSortResults, VoteResults } from '../../../shared/schemas/voting';
+
+/** Tallies pushed to a room at most this often: live enough for the console, cheap when a room of phones votes at once. */
+export const TALLY_INTERVAL_MS = 300;
+
+/**
+ * A vote's tally: its results counted from the stored ballots by the pure functions of shared/, and their
+ * announcement to the console (to the whole session once revealed), at most once every TALLY_INTERVAL_MS.
+ */
+export class VoteTally {
+  private io: LiveIo | null = null;
+  private tallyTicks = new Map<string, { timer: NodeJS.Timeout | null; lastAt: number; itemId: string }>();
+  private closed = false;
+
+  constructor(
+    private ctx: AppContext,
+    private live: LiveService,
+  ) {}
+
+  /** Broadcasts through this socket.io server from now on. */
+  attach(io: LiveIo): void {
+    this.io = io;
+  }
+
+  /** Stops pending tally announcements (the app is shutting down). */
+  close(): void {
+    this.closed = true;
+    for (const tick of this.tallyTicks.values()) if (tick.timer) clearTimeout(tick.timer);
+    this.tallyTicks.clear();
+  }
+
+  /**
+   * A vote's results from the stored ballots, counted by the pure functions of shared/. The room is
+   * everyone online now plus everyone who voted, so a voter whose phone dropped still counts.
+   */
+  async resultsOf(row: VoteRow, itemTitle: string, people: ParticipantView[]): Promise<VoteResults> {
+    const { VoteRanking } = this.ctx.db.models;
+    const optionIds = row.options.map((o) => o.id);
+    const base = { itemId: row.itemId, itemTitle, status: row.status, options: row.options, rules: row.rules, chosen: row.chosen };
+    const online = people.filter((p) => p.online).map((p) => p.id);
+    const n = Math.min(row.rules.topN, optionIds.length);
+
+    if (row.kind === 'dot_vote') {
+      // Raw rows: a room's dots are thousands of rows, read a few times a second while votes come in.
+      const rows = await this.ctx.db.sequelize.query<{ participantId: string; optionId: string; criterionId: string; count: number }>(
+        'SELECT participantId, optionId, criterionId, count FROM vote_dots WHERE voteId = ?',
+        { replacements: [row.id], type: QueryTypes.SELECT },
+      );
+      const dots: Dot[] = rows.map((d) => ({ voterId: d.participantId, optionId: d.optionId, criterionId: d.criterionId, count: Number(d.count) }));
+      const voterIds = [...new Set([...online, ...dots.map((d) => d.voterId)])];
+      const tally = tallyDots(optionIds, criterionIds(row.rules), dots);
+      const { ranked, matrix } = rankedRows(row.rules, tally);
+      const results: DotVoteResults = {
+        kind: 'dot_vote',
+        ...base,
+        participation: participation(voterIds, dots, row.rules),
+        perCriterion: tally.perCriterion,
+        overall: tally.overall,
+        ranked,
+        top: selectTopN(ranked, n),
+        matrix,
+      };
+      return results;
+    }
+
+    const rankings = await VoteRanking.findAll({ where: { voteId: row.id } });
+    const voters = new Set([...online, ...rankings.map((r) => r.participantId)]).size;
+    const rate: Participation = { voters, voted: rankings.length, rate: voters === 0 ? 0 : rankings.length / voters, dotsLeft: null };
+    const ballots = rankings.map((r) => ({ ranking: r.ranking }));
+    if (row.kind === 'preference_vote') {
+      const bordaRows = borda(optionIds, ballots);
+      const s = schulze(optionIds, ballots);
+      // selectTopN reads only the option and its rank, so either method's ranking can be cut at N.
+      const byMethod: TallyRow[] = (row.rules.method === 'borda' ? bordaRows : s.ranking).map((r) => ({
+        optionId: r.optionId,
+        dots: 0,
+        rank: r.rank,
+        tied: false,
+        nearTie: false,
+      }));
+      const results: PreferenceResults = {
+        kind: 'preference_vote',
+        ...base,
+        participation: rate,
+        borda: bordaRows,
+        schulze: s,
+        top: selectTopN(byMethod, n),
+      };
+      return results;
+    }
+    const firstChoices: Record<string, number> = Object.fromEntries(optionIds.map((id) => [id, 0]));
+    for (const r of rankings) {
+      const first = r.ranking[0];
+      if (first !== undefined && first in firstChoices) firstChoices[first] += 1;
+    }
+    const results: TeamSortResults = { kind: 'team_sort', ...base, participation: rate, firstChoices };
+    return results;
+  }
+
+  /**
+   * Sends the tallies of a session's current vote soon: at once after a quiet spell, otherwise at most
+   * once every TALLY_INTERVAL_MS, so a room of phones voting together costs a few broadcasts a second.
+   */
+  scheduleTally(sessionId: string, itemId: string): void {
+    if (this.closed) return;
+    let tick = this.tallyTicks.get(sessionId);
+    if (!tick) {
+      tick = { timer: null, lastAt: 0, itemId };
+      this.tallyTicks.set(sessionId, tick);
+    }
+    tick.itemId = itemId;
+    if (tick.timer) return;
+    const due = tick.lastAt + TALLY_INTERVAL_MS - Date.now();
+    const t = tick;
+    t.timer = setTimeout(() => {
+      t.timer = null;
+      t.lastAt = Date.now();
+      this.pushTally(sessionId, t.itemId).catch((err: unknown) => {
+        if (!this.closed) this.ctx.logger.error({ err }, 'could not send the tallies');
+      });
+    }, Math.max(0, due));
+  }
+
+  /** Sends the current vote's tallies to the facilitators, or to the whole session once revealed. */
+  private async pushTally(sessionId: string, itemId: string): Promise<void> {
+    if (this.closed || !this.io) return;
+    const state = await this.live.state(sessionId);
+    if (state.item?.id !== itemId) return;
+    // No check for listeners in the room: with broadcasts shared between processes, they may be on another one.
+    const room = state.revealed ? liveRooms.session(sessionId) : liveRooms.facilitators(sessionId);
+    const row = await this.ctx.db.models.Vote.findOne({ where: { sessionId, itemId } });
+    if (!row || this.closed) return;
+    const results = await this.resultsOf(row, state.item.title, await this.live.participants(sessionId));
+    if (this.closed) return;
+    this.io.to(room).emit('vote:tallied', results);
+  }}
