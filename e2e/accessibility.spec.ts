@@ -134,7 +134,11 @@ test('the live console, projector and phone through a vote, and the results, pas
   await expect(projector.getByTestId('projector-results')).toBeVisible();
   await scan(projector, 'projector-vote-revealed');
   await scan(phone, 'phone-vote-closed');
-  // One option has the only dot, the two others tie at the cut-off of the top two: the facilitator picks one.
+  // One option has the only dot, the two others got none: no tie, but the top two must be filled, and
+  // the console says so plainly; the facilitator picks one.
+  await expect(page.getByTestId('unvoted-at-cutoff')).toHaveText('To fill the top 2, pick 1 of the 2 options that got no votes.');
+  await expect(page.getByTestId('tie-policy')).toContainText('2 options got no votes at all, so this is no tie');
+  await expect(page.getByTestId('tied-option').first()).toContainText('(no votes)');
   await page.getByTestId('tied-option').first().getByRole('checkbox').click();
   await scan(page, 'console-tie-picked');
   await page.getByTestId('carry-forward').click();

@@ -27,7 +27,7 @@ export type MatrixRow = {
   xLevel: Level;
   /** Standard competition rank ("1224"): 1 + the options ahead of it. */
   rank: number;
-  /** Another option is in the same quadrant with the same dots under both criteria. */
+  /** Another option is in the same quadrant with the same dots under both criteria, and it got dots: options without any do not tie. */
   tied: boolean;
 };
 
@@ -99,7 +99,7 @@ export function rankByMatrix(points: readonly MatrixInput[], yMeans: DotMeans, x
     yLevel: k.yLevel,
     xLevel: k.xLevel,
     rank: 1 + sorted.filter((o) => compare(o, k) < 0).length,
-    tied: sorted.some((o) => o !== k && compare(o, k) === 0),
+    tied: (k.p.y !== 0 || k.p.x !== 0) && sorted.some((o) => o !== k && compare(o, k) === 0),
   }));
 }
 

@@ -32,9 +32,9 @@ export type TallyRow = {
   dots: number;
   /** Standard competition rank ("1224"): 1 + the number of options with more dots. */
   rank: number;
-  /** Another option has exactly as many dots. */
+  /** Another option has exactly as many dots, and more than none: options nobody put a dot on do not tie. */
   tied: boolean;
-  /** The next count above or below (a different one) is within the near-tie margin. */
+  /** The next count above or below (a different one, more than none) is within the near-tie margin; never for 0 dots. */
   nearTie: boolean;
 };
 
@@ -166,16 +166,18 @@ function rowsFrom(optionIds: string[], counts: Map<string, number>, margin: Near
     .map((optionId, index) => ({ optionId, index, dots: counts.get(optionId) ?? 0 }))
     .sort((a, b) => b.dots - a.dots || a.index - b.index);
   const ranks = competitionRanks(order.map((o) => o.dots));
-  const distinct = [...new Set(order.map((o) => o.dots))]; // descending, as `order` is
+  // Options without a dot share the last rank but are no tie for the facilitator to decide: nobody chose
+  // them. A count near nothing is no near tie either (the top-N cut-off says so where it falls among them).
+  const distinct = [...new Set(order.map((o) => o.dots))].filter((d) => d > 0); // descending, as `order` is
   return order.map(({ optionId, dots }, i) => {
     const at = distinct.indexOf(dots);
-    const above = distinct[at - 1];
-    const below = distinct[at + 1];
+    const above = at < 0 ? undefined : distinct[at - 1];
+    const below = at < 0 ? undefined : distinct[at + 1];
     return {
       optionId,
       dots,
       rank: ranks[i],
-      tied: order[i - 1]?.dots === dots || order[i + 1]?.dots === dots,
+      tied: dots > 0 && (order[i - 1]?.dots === dots || order[i + 1]?.dots === dots),
       nearTie:
         (above !== undefined && isNear(above, dots, margin)) || (below !== undefined && isNear(below, dots, margin)),
     };
@@ -213,14 +215,18 @@ export function tallyDots(
 /**
  * The top N of a tally, with Cairn's tie policy: options whose whole tie group fits in the top N are
  * selected; a tie group that straddles the cut-off is returned in `tiedAtCutoff` for the facilitator to
- * break, and none of it is selected; `policy` says so in words for the console. Refuses an N that is not a
- * whole number of 0 or more, and rows whose rank is not a whole number of 1 or more.
+ * break, and none of it is selected; `policy` says so in words for the console. When that group is the
+ * options nobody voted for (`unvoted`, e.g. the options of a dot vote with no dot), it is no tie:
+ * `policy` says plainly that the last places can only be filled by picking among options without a
+ * vote (`unvotedAtCutoff`). Refuses an N that is not a whole number of 0 or more, and rows whose rank is not a whole number
+ * of 1 or more.
  * @example selectTopN(rows, 3) // { selected: ['a', 'b'], tiedAtCutoff: ['c', 'd'], policy: '…' }
  */
 export function selectTopN(
   rows: TallyRow[],
   n: number,
-): { selected: string[]; tiedAtCutoff: string[]; policy: string } {
+  unvoted: ReadonlySet<string> = new Set(),
+): { selected: string[]; tiedAtCutoff: string[]; unvotedAtCutoff: boolean; policy: string } {
   whole('N', n);
   for (const row of rows) whole(`The rank of ${row.optionId}`, row.rank, 1);
   const ordered = [...rows].sort((a, b) => a.rank - b.rank);
@@ -243,14 +249,18 @@ export function selectTopN(
     else if (before < n) tiedAtCutoff.push(row.optionId);
   }
   const places = Math.max(0, n);
+  const unvotedAtCutoff = tiedAtCutoff.length > 0 && tiedAtCutoff.every((id) => unvoted.has(id));
   let policy =
     `Top ${places}: options ranked inside the top ${places} are selected; ` +
     'options tied across the cut-off are left to the facilitator to break.';
   if (tiedAtCutoff.length > 0) {
     const open = places - selected.length;
-    policy += ` ${tiedAtCutoff.length} options tie for the last ${open === 1 ? 'place' : `${open} places`}.`;
+    const last = open === 1 ? 'the last place' : `the last ${open} places`;
+    policy += unvotedAtCutoff
+      ? ` ${countOf(tiedAtCutoff.length, 'option')} got no votes at all, so this is no tie: to fill the top ${places}, pick ${open} of them for ${last}.`
+      : ` ${tiedAtCutoff.length} options tie for ${last}.`;
   }
-  return { selected, tiedAtCutoff, policy };
+  return { selected, tiedAtCutoff, unvotedAtCutoff, policy };
 }
 
 /**

@@ -184,6 +184,8 @@ export const ResultSection = z.discriminatedUnion('kind', [
     tiePolicy: z.string().nullable(),
     /** Labels of the options tied across the top-N cut-off, for the facilitator to break. */
     tiedAtCutoff: z.array(z.string()),
+    /** The options across the cut-off got no votes at all: no tie, places to fill by picking. */
+    unvotedAtCutoff: z.boolean().optional(),
     /** The criteria matrix of a dot vote with two criteria or more (first criterion up, second across). */
     matrix: z.object({ xLabel: z.string(), yLabel: z.string(), points: z.array(MatrixPoint) }).nullable(),
     /** The pairwise table of a preference vote: `d[i][j]` voters prefer option i to option j. */

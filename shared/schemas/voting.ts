@@ -204,7 +204,13 @@ const ResultsBase = {
 };
 
 /** The top N by the tie policy of shared/tally.ts selectTopN: those inside, and those tied across the cut-off. */
-export const TopN = z.object({ selected: z.array(z.string()), tiedAtCutoff: z.array(z.string()), policy: z.string() });
+export const TopN = z.object({
+  selected: z.array(z.string()),
+  tiedAtCutoff: z.array(z.string()),
+  /** The options across the cut-off got no votes at all: no tie, but places to fill by picking. */
+  unvotedAtCutoff: z.boolean(),
+  policy: z.string(),
+});
 
 /** Results of a dot vote: tallies per criterion and overall, the top N by the tie policy, and the criteria matrix. */
 export const DotVoteResults = z.object({

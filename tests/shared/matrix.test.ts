@@ -80,12 +80,14 @@ describe('rankByMatrix: high impact and low effort first (common practice)', () 
     ]);
   });
 
-  it('keeps the given order for a vote nobody voted on, all in one tie', () => {
+  it('keeps the given order for a vote nobody voted on, sharing a rank but flagged as no tie (nobody chose them)', () => {
     const rows = rankByMatrix([{ optionId: 'x', y: 0, x: 0 }, { optionId: 'y', y: 0, x: 0 }], 'high', 'low');
     expect(rows.map((r) => [r.optionId, r.rank, r.tied])).toEqual([
-      ['x', 1, true],
-      ['y', 1, true],
+      ['x', 1, false],
+      ['y', 1, false],
     ]);
+    // Equal dots that are not nothing still tie.
+    expect(rankByMatrix([{ optionId: 'x', y: 2, x: 1 }, { optionId: 'y', y: 2, x: 1 }], 'high', 'low').map((r) => r.tied)).toEqual([true, true]);
   });
 
   it('refuses dots that are not finite numbers', () => {

@@ -162,7 +162,9 @@ describe('tallyDots', () => {
     expect(near(39, 36)).toBe(false);
     expect(near(10, 9)).toBe(true);
     expect(near(10, 8)).toBe(false);
-    expect(near(1, 0)).toBe(true);
+    // Cairn's own rule: a count is never near nothing (0 dots is no tie, exact or near).
+    expect(near(1, 0)).toBe(false);
+    expect(near(2, 1)).toBe(true);
     expect(near(100, 95)).toBe(true);
     expect(near(100, 94)).toBe(false);
     expect(near(60, 57)).toBe(true); // 5 % of 60 is 3 exactly, not 4 by floating-point noise
@@ -210,11 +212,28 @@ describe('tallyDots', () => {
     ]);
   });
 
-  it('lists every option, with zero dots when nobody voted', () => {
+  it('lists every option, with zero dots when nobody voted, sharing the rank but not flagged as a tie', () => {
     const { overall } = tallyDots(['a', 'b'], ['overall'], []);
     expect(overall).toEqual([
-      { optionId: 'a', dots: 0, rank: 1, tied: true, nearTie: false },
-      { optionId: 'b', dots: 0, rank: 1, tied: true, nearTie: false },
+      { optionId: 'a', dots: 0, rank: 1, tied: false, nearTie: false },
+      { optionId: 'b', dots: 0, rank: 1, tied: false, nearTie: false },
+    ]);
+  });
+
+  it('flags no tie on the rows of a criterion that got 0 dots (an Impact and an Effort table)', () => {
+    // Standard competition ranking ("1224") still gives the 0-dot rows one shared rank; only the flag changes.
+    const tally = tallyDots(['a', 'b', 'c', 'd'], ['impact', 'effort'], [dot('v1', 'a', 2, 'impact'), dot('v1', 'b', 2, 'impact'), dot('v2', 'c', 1, 'effort')]);
+    expect(tally.perCriterion.impact.map((r) => [r.optionId, r.dots, r.rank, r.tied, r.nearTie])).toEqual([
+      ['a', 2, 1, true, false],
+      ['b', 2, 1, true, false],
+      ['c', 0, 3, false, false],
+      ['d', 0, 3, false, false],
+    ]);
+    expect(tally.perCriterion.effort.map((r) => [r.optionId, r.dots, r.rank, r.tied, r.nearTie])).toEqual([
+      ['c', 1, 1, false, false],
+      ['a', 0, 2, false, false],
+      ['b', 0, 2, false, false],
+      ['d', 0, 2, false, false],
     ]);
   });
 });
@@ -245,6 +264,19 @@ describe('selectTopN', () => {
     expect(two.selected).toEqual([]);
     expect(two.tiedAtCutoff).toEqual(['a', 'b', 'c']);
     expect(two.policy).toContain('tie for the last 2 places');
+  });
+
+  it('says plainly when the cut-off falls among options nobody voted for: no tie, places to fill', () => {
+    const rows = rowsOf({ a: 4, b: 2, c: 0, d: 0, e: 0 });
+    const unvoted = new Set(rows.filter((r) => r.dots === 0).map((r) => r.optionId));
+    const top = selectTopN(rows, 3, unvoted);
+    expect(top).toMatchObject({ selected: ['a', 'b'], tiedAtCutoff: ['c', 'd', 'e'], unvotedAtCutoff: true });
+    expect(top.policy).toContain('3 options got no votes at all, so this is no tie: to fill the top 3, pick 1 of them for the last place.');
+    expect(top.policy).not.toContain('tie for the last');
+    // A real tie at the cut-off keeps its wording.
+    const tie = selectTopN(rowsOf({ a: 4, b: 2, c: 2, d: 0 }), 2, new Set(['d']));
+    expect(tie).toMatchObject({ selected: ['a'], tiedAtCutoff: ['b', 'c'], unvotedAtCutoff: false });
+    expect(tie.policy).toContain('2 options tie for the last place.');
   });
 
   it('selects everything when N covers every option, and nothing for N = 0', () => {

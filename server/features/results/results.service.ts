@@ -234,8 +234,9 @@ function voteRows(
     label: label.get(r.optionId) ?? '',
     score: r.score,
     rank: r.rank,
-    // Ties are read off the ranks where the method does not flag them ("1224": equal ranks are a tie).
-    tied: r.tied ?? rows.some((o) => o !== r && o.rank === r.rank),
+    // Ties are read off the ranks where the method does not flag them ("1224": equal ranks are a tie);
+    // options that got nothing are no tie.
+    tied: r.tied ?? (r.score > 0 && rows.some((o) => o !== r && o.rank === r.rank)),
     nearTie: r.nearTie ?? false,
     selected: selected.has(r.optionId),
   }));
@@ -277,6 +278,7 @@ export function voteSection(v: VoteResults): Extract<ResultSection, { kind: 'vot
       topN: v.rules.topN,
       tiePolicy: v.top.policy,
       tiedAtCutoff: v.top.tiedAtCutoff.map((id) => label.get(id) ?? ''),
+      unvotedAtCutoff: v.top.unvotedAtCutoff,
       ...base,
       matrix: v.matrix
         ? {

@@ -65,7 +65,8 @@ export class VoteTally {
         perCriterion: tally.perCriterion,
         overall: tally.overall,
         ranked,
-        top: selectTopN(ranked, n),
+        // Options with no dot under any criterion are no tie: the cut-off says so when it falls among them.
+        top: selectTopN(ranked, n, new Set(tally.overall.filter((r) => r.dots === 0).map((r) => r.optionId))),
         matrix,
       };
       return results;
