@@ -6,7 +6,7 @@ import { UniqueConstraintError } from 'sequelize';
 import type { AppContext } from '../../context';
 import type { PhotoRow } from '../../db/models';
 import { AppError, errors } from '../../common/errors';
-import { inputGate, type LiveService } from '../live/live.service';
+import { type LiveService } from '../live/live.service';
 import { ACTIVITY_LIBRARY } from '../../../shared/activities';
 import { ACTIVITY_LIMITS, type PhotoUploadAnswer, type PhotoUploadFields } from '../../../shared/schemas/activities';
 import type { ActivityType } from '../../../shared/schemas/agenda-item';
@@ -118,8 +118,9 @@ export class PhotosService {
       LiveSession.findByPk(sessionId),
       AgendaItem.findByPk(fields.itemId),
     ]);
-    const refused = inputGate(session, Boolean(participant && session));
-    if (refused || !session) throw refused;
+    const refused = await this.live.gate(sessionId, Boolean(participant));
+    if (refused) throw refused;
+    if (!session) throw errors.notFound('That live session');
     if (!item || item.workshopId !== session.workshopId) throw errors.notFound('That agenda item');
     const photoKind = ACTIVITY_LIBRARY[item.type as ActivityType].photos;
     if (!photoKind) throw errors.badRequest('This activity does not take photos');

@@ -7,13 +7,24 @@ import type { LiveSessionRow, ParticipantRow, SubmissionRow } from '../../db/mod
 import { AppError, errors } from '../../common/errors';
 import { joinBaseUrl } from '../../common/network';
 import { toAgendaItem, type AgendaItemFields } from '../workshops/workshops.service';
-import { remainingMs } from '../../../shared/clock';
-import { inputRefusal, type InputGateState } from '../../../shared/input-gate';
+import {
+  adjustTimer,
+  currentIndexOf as currentIndexIn,
+  endSession,
+  idleTimer,
+  moveTarget,
+  moveTo,
+  pauseTimer,
+  resumeTimer,
+  startTimer,
+  type MoveTarget,
+  type Transition,
+} from '../../../shared/live-moves';
+import { inputRefusal } from '../../../shared/input-gate';
 import { cutRunTimeboxes, undoRunCut, withRunTimeboxes } from '../../../shared/drift';
 import {
   JOIN_CODE_ALPHABET,
   JOIN_CODE_LENGTH,
-  type ItemRun,
   type JoinAnswer,
   type JoinBody,
   type JoinInfo,
@@ -84,44 +95,6 @@ interface Runtime {
   workshopId?: string;
 }
 
-/** A timer stopped before its first start, showing the whole timebox of an item. */
-function idleTimer(item: AgendaItem | undefined): TimerState {
-  return { status: 'idle', endsAt: null, remainingMs: null, durationMs: (item?.timeboxMin ?? 0) * 60_000 };
-}
-
-/**
- * The input gate, the one place a phone's note, photo, dot or ranking is let through or refused: the
- * rule of shared/input-gate.ts over the session as the caller read it, answered with its error.
- */
-export function inputGate(session: InputGateState | null, inSession: boolean, itemId?: string): AppError | null {
-  if (!inSession) return errors.notInSession();
-  if (!session) return errors.notFound('That live session');
-  const why = inputRefusal(session, true, itemId);
-  return why ? errors.inputRefused(why) : null;
-}
-
-/** A timer running from `now` with `leftMs` to go. */
-function runningTimer(timer: TimerState, now: number, leftMs: number): TimerState {
-  return { status: 'running', endsAt: now + leftMs, remainingMs: null, durationMs: timer.durationMs };
-}
-
-/** The item whose run is open, i.e. the one running now. */
-function openRunItemId(runs: ItemRun[]): string | null {
-  const last = runs.at(-1);
-  return last && last.endedAt === null ? last.itemId : null;
-}
-
-/**
- * The current item's index: where its open run's item sits in the agenda now (so reordering the plan
- * during the day does not change what is running), else the stored index, kept inside the agenda.
- */
-function currentIndexOf(session: LiveSessionRow, agenda: AgendaItem[]): number {
-  const running = openRunItemId(session.runs);
-  const at = running === null ? -1 : agenda.findIndex((i) => i.id === running);
-  if (at >= 0) return at;
-  return Math.max(0, Math.min(session.currentIndex, agenda.length - 1));
-}
-
 /** An agenda item as the live screens see it. */
 function toLiveItem(item: AgendaItem, index: number): LiveItem {
   return {
@@ -172,6 +145,17 @@ function setJson<K extends 'timer' | 'runs' | 'message' | 'timeboxes' | 'timebox
 }
 
 const sessionEnded = errors.sessionEnded;
+
+/** The current item's place in the agenda (shared/live-moves.ts currentIndexOf). */
+function currentIndexOf(session: LiveSessionRow, agenda: AgendaItem[]): number {
+  return currentIndexIn(session.runs, session.currentIndex, agenda.map((i) => i.id));
+}
+
+/** A transition's new value, `false` when nothing changes, or its refusal thrown as an AppError. */
+function applied<T>(t: Transition<T>): T | false {
+  if ('refused' in t) throw t.refused === 'conflict' ? errors.conflict(t.message) : errors.badRequest(t.message);
+  return 'unchanged' in t ? false : t.next;
+}
 
 /**
  * A rule an activity adds to submissions (e.g. a note's quadrant must be one of the map's): it runs
@@ -261,7 +245,7 @@ export class LiveService {
           timeboxes: {},
           timeboxesBefore: null,
           currentIndex: 0,
-          timer: idleTimer(first),
+          timer: idleTimer(first?.timeboxMin),
           locked: false,
           revealed: false,
           message: null,
@@ -289,8 +273,9 @@ export class LiveService {
     const { state, session } = await this.mutate(row.id, async (s, _agenda, now, transaction) => {
       s.status = 'ended';
       s.endedAt = new Date(now);
-      setJson(s, 'timer', { status: 'ended', endsAt: null, remainingMs: null, durationMs: s.timer.durationMs });
-      setJson(s, 'runs', s.runs.map((r) => (r.endedAt === null ? { ...r, endedAt: now } : r)));
+      const end = endSession(s.timer, s.runs, now);
+      setJson(s, 'timer', end.timer);
+      setJson(s, 'runs', end.runs);
       for (const step of this.endingSteps) await step(s.id, transaction);
     });
     this.io?.to(liveRooms.session(row.id)).emit('session:ended', { reason: 'The facilitator ended the live session' });
@@ -434,65 +419,56 @@ export class LiveService {
 
   /** The session's state now, as every screen sees it. */
   async state(sessionId: string): Promise<LiveState> {
-    const rt = this.runtime(sessionId);
-    const freshMs = this.ctx.config.redisUrl ? SHARED_STATE_FRESH_MS : STATE_FRESH_MS;
-    const fresh = rt.base && Date.now() - rt.base.at <= freshMs ? rt.base.state : null;
-    const base = fresh ?? (await this.loadBase(sessionId));
-    return this.stamp(base);
+    return this.stamp(await this.baseState(sessionId));
+  }
+
+  /**
+   * The input gate for a phone's note, photo, dot or ranking: the rule of shared/input-gate.ts over the
+   * session's state as kept in memory (the same state every screen is sent, replaced in the commit of every
+   * change, so a lock or a move that committed first is seen), answered with its error, or `null` to let
+   * the input through. `inSession` says whether the participant is still in the session; without an
+   * `itemId` the item is not checked.
+   */
+  async gate(sessionId: string, inSession: boolean, itemId?: string): Promise<AppError | null> {
+    if (!inSession) return errors.notInSession();
+    try {
+      const why = inputRefusal(await this.baseState(sessionId), true, itemId);
+      return why ? errors.inputRefused(why) : null;
+    } catch (err) {
+      // A session that is not there (any more) is the gate's refusal too, answered to this input alone.
+      if (err instanceof AppError) return err;
+      throw err;
+    }
   }
 
   /** Moves to the next agenda item. */
   next(sessionId: string): Promise<LiveState> {
-    return this.move(sessionId, (from, count) => {
-      if (from + 1 >= count) throw errors.conflict('This is the last item of the agenda');
-      return from + 1;
-    });
+    return this.move(sessionId, { to: 'next' });
   }
 
   /** Moves back to the previous agenda item. */
   back(sessionId: string): Promise<LiveState> {
-    return this.move(sessionId, (from) => {
-      if (from <= 0) throw errors.conflict('This is the first item of the agenda');
-      return from - 1;
-    });
+    return this.move(sessionId, { to: 'back' });
   }
 
   /** Moves to any agenda item (the same one restarts it). */
   goto(sessionId: string, index: number): Promise<LiveState> {
-    return this.move(sessionId, (_from, count) => {
-      if (index >= count) throw errors.badRequest(`The agenda has ${count} items; there is no item ${index + 1}`);
-      return index;
-    });
+    return this.move(sessionId, { to: 'index', index });
   }
 
   /** Starts the countdown: the whole timebox from idle, what was left when paused; a running timer carries on. */
   timerStart(sessionId: string): Promise<LiveState> {
-    return this.command(sessionId, (s, _agenda, now) => {
-      const t = s.timer;
-      if (t.status === 'running' && remainingMs(t, now) > 0) return false;
-      const left = t.status === 'paused' ? remainingMs(t, now) : t.durationMs;
-      setJson(s, 'timer', runningTimer(t, now, left));
-    });
+    return this.timer(sessionId, (t, now) => startTimer(t, now));
   }
 
   /** Pauses a running countdown, keeping what is left. */
   timerPause(sessionId: string): Promise<LiveState> {
-    return this.command(sessionId, (s, _agenda, now) => {
-      const t = s.timer;
-      if (t.status === 'paused') return false;
-      if (t.status !== 'running') throw errors.conflict('The timer is not running');
-      setJson(s, 'timer', { status: 'paused', endsAt: null, remainingMs: remainingMs(t, now), durationMs: t.durationMs });
-    });
+    return this.timer(sessionId, (t, now) => pauseTimer(t, now));
   }
 
   /** Resumes a paused countdown (an idle one starts). */
   timerResume(sessionId: string): Promise<LiveState> {
-    return this.command(sessionId, (s, _agenda, now) => {
-      const t = s.timer;
-      if (t.status === 'running') return false;
-      if (t.status === 'ended') throw errors.conflict('The timer has ended');
-      setJson(s, 'timer', runningTimer(t, now, remainingMs(t, now)));
-    });
+    return this.timer(sessionId, (t, now) => resumeTimer(t, now));
   }
 
   /**
@@ -500,16 +476,7 @@ export class LiveService {
    * left never goes below 0, and an overrun timer given a minute has one minute again.
    */
   timerAdjust(sessionId: string, deltaMs: number): Promise<LiveState> {
-    return this.command(sessionId, (s, _agenda, now) => {
-      const t = s.timer;
-      if (t.status === 'ended') throw errors.conflict('The timer has ended');
-      const left = Math.max(0, remainingMs(t, now) + deltaMs);
-      // The timebox grows and shrinks with the adjustment but never below what is left, so a progress ring stays within 100 %.
-      const durationMs = Math.max(left, t.durationMs + deltaMs);
-      if (t.status === 'running') setJson(s, 'timer', { status: 'running', endsAt: now + left, remainingMs: null, durationMs });
-      else if (t.status === 'paused') setJson(s, 'timer', { status: 'paused', endsAt: null, remainingMs: left, durationMs });
-      else setJson(s, 'timer', { status: 'idle', endsAt: null, remainingMs: null, durationMs: left });
-    });
+    return this.timer(sessionId, (t, now) => adjustTimer(t, deltaMs, now));
   }
 
   /** Locks or unlocks input from the phones. */
@@ -586,7 +553,7 @@ export class LiveService {
    * answers with the first submission's id and `duplicate: true`.
    */
   async createSubmission(participantId: string, sessionId: string, input: SubmissionInput): Promise<{ id: string; duplicate: boolean }> {
-    const { Participant, Submission, LiveSession } = this.ctx.db.models;
+    const { Participant, Submission } = this.ctx.db.models;
     let created: { row: SubmissionRow; displayName: string } | null = null;
     const answer = await this.ctx.db
       .writeTx(async (transaction) => {
@@ -595,7 +562,7 @@ export class LiveService {
         // A retry of something already stored is answered before the checks, which may have changed since.
         const first = await Submission.findOne({ where: { participantId, clientId: input.clientId }, attributes: ['id'], transaction });
         if (first) return { id: first.id, duplicate: true };
-        const refused = inputGate(await LiveSession.findByPk(sessionId, { transaction }), true, input.itemId);
+        const refused = await this.gate(sessionId, true, input.itemId);
         if (refused) throw refused;
         for (const check of this.submissionChecks) await check(input, p, transaction);
         const row = await Submission.create(
@@ -718,6 +685,14 @@ export class LiveService {
     };
   }
 
+  /** The session's state without the room's counts: as kept while fresh, else read. */
+  private async baseState(sessionId: string): Promise<BaseState> {
+    const rt = this.runtime(sessionId);
+    const freshMs = this.ctx.config.redisUrl ? SHARED_STATE_FRESH_MS : STATE_FRESH_MS;
+    const fresh = rt.base && Date.now() - rt.base.at <= freshMs ? rt.base.state : null;
+    return fresh ?? (await this.loadBase(sessionId));
+  }
+
   /** Keeps a base state unless a newer version is already kept (a slow read must not undo a command). */
   private remember(base: BaseState): void {
     const rt = this.runtime(base.sessionId);
@@ -789,9 +764,12 @@ export class LiveService {
         s.version += 1;
         await s.save({ transaction });
       }
-      return { base: this.toBase(s, agenda, title), changed, session: s };
+      const next = this.toBase(s, agenda, title);
+      // Kept in the commit itself, before the writer runs the next transaction: the input gate of a dot
+      // or a note queued behind this change reads the state it made.
+      transaction.afterCommit(() => this.remember(next));
+      return { base: next, changed, session: s };
     });
-    this.remember(base);
     return { state: await this.stamp(base), changed, session };
   }
 
@@ -805,18 +783,25 @@ export class LiveService {
     return state;
   }
 
-  private move(sessionId: string, target: (from: number, count: number) => number): Promise<LiveState> {
+  /** Moves the room to another agenda item (shared/live-moves.ts): its run starts, its countdown waits, results are hidden again. */
+  private move(sessionId: string, target: MoveTarget): Promise<LiveState> {
     return this.command(sessionId, (s, agenda, now) => {
-      const from = currentIndexOf(s, agenda);
-      const to = target(from, agenda.length);
-      const item = agenda[to]!;
+      const to = applied(moveTarget(currentIndexOf(s, agenda), agenda.length, target));
+      if (to === false) return false;
+      const moved = moveTo(s.runs, agenda[to]!, now);
       s.currentIndex = to;
       s.revealed = false;
-      setJson(s, 'timer', idleTimer(item));
-      setJson(s, 'runs', [
-        ...s.runs.map((r) => (r.endedAt === null ? { ...r, endedAt: now } : r)),
-        { itemId: item.id, startedAt: now, endedAt: null },
-      ]);
+      setJson(s, 'timer', moved.timer);
+      setJson(s, 'runs', moved.runs);
+    });
+  }
+
+  /** Changes the countdown by one of its transitions (shared/live-moves.ts); an unchanged timer announces nothing. */
+  private timer(sessionId: string, transition: (timer: TimerState, now: number) => Transition<TimerState>): Promise<LiveState> {
+    return this.command(sessionId, (s, _agenda, now) => {
+      const next = applied(transition(s.timer, now));
+      if (next === false) return false;
+      setJson(s, 'timer', next);
     });
   }
 

@@ -3,13 +3,14 @@ import { UniqueConstraintError, type Transaction } from 'sequelize';
 import type { AppContext } from '../../context';
 import type { LiveSessionRow, VoteRow } from '../../db/models';
 import { AppError, errors } from '../../common/errors';
-import { inputGate, liveRooms, type LiveIo, type LiveService } from '../live/live.service';
+import { liveRooms, type LiveIo, type LiveService } from '../live/live.service';
 import { type BallotErrorCode, type Dot } from '../../../shared/tally';
 import { castDot, rulesFor } from '../../../shared/votes';
+import { runningItemId } from '../../../shared/input-gate';
 import { sortIntoTeams } from '../../../shared/team-sort';
 import type { SetTeamsPayload, Team } from '../../../shared/schemas/team';
 import { fieldErrors, type ErrorCode } from '../../../shared/errors';
-import type { LiveItem, LiveState } from '../../../shared/schemas/live';
+import type { LiveItem } from '../../../shared/schemas/live';
 import {
   MAX_OPTION_TEXT,
   VoteKind,
@@ -50,12 +51,6 @@ const BALLOT_ERROR: Record<BallotErrorCode, ErrorCode> = {
 
 /** Who asks for results: the facilitators see them any time, everyone else once they are revealed. */
 export type ResultsAsker = 'runner' | 'screen';
-
-/** The agenda item whose run is open (the one running now); a stopped session has none. */
-function runningItemId(session: LiveSessionRow): string | null {
-  const last = session.runs.at(-1);
-  return last && last.endedAt === null ? last.itemId : null;
-}
 
 /** Sets a JSON attribute and marks it changed (Sequelize does not see changes inside JSON values). */
 function setJson<K extends 'options' | 'rules' | 'chosen' | 'proposal'>(row: VoteRow, key: K, value: VoteRow[K]): void {
@@ -229,15 +224,10 @@ export class VotingService {
       async (transaction): Promise<{ refused: AppError } | { answer: BallotAnswer; applied: boolean }> => {
         // Read at the moment the write runs: a close, a lock or a move that came first has landed. A refusal
         // is answered to this dot alone (anything thrown here would roll back the whole batch).
-        let state: LiveState;
-        try {
-          state = await this.live.state(sessionId);
-        } catch (err) {
-          if (err instanceof AppError) return { refused: err };
-          throw err;
-        }
-        const refused = inputGate(state, true);
+        const refused = await this.live.gate(sessionId, true);
         if (refused) return { refused };
+        // The gate has read the state; this read is served from memory.
+        const state = await this.live.state(sessionId);
         // One read of the live state a vote: the current item is the vote's item.
         const item = state.item;
         if (!item || !VoteKind.safeParse(item.type).success) return { refused: errors.conflict('The current activity is not a vote') };
@@ -513,7 +503,7 @@ export class VotingService {
     const s = await this.ctx.db.models.LiveSession.findByPk(sessionId, { transaction });
     if (!s) throw errors.notFound('That live session');
     if (s.status === 'ended') throw errors.sessionEnded();
-    if (runningItemId(s) !== itemId) throw errors.conflict('That activity is not the current one any more; nothing was changed');
+    if (runningItemId(s.runs) !== itemId) throw errors.conflict('That activity is not the current one any more; nothing was changed');
     return s;
   }
 
@@ -575,7 +565,7 @@ export class VotingService {
         // A retry of something already applied is answered before the checks, which may have changed since.
         const again = await retried(transaction);
         if (again) return again;
-        const refused = inputGate(await this.ctx.db.models.LiveSession.findByPk(sessionId, { transaction }), true, item.id);
+        const refused = await this.live.gate(sessionId, true, item.id);
         if (refused) throw refused;
         const vote = await Vote.findOne({ where: { sessionId, itemId: item.id }, transaction });
         if (!vote || vote.status === 'draft') throw errors.conflict('Voting has not opened yet');
