@@ -303,40 +303,53 @@ export class LiveService {
     return { sessionId: session.id, workshopTitle: w.title, consentText: w.consentText };
   }
 
-  /** Joins a live session from a phone: the same device gets the same participant back, with the name and consent it gave last. */
+  /**
+   * Joins a live session from a phone: the same device gets the same participant back, with the name and consent it gave last.
+   * A room joins within a minute, so a join shares its transaction with the writes waiting beside it
+   * (`batchTx`) and reads and writes its row with prepared statements, not through the model layer.
+   */
   async join(code: string, body: JoinBody): Promise<JoinAnswer> {
-    const { Participant } = this.ctx.db.models;
     const session = await this.joinable(code);
-    const participant = await this.ctx.db.writeTx(async (transaction) => {
-      const now = new Date();
-      const found = await Participant.findOne({ where: { sessionId: session.id, deviceId: body.deviceId }, transaction });
-      if (found) {
-        found.set({ displayName: body.displayName, photoConsent: body.photoConsent, lastSeenAt: now });
-        await found.save({ transaction });
-        return found;
-      }
-      const p = await Participant.create(
-        {
-          id: crypto.randomUUID(),
-          sessionId: session.id,
-          deviceId: body.deviceId,
-          displayName: body.displayName,
-          photoConsent: body.photoConsent,
-          teamId: null,
-          email: null,
-          joinedAt: now,
-          lastSeenAt: now,
-        },
-        { transaction },
-      );
-      // Counted inside the writer, so a count read at the same time elsewhere cannot miss this join.
-      const rt = this.runtime(session.id);
-      if (rt.participantCount === null) rt.participantCount = await Participant.count({ where: { sessionId: session.id }, transaction });
-      else rt.participantCount += 1;
-      return p;
-    });
+    const rt = this.runtime(session.id);
+    const me = await this.ctx.db.batchTx(
+      async (transaction): Promise<Me> => {
+        const sql = this.ctx.db.raw(transaction);
+        // Dates as Sequelize writes them for SQLite, booleans as 0 and 1, so the model reads them back alike.
+        const now = new Date().toISOString().replace('T', ' ').replace('Z', ' +00:00');
+        const consent = body.photoConsent ? 1 : 0;
+        const [found] = await sql.all<{ id: string; teamId: string | null }>('SELECT id, teamId FROM participants WHERE sessionId = ? AND deviceId = ?', [
+          session.id,
+          body.deviceId,
+        ]);
+        if (found) {
+          await sql.run('UPDATE participants SET displayName = ?, photoConsent = ?, lastSeenAt = ? WHERE id = ?', [body.displayName, consent, now, found.id]);
+          return { id: found.id, displayName: body.displayName, photoConsent: body.photoConsent, teamId: found.teamId };
+        }
+        const id = crypto.randomUUID();
+        await sql.run(
+          'INSERT INTO participants (id, sessionId, deviceId, displayName, photoConsent, teamId, email, joinedAt, lastSeenAt) VALUES (?, ?, ?, ?, ?, NULL, NULL, ?, ?)',
+          [id, session.id, body.deviceId, body.displayName, consent, now, now],
+        );
+        // Counted inside the writer, so a count read at the same time elsewhere cannot miss this join.
+        if (rt.participantCount === null) {
+          const [row] = await sql.all<{ n: number }>('SELECT COUNT(*) AS n FROM participants WHERE sessionId = ?', [session.id]);
+          rt.participantCount = Number(row?.n ?? 0);
+        } else rt.participantCount += 1;
+        return { id, displayName: body.displayName, photoConsent: body.photoConsent, teamId: null };
+      },
+      // The batch rolled back: the count is read afresh.
+      () => {
+        rt.participantCount = null;
+      },
+    );
     this.scheduleTick(session.id);
-    return { token: this.ctx.tokens.signParticipant(participant.id, session.id), sessionId: session.id, me: toMe(participant) };
+    return { token: this.ctx.tokens.signParticipant(me.id, session.id), sessionId: session.id, me };
+  }
+
+  /** Where a participant's socket belongs (its session and team), or `null` when there is no such participant in the session; read when a phone connects. */
+  async placeOf(participantId: string, sessionId: string): Promise<{ id: string; sessionId: string; teamId: string | null } | null> {
+    const [p] = await this.ctx.db.read<{ id: string; sessionId: string; teamId: string | null }>('SELECT id, sessionId, teamId FROM participants WHERE id = ?', [participantId]);
+    return p && p.sessionId === sessionId ? p : null;
   }
 
   /** A participant of a session, or `null` when there is no such participant in it. */
@@ -635,8 +648,9 @@ export class LiveService {
     return row;
   }
 
-  private async joinable(code: string): Promise<LiveSessionRow> {
-    const row = await this.ctx.db.models.LiveSession.findOne({ where: { joinCode: code } });
+  private async joinable(code: string): Promise<{ id: string; workshopId: string }> {
+    // A prepared read: every phone of a room looks its code up once or twice within a minute.
+    const [row] = await this.ctx.db.read<{ id: string; workshopId: string; status: string }>('SELECT id, workshopId, status FROM live_sessions WHERE joinCode = ?', [code]);
     if (!row) throw new AppError(404, 'not_found', `No live session has the code ${code}; check the code on the big screen`);
     if (row.status !== 'live') throw new AppError(404, 'not_found', 'That live session has ended');
     return row;

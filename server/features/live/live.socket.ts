@@ -21,7 +21,7 @@ export function liveSessions(ctx: AppContext, live: LiveService): SocketSessions
     async attach(socket) {
       const data = socket.data;
       if (data.kind === 'participant' && data.participantId && data.sessionId) {
-        const p = await live.participantOf(data.participantId, data.sessionId);
+        const p = await live.placeOf(data.participantId, data.sessionId);
         // A token whose participant is gone (data deleted, workshop removed) connects but joins nothing.
         if (!p || socket.disconnected) return null;
         await socket.join([

@@ -230,7 +230,7 @@ export class VotingService {
         const state = await this.live.state(sessionId);
         // One read of the live state a vote: the current item is the vote's item.
         const item = state.item;
-        if (!item || !VoteKind.safeParse(item.type).success) return { refused: errors.conflict('The current activity is not a vote') };
+        if (!item || !(VoteKind.options as string[]).includes(item.type)) return { refused: errors.conflict('The current activity is not a vote') };
         const vote = await this.ledgers.vote(sessionId, item.id, transaction);
         if (!vote) return { refused: errors.conflict('Voting has not opened yet') };
         const ledger = await this.ledgers.ledger(vote.id, sessionId, transaction);
@@ -589,8 +589,16 @@ export class VotingService {
    * ballot in its answer, so it is left out), and the console's tally is due.
    */
   private afterBallot(sessionId: string, participantId: string, mine: MyBallot, fromSocket?: string): void {
-    const others = this.io?.to(liveRooms.participant(participantId));
-    (fromSocket ? others?.except(fromSocket) : others)?.emit('ballot:updated', mine);
+    const io = this.io;
+    const room = liveRooms.participant(participantId);
+    // Most phones are a participant's only socket: with nobody else in the room (and no other process
+    // to tell), the ballot is not encoded and broadcast to nobody on every vote.
+    const local = io?.sockets.adapter.rooms.get(room);
+    const alone = !this.ctx.config.redisUrl && (!local || (local.size === 1 && fromSocket !== undefined && local.has(fromSocket)));
+    if (io && !alone) {
+      const others = io.to(room);
+      (fromSocket ? others.except(fromSocket) : others).emit('ballot:updated', mine);
+    }
     this.tally.scheduleTally(sessionId, mine.itemId);
   }
 
