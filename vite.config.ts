@@ -28,7 +28,7 @@ function preloadFont(match: RegExp): Plugin {
 const serverPort = Number(process.env.PORT ?? 3000);
 
 /**
- * The message catalogs (src/i18n/locales/*.json) compiled at build time into vue-i18n's syntax trees, so
+ * The message catalogs (src/i18n/locales/*.json and src/i18n/facilitator/*.json) compiled at build time into vue-i18n's syntax trees, so
  * the browser runs vue-i18n's runtime without its message compiler (what vue-i18n's own bundler plugin
  * does; that plugin needs Node 22). A message that does not compile fails the build.
  */
@@ -51,7 +51,7 @@ function precompiledMessages(): Plugin {
     name: 'cairn-precompiled-messages',
     enforce: 'pre',
     transform(code, id) {
-      if (!/\/src\/i18n\/locales\/[a-z]+\.json$/.test(id)) return null;
+      if (!/\/src\/i18n\/(locales|facilitator)\/[a-z]+\.json$/.test(id)) return null;
       const tree = compileTree(JSON.parse(code), id.replace(/^.*\//, ''));
       // Still JSON: Vite's own JSON step makes the module of it.
       return { code: JSON.stringify(tree), map: null };

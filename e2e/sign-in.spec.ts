@@ -27,7 +27,8 @@ test('the demo facilitator signs in and sees the demo workshop', async ({ page }
   await signIn(page, DEMO.facilitator);
   const card = page.getByTestId('workshop-card').filter({ hasText: "A new member's first ride" });
   await expect(card).toBeVisible();
-  await expect(card).toContainText('You lead it');
+  await expect(card).toContainText('You: lead facilitator');
+  await expect(card).toContainText('Lead facilitator: ');
   await shot(page, 'workshops');
   expect(refused).toEqual([]);
   const results = await new AxeBuilder({ page }).analyze();

@@ -59,6 +59,24 @@ export async function setLocale(locale: Locale): Promise<void> {
   document.documentElement.lang = locale;
 }
 
+// The facilitator's screens (sign-in, workshops, plan, console, results) speak from their own catalogs, loaded
+// with the first of those screens, so a phone never downloads the facilitator's words.
+const facilitatorLoaders: Record<Locale, () => Promise<{ default: unknown }>> = {
+  en: () => import('./facilitator/en.json'),
+  de: () => import('./facilitator/de.json'),
+  es: () => import('./facilitator/es.json'),
+};
+const facilitatorLoaded = new Set<Locale>();
+
+/** Adds the facilitator's screens' messages (src/i18n/facilitator) to the catalog of the language shown now. */
+export async function loadFacilitatorMessages(): Promise<void> {
+  const locale = currentLocale.value;
+  if (facilitatorLoaded.has(locale)) return;
+  const catalog = await facilitatorLoaders[locale]();
+  i18n.global.mergeLocaleMessage(locale, catalog.default as MessageSchema);
+  facilitatorLoaded.add(locale);
+}
+
 /** Where a phone keeps the language its participant picked. */
 const PHONE_LOCALE_KEY = 'cairn.locale';
 

@@ -2,7 +2,7 @@ import { createRouter, createWebHistory, type RouteRecordRaw } from 'vue-router'
 import { useSessionStore } from '../stores/session';
 // In the first script: a phone's page then waits for one round of lazy files, not two.
 import PhoneLayout from '../layouts/PhoneLayout.vue';
-import { phoneLocale, setLocale } from '../i18n';
+import { loadFacilitatorMessages, phoneLocale, setLocale } from '../i18n';
 
 /**
  * Route meta: `public` routes need no sign-in; `admin` routes need the admin role; `phone` routes are a
@@ -76,7 +76,10 @@ export function createCairnRouter() {
     // A phone speaks its participant's language; the projector page takes its session's (live-projector.vue);
     // the facilitator's screens are English.
     if (to.meta.phone) await setLocale(phoneLocale());
-    else if (to.name !== 'live-projector') await setLocale('en');
+    else if (to.name !== 'live-projector') {
+      await setLocale('en');
+      await loadFacilitatorMessages();
+    }
     // A phone has no account: asking for the sign-in cookie would only cost it a round trip and a 401.
     if (to.meta.phone) return true;
     const session = useSessionStore();

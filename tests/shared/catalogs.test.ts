@@ -5,7 +5,11 @@ import { LOCALES, pickLocale, pluralIndex } from '../../shared/locales';
 import { PARTICIPANT_MAIL, participantMail } from '../../server/features/results/participant-mail';
 
 type Tree = { [key: string]: string | Tree };
-const catalog = (locale: string): Tree => JSON.parse(readFileSync(new URL(`../../src/i18n/locales/${locale}.json`, import.meta.url), 'utf8'));
+// Two sets of catalogs: the participant's screens' (locales/, loaded with the app) and the facilitator's
+// screens' (facilitator/, merged in when a facilitator's screen opens).
+const SETS = ['locales', 'facilitator'] as const;
+const catalog = (locale: string, set: (typeof SETS)[number] = 'locales'): Tree =>
+  JSON.parse(readFileSync(new URL(`../../src/i18n/${set}/${locale}.json`, import.meta.url), 'utf8'));
 
 /** Every message of a catalog by its dotted key. */
 function flatten(tree: Tree, prefix = ''): Map<string, string> {
@@ -24,11 +28,11 @@ function shape(message: string): { params: string[]; forms: number } {
   return { params: [...new Set(params)].sort(), forms: message.split(' | ').length };
 }
 
-describe('message catalogs', () => {
-  const en = flatten(catalog('en'));
+describe.each(SETS)('message catalogs (%s)', (set) => {
+  const en = flatten(catalog('en', set));
 
   it.each(LOCALES.filter((l) => l !== 'en'))('%s has every English key, with the same placeholders and plural forms, and nothing more', (locale) => {
-    const other = flatten(catalog(locale));
+    const other = flatten(catalog(locale, set));
     expect([...other.keys()].sort()).toEqual([...en.keys()].sort());
     for (const [key, message] of en) {
       expect({ key, ...shape(other.get(key)!) }).toEqual({ key, ...shape(message) });
@@ -36,11 +40,18 @@ describe('message catalogs', () => {
   });
 
   it.each(LOCALES)('every message of %s compiles', (locale) => {
-    for (const [key, message] of flatten(catalog(locale))) {
+    for (const [key, message] of flatten(catalog(locale, set))) {
       const errors: string[] = [];
       baseCompile(message, { jit: true, location: false, onError: (e) => errors.push(e.message) });
       expect({ key, errors }).toEqual({ key, errors: [] });
     }
+  });
+});
+
+describe('catalogs across sets', () => {
+  it('never share a top-level section, so merging the facilitator’s into a language overwrites nothing', () => {
+    const participant = Object.keys(catalog('en'));
+    for (const key of Object.keys(catalog('en', 'facilitator'))) expect(participant, key).not.toContain(key);
   });
 
   it('the participant e-mail has the same keys and placeholders in every language', () => {
