@@ -131,7 +131,7 @@ export class MembersService {
     }
     const w = await this.db.models.Workshop.findByPk(inv.workshopId);
     if (!w) throw errors.notFound('That workshop');
-    if (w.ownerId === user.id) throw errors.conflict('You already lead this workshop');
+    if (w.ownerId === user.id) throw errors.conflict('You are this workshop’s lead facilitator already');
     await this.db.writeTx(async (transaction) => {
       const { Membership } = this.db.models;
       const m = await Membership.findOne({ where: { workshopId: inv.workshopId, userId: user.id }, transaction });

@@ -349,7 +349,7 @@ export function renderReportPdf(r: WorkshopResults, photos: Map<string, Buffer> 
   w.write('Cairn · Workshop report', { size: 10, weight: 'bold', color: INK.teal, gap: 4 });
   w.write(r.workshop.title, { size: 22, weight: 'bold', gap: 4 });
   w.write(
-    `${dayText(r.workshop.date, 'en-GB')} · ${r.workshop.window.start}–${r.workshop.window.end} · led by ${r.workshop.ownerName}` +
+    `${dayText(r.workshop.date, 'en-GB')} · ${r.workshop.window.start}–${r.workshop.window.end} · lead facilitator: ${r.workshop.ownerName}` +
       ` · ${r.participation.joined} ${r.participation.joined === 1 ? 'participant' : 'participants'} joined`,
     { color: INK.muted, gap: 2 },
   );
