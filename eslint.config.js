@@ -53,6 +53,9 @@ export default tseslint.config(
       'src/pages/live-console.vue',
       'src/components/live/DriftPanel.vue',
       'src/components/plan/PeoplePanel.vue',
+      'src/components/plan/SessionsPanel.vue',
+      'src/components/results/RetentionPanel.vue',
+      'src/components/results/SendReportDialog.vue',
     ],
     plugins: { '@intlify/vue-i18n': vueI18n },
     settings: { 'vue-i18n': { localeDir: './src/i18n/facilitator/*.json', messageSyntaxVersion: '^11.0.0' } },
@@ -60,7 +63,7 @@ export default tseslint.config(
       '@intlify/vue-i18n/no-raw-text': [
         'error',
         {
-          ignorePattern: '^[-#:()&·×←→✓…/+—′\\s\\d]+$',
+          ignorePattern: '^[-–#:()&·×←→✓…/+—′\\s\\d]+$',
           ignoreText: ['Cairn'],
           attributes: { '/.+/': ['label', 'title', 'placeholder', 'hint', 'aria-label', 'alt', 'error-message', 'no-data-label'] },
         },

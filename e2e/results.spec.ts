@@ -170,7 +170,7 @@ test('after a short live run: the results page, the notes and tallies CSV as the
   await expect(observer.getByTestId('results-title')).toBeVisible();
   await expect(observer.getByTestId('open-send')).toHaveCount(0);
   await expect(observer.getByTestId('retention-delete-now')).toHaveCount(0);
-  await expect(observer.getByTestId('retention-panel')).toContainText('Only the workshop');
+  await expect(observer.getByTestId('retention-panel')).toContainText('Only the lead facilitator');
 
   // The admin's dev inbox holds both messages; Ana's carries the PDF.
   const adminContext = await browser.newContext({ viewport: { width: 1280, height: 900 } });

@@ -91,3 +91,19 @@ export async function choosePhoneLocale(locale: Locale): Promise<void> {
   localStorage.setItem(PHONE_LOCALE_KEY, locale);
   await setLocale(locale);
 }
+
+/** One piece of a message cut at its placeholders: plain text, or the name of the placeholder that stands there. */
+export type MessagePart = { text: string; slot?: undefined } | { slot: string; text?: undefined };
+
+/**
+ * A translated message cut at the named placeholders, so a template can put an element (a count with a test
+ * hook, a bold time) where each stands, in whatever order the language puts them.
+ * @example messageParts(t, 'console.inRoom', ['online', 'joined']) // [{ text: 'In the room: ' }, { slot: 'online' }, …]
+ */
+export function messageParts(t: (key: string, named: Record<string, string>) => string, key: string, slots: readonly string[]): MessagePart[] {
+  const marks = Object.fromEntries(slots.map((name, i) => [name, `\uE000${i}\uE000`]));
+  return t(key, marks)
+    .split(/\uE000(\d+)\uE000/)
+    .map((piece, i) => (i % 2 === 1 ? { slot: slots[Number(piece)]! } : { text: piece }))
+    .filter((part) => part.slot !== undefined || part.text !== '');
+}
