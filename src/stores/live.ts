@@ -142,7 +142,9 @@ export const useLiveStore = defineStore('live', () => {
     socket.value = s;
     s.on('connect', async () => {
       connected.value = true;
-      await syncClock();
+      // The screen's state first, the clock estimate beside it: its round trips (five, on a phone's slow
+      // link most of a second) would otherwise hold back the first screen.
+      const clock = syncClock();
       try {
         if (opts.watch) {
           accept(await ask('session:watch', { sessionId: opts.watch }));
@@ -154,6 +156,7 @@ export const useLiveStore = defineStore('live', () => {
           }
           void outbox.flush();
         }
+        await clock;
         attached.value += 1;
       } catch (err) {
         connectError.value = err instanceof ClientError ? err.message : 'Could not reach the session';
