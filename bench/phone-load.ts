@@ -5,6 +5,9 @@
  * 1.6 Mbps down, 150 ms round trip: Lighthouse's mobile preset), sums the bytes that crossed the wire
  * by kind, reads the first contentful paint, and runs Lighthouse (`--no-lighthouse` skips it). Prints a
  * table against the targets and writes JSON (`--json FILE`, default bench/results/phone-load.json).
+ * The joined phone holds what a phone that follows the session holds: its token and the last screen it
+ * showed (src/stores/live.ts keeps it on every change), read here through a participant's socket;
+ * `--no-last-seen` loads it with the token only, as if the phone had never shown a screen.
  */
 import { CHROMIUM_FLAGS } from '../e2e/chromium';
 import fs from 'node:fs';
@@ -27,6 +30,7 @@ const arg = (name: string, fallback: string) => {
 const JSON_FILE = arg('json', path.join('bench', 'results', 'phone-load.json'));
 const RUNS = Number(arg('runs', '3'));
 const WITH_LIGHTHOUSE = !args.includes('--no-lighthouse');
+const WITH_LAST_SEEN = !args.includes('--no-last-seen');
 const CHROME = process.env.CHROME_PATH ?? '/usr/bin/chromium';
 /** Lighthouse's mobile preset (lighthouse core/config/constants.js, `throttling.mobileSlow4G`): 150 ms, 1,638.4 kbit/s, 4× CPU. */
 const PHONE = { rttMs: 150, downKbps: 1638.4, upKbps: 750, cpuSlowdown: 4 };
@@ -96,6 +100,14 @@ async function loadOnce(browser: Browser, url: string, ready: string, storage: R
   return load;
 }
 
+/** The largest contentful paint's element and phases, as Lighthouse's `largest-contentful-paint-element` audit gives them. */
+function lcpElementOf(details: unknown): string {
+  const tables = (details as { items?: { items?: Record<string, unknown>[] }[] } | undefined)?.items ?? [];
+  const node = tables[0]?.items?.[0]?.node as { snippet?: string } | undefined;
+  const phases = (tables[1]?.items ?? []).map((p) => `${String(p.phase)} ${Math.round(Number(p.timing))} ms`);
+  return [node?.snippet ?? '?', ...phases].join('; ');
+}
+
 /** Lighthouse's mobile run on `url` (its default config), with `storage` put in localStorage first. */
 async function audit(url: string, storage: Record<string, string>) {
   const chrome = await chromeLauncher.launch({ chromePath: CHROME, chromeFlags: CHROMIUM_FLAGS });
@@ -132,6 +144,8 @@ async function audit(url: string, storage: Record<string, string>) {
       fcpMs: lhr.audits['first-contentful-paint']!.numericValue ?? NaN,
       lcpMs: lhr.audits['largest-contentful-paint']!.numericValue ?? NaN,
       tbtMs: lhr.audits['total-blocking-time']!.numericValue ?? NaN,
+      // Which element Lighthouse took as the largest paint, and when its phases ended (time to first byte, load delay, load, render delay).
+      lcpElement: lcpElementOf(lhr.audits['largest-contentful-paint-element']?.details),
       failing: [...failing('performance'), ...failing('accessibility'), ...failing('best-practices')],
       // What a failing best-practices or accessibility audit found, so a point lost says where.
       findings: [...failing('accessibility'), ...failing('best-practices')].map((f) => {
@@ -191,6 +205,19 @@ async function main(): Promise<void> {
     const only = arg('only', '');
     for (const route of routes.filter((r) => r.name.includes(only))) {
       if (route.index !== undefined) await goto(route.index);
+      if (route.index !== undefined && WITH_LAST_SEEN) {
+        // What the phone's page keeps under `cairn.last.<session>` once it has shown this item.
+        const phone = ioClient(base, { auth: { token: joined.token }, transports: ['websocket'] });
+        const answer = async (event: 'session:sync' | 'participant:me') => {
+          const a = (await phone.timeout(10_000).emitWithAck(event, {})) as { data?: unknown; error?: { message: string } };
+          if (!('data' in a)) throw new Error(`${event}: ${a.error?.message}`);
+          return a.data;
+        };
+        const state = await answer('session:sync');
+        const me = await answer('participant:me');
+        phone.disconnect();
+        route.storage = { ...route.storage, [`cairn.last.${joined.sessionId}`]: JSON.stringify({ state, me }) };
+      }
       const loads: Load[] = [];
       for (let i = 0; i < RUNS; i++) loads.push(await loadOnce(browser, route.url, route.ready, route.storage));
       const last = loads[loads.length - 1]!;
@@ -213,10 +240,11 @@ async function main(): Promise<void> {
       console.log(
         `${route.name.padEnd(18)} ${String(row.requests).padStart(3)} requests  JS ${String(row.jsKB).padStart(6)} kB  CSS ${String(row.cssKB).padStart(5)} kB  fonts ${String(row.fontKB).padStart(5)} kB  other ${String(row.otherKB).padStart(5)} kB  total ${String(row.totalKB).padStart(6)} kB  FCP ${row.fcpMs} ms (median of ${RUNS})` +
           (lh
-            ? `\n${''.padEnd(18)} Lighthouse performance ${lh.performance} accessibility ${lh.accessibility} best practices ${lh.bestPractices} (FCP ${Math.round(lh.fcpMs)} ms, LCP ${Math.round(lh.lcpMs)} ms, TBT ${Math.round(lh.tbtMs)} ms)${lh.failing.length ? `\n${''.padEnd(18)} below 1: ${lh.failing.join(', ')}` : ''}${lh.findings.map((f) => `\n${''.padEnd(18)} ${f}`).join('')}${lh.problem ? `\n${''.padEnd(18)} Lighthouse could not finish: ${lh.problem}` : ''}`
+            ? `\n${''.padEnd(18)} Lighthouse performance ${lh.performance} accessibility ${lh.accessibility} best practices ${lh.bestPractices} (FCP ${Math.round(lh.fcpMs)} ms, LCP ${Math.round(lh.lcpMs)} ms, TBT ${Math.round(lh.tbtMs)} ms)\n${''.padEnd(18)} LCP element: ${lh.lcpElement}${lh.failing.length ? `\n${''.padEnd(18)} below 1: ${lh.failing.join(', ')}` : ''}${lh.findings.map((f) => `\n${''.padEnd(18)} ${f}`).join('')}${lh.problem ? `\n${''.padEnd(18)} Lighthouse could not finish: ${lh.problem}` : ''}`
             : ''),
       );
     }
+    console.log(WITH_LAST_SEEN ? 'the joined phone held its last screen (as after a reload)' : 'the joined phone held its token only (--no-last-seen)');
     console.log(
       `targets: JS ≤ ${TARGETS.jsKB} kB and total ≤ ${TARGETS.totalKB} kB compressed per route, FCP ≤ ${TARGETS.fcpMs} ms on /join, Lighthouse performance ≥ ${TARGETS.performance}, accessibility ${TARGETS.accessibility}, best practices ${TARGETS.bestPractices}`,
     );
