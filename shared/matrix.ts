@@ -65,6 +65,24 @@ export function levelOf(dots: number, mostDots: number, means: DotMeans): Level 
 }
 
 /**
+ * Where an option sits along one axis of the matrix plot, from 0 (low on the criterion) to 1 (high): the
+ * plot always runs from low to high (the first criterion from the bottom up, the second from left to
+ * right), so with impact up and effort across the best quadrant, high impact and low effort, is the
+ * top left (the usual reading of an impact/effort matrix, common practice). A dot that means "high"
+ * moves the option towards high; a dot that means "low" (effort: "a dot for each idea that would be easy
+ * to do") towards low. Above 0.5 is exactly {@link levelOf}'s "high", below it "low"; an option at
+ * exactly half the most dots sits on the dividing line. With no dots at all every option sits at the end
+ * {@link levelOf} gives it. Refuses dots that are not finite numbers.
+ * @example plotPosition(5, 5, 'low') // 0: the most "easy" dots is the lowest effort, at the left
+ */
+export function plotPosition(dots: number, mostDots: number, means: DotMeans): number {
+  finite('Dots', dots);
+  finite('The most dots', mostDots);
+  const share = mostDots > 0 ? Math.min(1, Math.max(0, dots / mostDots)) : 0;
+  return means === 'high' ? share : 1 - share;
+}
+
+/**
  * Ranks options by the criteria matrix of two criteria: by quadrant in {@link QUADRANT_ORDER} (first
  * criterion high and second low first: "high impact and low effort first", common practice), inside a
  * quadrant by the first criterion (higher first), then by the second (lower first; Cairn's own order

@@ -187,7 +187,16 @@ export const ResultSection = z.discriminatedUnion('kind', [
     /** The options across the cut-off got no votes at all: no tie, places to fill by picking. */
     unvotedAtCutoff: z.boolean().optional(),
     /** The criteria matrix of a dot vote with two criteria or more (first criterion up, second across). */
-    matrix: z.object({ xLabel: z.string(), yLabel: z.string(), points: z.array(MatrixPoint) }).nullable(),
+    matrix: z
+      .object({
+        xLabel: z.string(),
+        yLabel: z.string(),
+        /** What a dot means under each criterion (shared/matrix.ts): sets which way the plot's axes run. */
+        xMeans: z.enum(['high', 'low']),
+        yMeans: z.enum(['high', 'low']),
+        points: z.array(MatrixPoint),
+      })
+      .nullable(),
     /** The pairwise table of a preference vote: `d[i][j]` voters prefer option i to option j. */
     pairwise: z.object({ labels: z.array(z.string()), d: z.array(z.array(z.number())) }).nullable(),
     voters: z.number().int(),

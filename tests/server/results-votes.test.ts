@@ -111,6 +111,8 @@ describe('vote results on the results page', () => {
     expect(v.matrix).toEqual({
       xLabel: 'Effort',
       yLabel: 'Impact',
+      xMeans: 'high',
+      yMeans: 'high',
       // In the matrix's order (shared/matrix.ts; high impact and low effort first, common practice). These criteria
       // set no direction, so a dot means "high" on both: most impact 3 (split 1.5), most effort 1 (split 0.5).
       points: [

@@ -89,6 +89,8 @@ describe('a dot vote on impact and effort', () => {
     expect(v.tables.map((tb) => tb.label)).toEqual(['Impact', 'Effort']);
     for (const table of v.tables) expect(table.rows.some((row) => row.selected), table.label).toBe(false);
     expect(v.matrix!.points.map((p) => p.quadrant)).toEqual(['Impact high · Effort low', 'Impact high · Effort high', 'Impact low · Effort low']);
+    // A dot on effort means "easy to do": the plot runs effort the other way from the dots (shared/matrix.ts plotPosition).
+    expect(v.matrix).toMatchObject({ xMeans: 'low', yMeans: 'high' });
   });
 
   it('writes the same ranking and quadrants to the tallies CSV', async () => {

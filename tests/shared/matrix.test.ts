@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { dotMeaning, levelOf, QUADRANT_ORDER, quadrantName, rankByMatrix, rankingName } from '../../shared/matrix';
+import { dotMeaning, levelOf, plotPosition, QUADRANT_ORDER, quadrantName, rankByMatrix, rankingName } from '../../shared/matrix';
 import { IMPACT_EFFORT_CRITERIA } from '../../shared/activities';
 import { VoteRules } from '../../shared/schemas/voting';
 
@@ -120,5 +120,40 @@ describe('what each criterion says on the phone', () => {
     expect(VoteRules.safeParse({ ...base, criteria: [...IMPACT_EFFORT_CRITERIA], rankBy: 'matrix' }).success).toBe(true);
     expect(VoteRules.safeParse({ ...base, criteria: [IMPACT_EFFORT_CRITERIA[0]], rankBy: 'matrix' }).success).toBe(false);
     expect(VoteRules.safeParse({ ...base, criteria: [{ id: 'matrix', label: 'Matrix' }, IMPACT_EFFORT_CRITERIA[0]], rankBy: 'overall' }).success).toBe(false);
+  });
+});
+
+describe('plotPosition: the plot reads high impact at the top and low effort at the left', () => {
+  // Common practice (the usual impact/effort matrix, CHECKS.md "high impact & low effort first"): impact
+  // runs up, effort runs across from low at the left to high at the right, so the "quick wins" quadrant
+  // (high impact, low effort) is the top left. 0 is the low end of an axis, 1 the high end.
+  it('puts a quick win top left when a dot on effort means "easy to do"', () => {
+    // Most impact dots 4, most "easy" dots 5. A welcome ride: impact 4, easy 5 → top (1), left (0).
+    expect(plotPosition(4, 4, 'high')).toBe(1);
+    expect(plotPosition(5, 5, 'low')).toBe(0);
+    // No "easy" dots: effort high, at the right.
+    expect(plotPosition(0, 5, 'low')).toBe(1);
+  });
+
+  it('puts an option with many effort dots at the right when a dot on effort means "a lot of effort"', () => {
+    expect(plotPosition(3, 3, 'high')).toBe(1);
+    expect(plotPosition(0, 3, 'high')).toBe(0);
+  });
+
+  it('agrees with the quadrant names: above the middle is exactly levelOf\'s "high"', () => {
+    for (const means of ['high', 'low'] as const) {
+      for (let most = 0; most <= 6; most++) {
+        for (let dots = 0; dots <= most; dots++) {
+          const pos = plotPosition(dots, most, means);
+          if (pos !== 0.5) expect(pos > 0.5 ? 'high' : 'low', `${dots}/${most} ${means}`).toBe(levelOf(dots, most, means));
+        }
+      }
+    }
+    // The quadrant placed top left is the first in the ranking's order: high impact, low effort.
+    expect(QUADRANT_ORDER[0]).toEqual({ y: 'high', x: 'low' });
+  });
+
+  it('refuses dots that are not finite numbers', () => {
+    expect(() => plotPosition(Number.NaN, 3, 'high')).toThrow(RangeError);
   });
 });

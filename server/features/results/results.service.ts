@@ -284,6 +284,8 @@ export function voteSection(v: VoteResults): Extract<ResultSection, { kind: 'vot
         ? {
             xLabel,
             yLabel,
+            xMeans: criteria.find((c) => c.id === v.matrix?.xCriterionId)?.dotMeans ?? 'high',
+            yMeans: criteria.find((c) => c.id === v.matrix?.yCriterionId)?.dotMeans ?? 'high',
             points: v.matrix.points.map((p) => ({ optionId: p.optionId, x: p.x, y: p.y, label: label.get(p.optionId) ?? '', quadrant: quadrant.get(p.optionId) ?? '' })),
           }
         : null,
