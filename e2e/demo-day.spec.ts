@@ -216,12 +216,11 @@ test('the demo day with five phones: every activity hands the next what it made'
   await expect(setup.getByTestId('criterion-hint').nth(1)).toHaveValue('a dot for each idea that would be easy to do');
   await snap('vote-setup');
   await setup.getByLabel('Carry forward (top N)').fill('2');
-  // Seen in two runs of five under heavy load: a tap on "Save the vote" right after a full-page screenshot did
-  // nothing (no answer, no message). Tap again if the vote is not set up after a while (see the report).
-  await expect(async () => {
-    if (await setup.getByTestId('save-vote').isVisible()) await setup.getByTestId('save-vote').click();
-    await expect(consolePage.getByTestId('open-vote')).toBeVisible({ timeout: 10_000 });
-  }).toPass({ timeout: 60_000 });
+  // One tap saves (or says why in save-vote-problem): a second tap while it is on its way changes nothing.
+  await setup.getByTestId('save-vote').click();
+  await expect(consolePage.getByTestId('open-vote').or(consolePage.getByTestId('save-vote-problem'))).toBeVisible({ timeout: 30_000 });
+  await expect(consolePage.getByTestId('save-vote-problem')).toHaveCount(0);
+  await expect(consolePage.getByTestId('open-vote')).toBeVisible();
   await consolePage.getByTestId('open-vote').click();
   await expect(consolePage.getByTestId('vote-status')).toHaveText('Voting open');
   await expect(ana.getByTestId('criterion-meaning-effort')).toHaveText('Effort: a dot for each idea that would be easy to do');

@@ -186,7 +186,8 @@ export const useVotingStore = defineStore('voting', () => {
   async function setup(payload: VoteSetupPayload): Promise<void> {
     takeVote(await ask('vote:setup', payload));
     results.value = null;
-    if (itemId.value) await refresh(itemId.value, true);
+    // The vote is saved: a slow refresh of the tallies must not read as a failed save (the next update brings them).
+    if (itemId.value) await refresh(itemId.value, true).catch(() => undefined);
   }
 
   /** Opens or closes the current vote. */
