@@ -215,6 +215,21 @@ describe('templates', () => {
     expect(text).toMatch(/first ride/);
   });
 
+  it("writes the demo's and the templates' dot-vote prompts with {dots}, never a number of dots (Cairn's own rule)", () => {
+    const demo = demoAgenda(counter());
+    const votes = [...demo.items, ...instantiateTemplate('full-day', counter()).items, ...instantiateTemplate('half-day', counter()).items].filter((i) => i.type === 'dot_vote');
+    expect(votes.length).toBeGreaterThanOrEqual(3);
+    for (const vote of votes) {
+      expect(vote.prompt, vote.title).toContain('{dots}');
+      // No count of dots written out ("3 dots", "three dots"): the screens take it from the vote's budget.
+      expect(vote.prompt.replaceAll('{dots}', ''), vote.title).not.toMatch(/\b(\d+|one|two|three|four|five|six)\s+dots?\b/i);
+      // The demo's vote as the phones show it with a budget of 2, and of 4.
+      expect(showPrompt(vote, 2)).toMatch(/\b2 dots\b/);
+      expect(showPrompt(vote, 4)).toMatch(/\b4 dots\b/);
+      expect(showPrompt(vote, 4)).not.toMatch(/\b3 dots\b/);
+    }
+  });
+
   it('instantiates with fresh ids and a copy the caller may change', () => {
     const ids = ['a', 'b', 'c', 'd', 'e', 'f', 'g', 'h', 'i', 'j', 'k', 'l', 'm', 'n', 'o', 'p', 'q'];
     let n = 0;
