@@ -58,6 +58,8 @@ export default tseslint.config(
       'src/components/results/SendReportDialog.vue',
       'src/pages/workshop-plan.vue',
       'src/components/plan/ScheduleSummary.vue',
+      'src/pages/packing-list.vue',
+      'src/components/plan/AgendaBuilder.vue',
     ],
     plugins: { '@intlify/vue-i18n': vueI18n },
     settings: { 'vue-i18n': { localeDir: './src/i18n/facilitator/*.json', messageSyntaxVersion: '^11.0.0' } },
