@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import * as pdfjs from 'pdfjs-dist/legacy/build/pdf.mjs';
 import { addMember, bearer, createStranger, liveDay, startTestApp, type LiveDay, type TestAccount, type TestApp } from './helpers';
-import { renderReportPdf } from '../../server/features/results/report.service';
+import { renderReportPdf } from '../../server/features/results/report-content';
 import { ResultsService } from '../../server/features/results/results.service';
 
 let t: TestApp;
