@@ -18,9 +18,15 @@ test('planning a client afternoon: template times, fields aligned, activities ad
   const dialog = page.getByRole('dialog', { name: 'New workshop' });
   await expect(dialog.getByRole('radio', { name: /full day \(10:00–16:00\)/ })).toBeVisible();
   await expect(dialog.getByRole('radio', { name: /half day \(13:00–17:00\)/ })).toBeVisible();
-  // Polled: the dialog slides in, and both boxes move until it has.
-  const leftEdges = async () => Promise.all(['new-title', 'new-date'].map(async (id) => (await page.getByTestId(id).boundingBox())!.x));
-  await expect.poll(async () => Math.abs((await leftEdges()).reduce((a, b) => a - b))).toBeLessThanOrEqual(1);
+  // Polled: the dialog slides in, and every box moves until it has. The date field and the template radios'
+  // circles line up with the title field's left edge.
+  const leftEdges = async () =>
+    Promise.all([
+      ...['new-title', 'new-date'].map(async (id) => (await page.getByTestId(id).boundingBox())!.x),
+      ...(await dialog.getByTestId('template').locator('.q-radio__bg').all()).map(async (circle) => (await circle.boundingBox())!.x),
+    ]);
+  await expect.poll(async () => (await leftEdges()).length).toBe(5);
+  await expect.poll(async () => { const x = await leftEdges(); return Math.max(...x) - Math.min(...x); }).toBeLessThanOrEqual(1);
   await shot(page, 'planning-new-workshop-1280x800');
   await page.getByLabel('Title').fill(TITLE);
   await page.getByLabel('Objective: what should the organisation learn or improve?').fill('Find out what keeps members from fixing their own bikes.');
