@@ -383,6 +383,15 @@ test('the demo day with five phones: every activity hands the next what it made'
   await expect(main.getByTestId('vote-row').first()).toContainText(UNLOCK);
   await expect(main.getByTestId('vote-row').first().getByTestId('vote-row-quadrant')).toHaveText('Impact high · Effort low');
   await expect(main.locator('.badge-chosen')).toHaveCount(2);
+  // The plot reads the usual way (common practice): impact up, effort from low (left) to high (right), so the
+  // first option of the matrix ranking (Impact high · Effort low, unlocking) sits in the top-left quadrant.
+  const plot = vote.getByTestId('criteria-matrix');
+  await expect(plot.getByTestId('plot-quadrant-high-low')).toHaveText('Impact high · Effort low');
+  const first = plot.getByTestId('plot-point-1');
+  // The SVG's plot area runs x 40–404 and y 12–264 (CriteriaMatrixPlot.vue): its middle is 222, 138.
+  expect(Number(await first.getAttribute('data-x'))).toBeLessThan(222);
+  expect(Number(await first.getAttribute('data-y'))).toBeLessThan(138);
+  await plot.screenshot({ path: path.join(OUT, 'results-criteria-matrix.png') });
   await expect(vote.locator('[data-test^="vote-table-"]:not([data-test="vote-table-main"]) .badge-chosen')).toHaveCount(0);
   // The participation table counts the vote's ballots, not notes.
   await expect(consolePage.getByTestId('participation-row').filter({ hasText: 'Pick the challenges' }).getByTestId('contributions')).toHaveText('5 ballots');

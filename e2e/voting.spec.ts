@@ -61,6 +61,26 @@ test('a dot vote with two criteria tallied live, revealed, carried forward into 
   await expect(projectorVote.getByTestId('projector-options')).toContainText(DOCK);
   await expect(projectorVote).not.toContainText(/[0-9]/);
 
+  // At 360 px the sticky line (criterion and dots left) stays one line; what a dot means sits below it.
+  await phones[0]!.setViewportSize({ width: 360, height: 640 });
+  for (const c of ['impact', 'effort']) {
+    const left = phones[0]!.getByTestId(`dots-left-${c}`);
+    const meaning = phones[0]!.getByTestId(`criterion-meaning-${c}`);
+    await expect(meaning).toBeVisible();
+    await expect
+      .poll(() =>
+        left.evaluate((el, m) => {
+          const head = el.parentElement!.getBoundingClientRect();
+          const line = parseFloat(getComputedStyle(el).lineHeight) || el.getBoundingClientRect().height;
+          const pad = parseFloat(getComputedStyle(el.parentElement!).paddingTop) + parseFloat(getComputedStyle(el.parentElement!).paddingBottom);
+          const mean = document.querySelector(`[data-test="criterion-meaning-${m}"]`)!;
+          return { oneLine: head.height - pad < 2 * line, inside: el.parentElement!.contains(mean), below: mean.getBoundingClientRect().top >= head.bottom - 0.5 };
+        }, c),
+      )
+      .toEqual({ oneLine: true, inside: false, below: true });
+  }
+  await phones[0]!.setViewportSize({ width: 390, height: 844 });
+
   // Five phones vote; the console's tally follows each one.
   for (const [i, p] of phones.entries()) {
     await expect(p.getByTestId('dot-option')).toHaveCount(8);
