@@ -18,11 +18,12 @@ test('planning a client afternoon: template times, fields aligned, activities ad
   const dialog = page.getByRole('dialog', { name: 'New workshop' });
   await expect(dialog.getByRole('radio', { name: /full day \(10:00–16:00\)/ })).toBeVisible();
   await expect(dialog.getByRole('radio', { name: /half day \(13:00–17:00\)/ })).toBeVisible();
-  // Polled: the dialog slides in, and every box moves until it has. The date field and the template radios'
-  // circles line up with the title field's left edge.
+  // Polled: the dialog slides in, and every box moves until it has. The date field's outline and the template
+  // radios' circles line up with the title field's outline.
   const leftEdges = async () =>
     Promise.all([
-      ...['new-title', 'new-date'].map(async (id) => (await page.getByTestId(id).boundingBox())!.x),
+      // The fields' outlines, not the text boxes inside them.
+      ...['new-title', 'new-date'].map((id) => page.getByTestId(id).evaluate((el) => (el.closest('.q-field')?.querySelector('.q-field__control') ?? el).getBoundingClientRect().x)),
       ...(await dialog.getByTestId('template').locator('.q-radio__bg').all()).map(async (circle) => (await circle.boundingBox())!.x),
     ]);
   await expect.poll(async () => (await leftEdges()).length).toBe(5);
