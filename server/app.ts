@@ -30,6 +30,7 @@ import { membersRoutes } from './features/members/members.router';
 import { registerClockSocket } from './features/clock/clock.socket';
 import { ParticipantSockets, limitSocketEvents } from './common/socket-rate-limit';
 import { shareBroadcasts } from './common/scale-out';
+import { Announcer } from './common/announcer';
 import { LiveService } from './features/live/live.service';
 import { liveRoutes } from './features/live/live.router';
 import { sessionsRoutes } from './features/live/sessions.router';
@@ -169,12 +170,15 @@ export async function createApp(config: Config): Promise<CairnApp> {
   const users = new UsersService(db, config.allowSignup);
   // Deleting a workshop also deletes its photos' files (after the commit).
   const workshops = new WorkshopsService(db, (sessionIds, t) => activityPhotos.erase(ctx, sessionIds, t));
+  // Built before the services, which announce through it; socket.io is attached to it once it exists.
+  const announcer = new Announcer(logger);
   const ctx: AppContext = {
     config,
     db,
     tokens,
     mail,
     logger,
+    announcer,
     auth,
     workshopRoleOf: (user, workshopId) => workshops.roleOf(user, workshopId),
     accountRoleOf: (userId, workshopId, tokenVersion) => workshops.roleOfAccount(userId, workshopId, tokenVersion),
@@ -265,15 +269,11 @@ export async function createApp(config: Config): Promise<CairnApp> {
   });
   // Several processes behind sticky sessions share broadcasts through Redis (docs/scaling.md).
   const stopSharing = config.redisUrl ? await shareBroadcasts(io, config.redisUrl) : null;
-  live.attach(io);
+  announcer.attach(io, { shared: stopSharing !== null });
   watchAccountChanges(io, ctx);
   const teams = new TeamsService(ctx);
-  teams.attach(io);
   voting.useTeams(teams);
-  activities.attach(io);
-  voting.attach(io);
-  const pages = new PagesService();
-  pages.attach(io);
+  const pages = new PagesService(announcer);
   // Every socket command, declared in shared/events.ts, gets its handler once here.
   const commands = new SocketCommands(liveSessions(ctx, live), ctx.logger);
   registerClockSocket(commands);
@@ -299,9 +299,8 @@ export async function createApp(config: Config): Promise<CairnApp> {
     commands,
     async close() {
       // First, so the disconnects below schedule no announcements against a closing database.
+      announcer.close();
       live.close();
-      activities.close();
-      voting.close();
       await retention.stop();
       io.disconnectSockets(true);
       await new Promise<void>((resolve) => io.close(() => resolve()));

@@ -6,6 +6,7 @@ import type { UserRow } from './db/models';
 import type { TokenService, TokenProblem } from './common/tokens';
 import type { WorkshopAccessRole } from './common/access';
 import type { Mailer } from './features/mail/mail.service';
+import type { Announcer } from './common/announcer';
 
 /** Who is calling: nobody, an account, a participant, a projector screen, or someone whose token was refused. */
 export type Caller =
@@ -22,6 +23,8 @@ export interface AppContext {
   tokens: TokenService;
   mail: Mailer;
   logger: Logger;
+  /** The one way to tell screens what changed (server/common/announcer.ts), attached to socket.io once it exists. */
+  announcer: Announcer;
   auth: { callerOf(req: Request): Promise<Caller>; callerOfToken(token: string | undefined): Promise<Caller> };
   /** The account's role on a workshop, `null` for none, `'missing'` when there is no such workshop. */
   workshopRoleOf(user: UserRow, workshopId: string): Promise<WorkshopAccessRole | null | 'missing'>;

@@ -51,6 +51,18 @@ describe.skipIf(!hasRedis)('two Cairn processes sharing broadcasts through Redis
     expect((await heard).currentIndex).toBe(1);
   });
 
+  it('a console on process B hears who joined on process A: rooms are never skipped for want of a local listener while broadcasts are shared', async () => {
+    const token = await a.tokenFor('facilitator');
+    const info = await startLive(a, token, (await demoWorkshop(a)).id);
+    const facilitator = await b.connect(token);
+    await commandData(facilitator, 'session:watch', { sessionId: info.sessionId });
+    const joined = await joinLive(a, info.joinCode, { displayName: 'Iris' });
+    const heard = nextEvent(facilitator, 'participants:updated', (list) => list.some((p) => p.id === joined.me.id && p.online), 5000);
+    const phone = await a.connect(joined.token);
+    await commandData(phone, 'session:sync');
+    expect((await heard).find((p) => p.id === joined.me.id)?.displayName).toBe('Iris');
+  });
+
   it("keeps one participant's budget and the vote's close across processes: each reads the other's commits", async () => {
     const token = await a.tokenFor('facilitator');
     const demo = await demoWorkshop(a);

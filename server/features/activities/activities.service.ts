@@ -3,7 +3,7 @@ import type { Transaction } from 'sequelize';
 import type { AppContext } from '../../context';
 import type { ActivityStateRow, AgendaItemRow, ParticipantRow, PhotoRow, SubmissionRow } from '../../db/models';
 import { AppError, errors } from '../../common/errors';
-import { liveRooms, type LiveIo, type LiveService } from '../live/live.service';
+import { liveRooms, type LiveService } from '../live/live.service';
 import { photoCleared } from './photos.service';
 import { pairsForRound, roundRobinLength, testRotation } from '../../../shared/rotations';
 import { fieldErrors } from '../../../shared/errors';
@@ -27,6 +27,8 @@ export type Viewer = { kind: 'console' } | { kind: 'room' } | { kind: 'phone'; p
 
 /** Changes to one item within this window are announced together, so a room typing at once costs a few broadcasts. */
 const CHANGE_TICK_MS = 250;
+/** The announcer's keys of board changes start with this (a photo-consent change sends them all at once). */
+const BOARD_KEY = 'board:';
 
 const refuse = (message: string) => new AppError(400, 'bad_request', message);
 
@@ -45,11 +47,6 @@ interface NoteContext {
  * the writer queue first; broadcasts follow the commit.
  */
 export class ActivitiesService {
-  private io: LiveIo | null = null;
-  private pending = new Map<string, { sessionId: string; itemId: string; rooms: Set<string> }>();
-  private tick: NodeJS.Timeout | null = null;
-  private closed = false;
-
   constructor(
     private ctx: AppContext,
     private live: LiveService,
@@ -57,27 +54,16 @@ export class ActivitiesService {
     live.addSubmissionCheck((input, participant, transaction) => this.checkSubmission(input, participant, transaction));
     live.onConsentChanged((sessionId, participantId) => {
       this.photosOfChanged(sessionId, participantId).catch((err: unknown) => {
-        if (!this.closed) this.ctx.logger.error({ err }, 'could not announce a change of photo consent');
+        if (!this.ctx.announcer.isClosed) this.ctx.logger.error({ err }, 'could not announce a change of photo consent');
       });
     });
     live.onSubmissionCreated((view) => {
       this.afterSubmission(view).catch((err: unknown) => {
-        if (!this.closed) this.ctx.logger.error({ err }, 'could not announce a new note');
+        if (!this.ctx.announcer.isClosed) this.ctx.logger.error({ err }, 'could not announce a new note');
       });
     });
   }
 
-  /** Broadcasts through this socket.io server from now on. */
-  attach(io: LiveIo): void {
-    this.io = io;
-  }
-
-  /** Drops pending announcements (the app is shutting down). */
-  close(): void {
-    this.closed = true;
-    if (this.tick) clearTimeout(this.tick);
-    this.pending.clear();
-  }
 
   /**
    * The rules each activity adds to a submission, run by the live service inside its write
@@ -178,10 +164,10 @@ export class ActivitiesService {
     if (!row) return;
     const sessionId = row.sessionId;
     const rooms = [liveRooms.facilitators(sessionId), liveRooms.screens(sessionId)];
-    if (LIVE_TEAM_TYPES.has(item.type as ActivityType) && row.teamId && this.io) {
+    if (LIVE_TEAM_TYPES.has(item.type as ActivityType) && row.teamId && this.ctx.announcer.active) {
       // As a teammate's phone sees it: named, and a photo blurred unless cleared.
       const [note] = await this.notesFor(sessionId, [row], { kind: 'phone', participantId: '' });
-      if (note) this.io.to(liveRooms.team(row.teamId)).emit('notes:added', note);
+      if (note) this.ctx.announcer.announce(liveRooms.team(row.teamId), 'notes:added', note);
     }
     // Every phone shows the sketch gallery; a tested team reads its feedback; a sketch's team reads theirs.
     if (item.type === 'sketch') rooms.push(liveRooms.session(sessionId));
@@ -197,7 +183,7 @@ export class ActivitiesService {
     const rows = await this.ctx.db.models.Photo.findAll({ where: { sessionId, participantId }, attributes: ['itemId'] });
     for (const itemId of new Set(rows.map((r) => r.itemId))) this.changed(sessionId, itemId, this.everyone(sessionId));
     // A consent change is rare and must reach the room at once (a photo blurred within a second): no waiting for the tick.
-    if (rows.length && !this.closed && this.io) this.flushChanges();
+    if (rows.length) this.ctx.announcer.flush(BOARD_KEY);
   }
 
   /** Tells every screen to read every board of the session again (a participant removed all they wrote). */
@@ -446,7 +432,7 @@ export class ActivitiesService {
       return s;
     });
     const view = await this.roundView(sessionId, item, state);
-    this.io?.to(liveRooms.session(sessionId)).emit('rounds:updated', view);
+    this.ctx.announcer.announce(liveRooms.session(sessionId), 'rounds:updated', view);
     return view;
   }
 
@@ -505,22 +491,8 @@ export class ActivitiesService {
 
   /** Announces that an item's board changed, to the console and the room (and more rooms when given), a few times a second at most. */
   changed(sessionId: string, itemId: string, rooms: string[] = [liveRooms.facilitators(sessionId), liveRooms.screens(sessionId)]): void {
-    if (this.closed || !this.io) return;
-    const key = `${sessionId}|${itemId}`;
-    const entry = this.pending.get(key) ?? { sessionId, itemId, rooms: new Set<string>() };
-    for (const r of rooms) entry.rooms.add(r);
-    this.pending.set(key, entry);
-    this.tick ??= setTimeout(() => this.flushChanges(), CHANGE_TICK_MS);
-  }
-
-  /** Sends the changes waiting for the next tick now. */
-  private flushChanges(): void {
-    if (this.tick) clearTimeout(this.tick);
-    this.tick = null;
-    const batch = [...this.pending.values()];
-    this.pending.clear();
-    // One emit to several rooms reaches each socket once.
-    for (const b of batch) this.io?.to([...b.rooms]).emit('activity:changed', { itemId: b.itemId });
+    // The rooms of the changes that waited go in one send, which reaches each socket once.
+    this.ctx.announcer.announceSoon(`${BOARD_KEY}${sessionId}|${itemId}`, rooms, 'activity:changed', { itemId }, { afterMs: CHANGE_TICK_MS, what: 'a board change' });
   }
 
   private everyone(sessionId: string): string[] {
@@ -528,11 +500,11 @@ export class ActivitiesService {
   }
 
   private announcePromotions(sessionId: string): void {
-    if (!this.io) return;
+    if (!this.ctx.announcer.active) return;
     void this.promoted(sessionId)
-      .then((list) => this.io?.to(liveRooms.facilitators(sessionId)).emit('promotions:updated', list))
+      .then((list) => this.ctx.announcer.announce(liveRooms.facilitators(sessionId), 'promotions:updated', list))
       .catch((err: unknown) => {
-        if (!this.closed) this.ctx.logger.error({ err }, 'could not announce the promotions');
+        if (!this.ctx.announcer.isClosed) this.ctx.logger.error({ err }, 'could not announce the promotions');
       });
   }
 

@@ -1,7 +1,6 @@
 import crypto from 'node:crypto';
 import QRCode from 'qrcode';
 import { QueryTypes, UniqueConstraintError, type Transaction } from 'sequelize';
-import type { Server } from 'socket.io';
 import type { AppContext } from '../../context';
 import type { LiveSessionRow, ParticipantRow, SubmissionRow } from '../../db/models';
 import { AppError, errors } from '../../common/errors';
@@ -40,10 +39,10 @@ import {
   type TimerState,
 } from '../../../shared/schemas/live';
 import type { AgendaItem } from '../../../shared/schemas/agenda-item';
-import type { ClientToServerEvents, ServerToClientEvents, SocketData } from '../../../shared/events';
+import type { CairnIo } from '../../common/announcer';
 
-/** The socket.io server the live service broadcasts through. */
-export type LiveIo = Server<ClientToServerEvents, ServerToClientEvents, Record<string, never>, SocketData>;
+/** Cairn's socket.io server (the live socket handlers reach it for rooms and account checks; broadcasts go through the announcer). */
+export type LiveIo = CairnIo;
 
 /** The socket.io rooms of a live session; the socket handler joins them, the service broadcasts to them. */
 export const liveRooms = {
@@ -87,7 +86,6 @@ interface Runtime {
   online: Map<string, number>;
   /** Participants whose last-seen time is to be written at the next tick. */
   seen: Set<string>;
-  tick: NodeJS.Timeout | null;
   /** The last state read or written, for phones that resync. */
   base: { state: BaseState; at: number } | null;
   loading: Promise<BaseState> | null;
@@ -169,9 +167,7 @@ export type SubmissionCheck = (input: SubmissionInput, participant: ParticipantR
  * (so a restart resumes where the room was) and broadcast after the commit.
  */
 export class LiveService {
-  private io: LiveIo | null = null;
   private runtimes = new Map<string, Runtime>();
-  private closed = false;
   private submissionChecks: SubmissionCheck[] = [];
   private submissionListeners: ((submission: SubmissionView) => void)[] = [];
   private consentListeners: ((sessionId: string, participantId: string) => void)[] = [];
@@ -204,15 +200,8 @@ export class LiveService {
     this.consentListeners.push(listener);
   }
 
-  /** Broadcasts through this socket.io server from now on. */
-  attach(io: LiveIo): void {
-    this.io = io;
-  }
-
-  /** Stops the pending room announcements (the app is shutting down). */
+  /** Forgets the kept session states (the app is shutting down; the announcer has stopped announcing). */
   close(): void {
-    this.closed = true;
-    for (const rt of this.runtimes.values()) if (rt.tick) clearTimeout(rt.tick);
     this.runtimes.clear();
   }
 
@@ -278,7 +267,7 @@ export class LiveService {
       setJson(s, 'runs', end.runs);
       for (const step of this.endingSteps) await step(s.id, transaction);
     });
-    this.io?.to(liveRooms.session(row.id)).emit('session:ended', { reason: 'The facilitator ended the live session' });
+    this.ctx.announcer.announce(liveRooms.session(row.id), 'session:ended', { reason: 'The facilitator ended the live session' });
     this.broadcast(state);
     return this.info(session);
   }
@@ -367,7 +356,7 @@ export class LiveService {
 
   /** Counts a participant's socket as connected; they are online while any of their sockets is. */
   participantConnected(sessionId: string, participantId: string): void {
-    if (this.closed) return;
+    if (!this.ctx.announcer.active) return;
     const rt = this.runtime(sessionId);
     const sockets = (rt.online.get(participantId) ?? 0) + 1;
     rt.online.set(participantId, sockets);
@@ -379,7 +368,7 @@ export class LiveService {
 
   /** Counts a participant's socket as gone. */
   participantDisconnected(sessionId: string, participantId: string): void {
-    if (this.closed) return;
+    if (!this.ctx.announcer.active) return;
     const rt = this.runtime(sessionId);
     const sockets = (rt.online.get(participantId) ?? 1) - 1;
     if (sockets > 0) {
@@ -512,7 +501,7 @@ export class LiveService {
   async sendMessage(sessionId: string, text: string): Promise<LiveState> {
     const message = { id: crypto.randomUUID(), text, sentAt: Date.now() };
     const { state } = await this.mutate(sessionId, (s) => setJson(s, 'message', message));
-    this.io?.to(liveRooms.session(sessionId)).emit('session:messaged', message);
+    this.ctx.announcer.announce(liveRooms.session(sessionId), 'session:messaged', message);
     this.broadcast(state);
     return state;
   }
@@ -608,7 +597,7 @@ export class LiveService {
     const made = created as { row: SubmissionRow; displayName: string } | null;
     if (made) {
       const view = toSubmissionView(made.row, made.displayName);
-      this.io?.to(liveRooms.facilitators(sessionId)).emit('submission:created', view);
+      this.ctx.announcer.announce(liveRooms.facilitators(sessionId), 'submission:created', view);
       for (const listener of this.submissionListeners) listener(view);
     }
     return answer;
@@ -668,7 +657,7 @@ export class LiveService {
   private runtime(sessionId: string): Runtime {
     let rt = this.runtimes.get(sessionId);
     if (!rt) {
-      rt = { participantCount: null, online: new Map(), seen: new Set(), tick: null, base: null, loading: null };
+      rt = { participantCount: null, online: new Map(), seen: new Set(), base: null, loading: null };
       this.runtimes.set(sessionId, rt);
     }
     return rt;
@@ -820,36 +809,26 @@ export class LiveService {
   }
 
   private broadcast(state: LiveState): void {
-    if (!this.io) return;
     const screens = liveRooms.screens(state.sessionId);
     // Two messages: the whole state to the screens that show counts and drift, and a phone's state,
     // which does not grow with the day's history, to everyone else in the session (the phones).
-    this.io.to(screens).emit('session:updated', state);
-    this.io.to(liveRooms.session(state.sessionId)).except(screens).emit('session:updated', phoneStateOf(state));
+    this.ctx.announcer.announce(screens, 'session:updated', state);
+    this.ctx.announcer.announce(liveRooms.session(state.sessionId), 'session:updated', phoneStateOf(state), { except: screens });
   }
 
-  private hasListeners(room: string): boolean {
-    return (this.io?.sockets.adapter.rooms.get(room)?.size ?? 0) > 0;
-  }
-
+  /** Who is in the room is announced soon, coalescing a room of phones joining at once (the longer, the more are online). */
   private scheduleTick(sessionId: string): void {
-    if (this.closed) return;
     const rt = this.runtime(sessionId);
-    if (rt.tick) return;
-    rt.tick = setTimeout(
-      () => {
-        rt.tick = null;
-        this.flushTick(sessionId).catch((err: unknown) => {
-          if (!this.closed) this.ctx.logger.error({ err }, 'could not announce who is in the room');
-        });
-      },
-      Math.max(ROOM_TICK_MS, rt.online.size * ROOM_TICK_MS_PER_PERSON),
-    );
+    this.ctx.announcer.soon(`room:${sessionId}`, () => this.flushTick(sessionId), {
+      afterMs: Math.max(ROOM_TICK_MS, rt.online.size * ROOM_TICK_MS_PER_PERSON),
+      what: 'who is in the room',
+    });
   }
 
   /** Writes last-seen times and tells the console and the projector who is in the room now. */
   private async flushTick(sessionId: string): Promise<void> {
-    if (this.closed) return;
+    const { announcer } = this.ctx;
+    if (announcer.isClosed) return;
     const rt = this.runtime(sessionId);
     if (rt.seen.size > 0) {
       const ids = [...rt.seen];
@@ -862,13 +841,12 @@ export class LiveService {
         }
       });
     }
-    if (this.closed || !this.io) return;
-    if (this.hasListeners(liveRooms.facilitators(sessionId))) {
-      this.io.to(liveRooms.facilitators(sessionId)).emit('participants:updated', await this.participants(sessionId));
+    if (announcer.listening(liveRooms.facilitators(sessionId))) {
+      announcer.announce(liveRooms.facilitators(sessionId), 'participants:updated', await this.participants(sessionId));
     }
     // Only screens that show the head count get the new counts; the phones' state has not changed.
-    if (this.hasListeners(liveRooms.screens(sessionId))) {
-      this.io.to(liveRooms.screens(sessionId)).emit('session:updated', await this.state(sessionId));
+    if (announcer.listening(liveRooms.screens(sessionId))) {
+      announcer.announce(liveRooms.screens(sessionId), 'session:updated', await this.state(sessionId));
     }
   }
 }

@@ -1,4 +1,5 @@
-import { liveRooms, type LiveIo } from './live.service';
+import { liveRooms } from './live.service';
+import type { Announcer } from '../../common/announcer';
 import type { PagesShown, PagesTurn } from '../../../shared/events';
 
 /** At most this many sessions' pages are remembered (a process runs a handful of live sessions at once). */
@@ -11,26 +12,22 @@ const REMEMBERED = 500;
  * last one said is kept in memory only so a console opened meanwhile shows it at once.
  */
 export class PagesService {
-  private io: LiveIo | null = null;
   private readonly last = new Map<string, PagesShown>();
 
-  /** Gives the service the socket.io server it broadcasts through. */
-  attach(io: LiveIo): void {
-    this.io = io;
-  }
+  constructor(private announcer: Announcer) {}
 
   /** A projector shows this page: the session's facilitators hear it. */
   shown(sessionId: string, shown: PagesShown): PagesShown {
     this.last.delete(sessionId);
     this.last.set(sessionId, shown);
     if (this.last.size > REMEMBERED) this.last.delete(this.last.keys().next().value!);
-    this.io?.to(liveRooms.facilitators(sessionId)).emit('pages:shown', shown);
+    this.announcer.announce(liveRooms.facilitators(sessionId), 'pages:shown', shown);
     return shown;
   }
 
   /** The console turns the page: the session's screens hear it; answers with the page shown last, if any. */
   turn(sessionId: string, turn: PagesTurn): PagesShown | null {
-    this.io?.to(liveRooms.screens(sessionId)).emit('pages:turned', turn);
+    this.announcer.announce(liveRooms.screens(sessionId), 'pages:turned', turn);
     return this.lastShown(sessionId);
   }
 

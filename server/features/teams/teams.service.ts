@@ -1,20 +1,13 @@
 import crypto from 'node:crypto';
 import type { AppContext } from '../../context';
 import { errors } from '../../common/errors';
-import { liveRooms, type LiveIo } from '../live/live.service';
+import { liveRooms } from '../live/live.service';
 import { teamSizes } from '../../../shared/team-sort';
 import type { SetTeamsPayload, Team } from '../../../shared/schemas/team';
 
 /** Teams of a live session: forming them, setting them (after a team sort), moving phones between team rooms. */
 export class TeamsService {
-  private io: LiveIo | null = null;
-
   constructor(private ctx: AppContext) {}
-
-  /** Broadcasts through this socket.io server from now on. */
-  attach(io: LiveIo): void {
-    this.io = io;
-  }
 
   /** The session's teams in order, with their members. */
   async list(sessionId: string): Promise<Team[]> {
@@ -80,12 +73,11 @@ export class TeamsService {
       }
     });
     // After the commit: move every phone into its new team's room.
-    if (this.io) {
-      for (const old of oldIds) this.io.in(liveRooms.team(old)).socketsLeave(liveRooms.team(old));
-      for (const t of made) for (const id of t.memberIds) this.io.in(liveRooms.participant(id)).socketsJoin(liveRooms.team(t.id));
-    }
+    const { announcer } = this.ctx;
+    for (const old of oldIds) announcer.leave(liveRooms.team(old));
+    for (const t of made) for (const id of t.memberIds) announcer.join(liveRooms.participant(id), liveRooms.team(t.id));
     const teams = await this.list(sessionId);
-    this.io?.to(liveRooms.session(sessionId)).emit('teams:updated', teams);
+    announcer.announce(liveRooms.session(sessionId), 'teams:updated', teams);
     return teams;
   }
 }

@@ -1,7 +1,7 @@
 import { QueryTypes } from 'sequelize';
 import type { AppContext } from '../../context';
 import type { VoteRow } from '../../db/models';
-import { liveRooms, type LiveIo, type LiveService } from '../live/live.service';
+import { liveRooms, type LiveService } from '../live/live.service';
 import { criterionIds, participation, selectTopN, tallyDots, type Dot, type TallyRow } from '../../../shared/tally';
 import { borda, schulze } from '../../../shared/preference';
 import { rankedRows } from '../../../shared/votes';
@@ -16,26 +16,10 @@ export const TALLY_INTERVAL_MS = 300;
  * announcement to the console (to the whole session once revealed), at most once every TALLY_INTERVAL_MS.
  */
 export class VoteTally {
-  private io: LiveIo | null = null;
-  private tallyTicks = new Map<string, { timer: NodeJS.Timeout | null; lastAt: number; itemId: string }>();
-  private closed = false;
-
   constructor(
     private ctx: AppContext,
     private live: LiveService,
   ) {}
-
-  /** Broadcasts through this socket.io server from now on. */
-  attach(io: LiveIo): void {
-    this.io = io;
-  }
-
-  /** Stops pending tally announcements (the app is shutting down). */
-  close(): void {
-    this.closed = true;
-    for (const tick of this.tallyTicks.values()) if (tick.timer) clearTimeout(tick.timer);
-    this.tallyTicks.clear();
-  }
 
   /**
    * A vote's results from the stored ballots, counted by the pure functions of shared/. The room is
@@ -111,35 +95,20 @@ export class VoteTally {
    * once every TALLY_INTERVAL_MS, so a room of phones voting together costs a few broadcasts a second.
    */
   scheduleTally(sessionId: string, itemId: string): void {
-    if (this.closed) return;
-    let tick = this.tallyTicks.get(sessionId);
-    if (!tick) {
-      tick = { timer: null, lastAt: 0, itemId };
-      this.tallyTicks.set(sessionId, tick);
-    }
-    tick.itemId = itemId;
-    if (tick.timer) return;
-    const due = tick.lastAt + TALLY_INTERVAL_MS - Date.now();
-    const t = tick;
-    t.timer = setTimeout(() => {
-      t.timer = null;
-      t.lastAt = Date.now();
-      this.pushTally(sessionId, t.itemId).catch((err: unknown) => {
-        if (!this.closed) this.ctx.logger.error({ err }, 'could not send the tallies');
-      });
-    }, Math.max(0, due));
+    // The latest call names the item: a tally waiting for an item left behind goes out for the current one.
+    this.ctx.announcer.soon(`tally:${sessionId}`, () => this.pushTally(sessionId, itemId), { everyMs: TALLY_INTERVAL_MS, what: 'the tallies' });
   }
 
   /** Sends the current vote's tallies to the facilitators, or to the whole session once revealed. */
   private async pushTally(sessionId: string, itemId: string): Promise<void> {
-    if (this.closed || !this.io) return;
+    const { announcer } = this.ctx;
     const state = await this.live.state(sessionId);
     if (state.item?.id !== itemId) return;
-    // No check for listeners in the room: with broadcasts shared between processes, they may be on another one.
     const room = state.revealed ? liveRooms.session(sessionId) : liveRooms.facilitators(sessionId);
+    // Nobody to tell (in this process, and no other process shares the broadcasts): the tally is not worked out.
+    if (!announcer.listening(room)) return;
     const row = await this.ctx.db.models.Vote.findOne({ where: { sessionId, itemId } });
-    if (!row || this.closed) return;
+    if (!row || announcer.isClosed) return;
     const results = await this.resultsOf(row, state.item.title, await this.live.participants(sessionId));
-    if (this.closed) return;
-    this.io.to(room).emit('vote:tallied', results);
+    announcer.announce(room, 'vote:tallied', results);
   }}

@@ -3,7 +3,7 @@ import { UniqueConstraintError, type Transaction } from 'sequelize';
 import type { AppContext } from '../../context';
 import type { LiveSessionRow, VoteRow } from '../../db/models';
 import { AppError, errors } from '../../common/errors';
-import { liveRooms, type LiveIo, type LiveService } from '../live/live.service';
+import { liveRooms, type LiveService } from '../live/live.service';
 import { type BallotErrorCode, type Dot } from '../../../shared/tally';
 import { castDot, rulesFor } from '../../../shared/votes';
 import { runningItemId } from '../../../shared/input-gate';
@@ -89,7 +89,6 @@ function toView(row: VoteRow, mine: MyBallot | null): VoteView {
  * whole room only once revealed). Every change is written first and announced after the commit.
  */
 export class VotingService {
-  private io: LiveIo | null = null;
   private teamSetter: { set(sessionId: string, payload: SetTeamsPayload): Promise<Team[]> } | null = null;
   /** The dot path's memory of votes, ballots and receipts, and its SQL. */
   private ledgers: DotLedgers;
@@ -111,20 +110,9 @@ export class VotingService {
     });
   }
 
-  /** Broadcasts through this socket.io server from now on. */
-  attach(io: LiveIo): void {
-    this.io = io;
-    this.tally.attach(io);
-  }
-
   /** Where a confirmed team sort sets its teams (server/features/teams). */
   useTeams(teams: { set(sessionId: string, payload: SetTeamsPayload): Promise<Team[]> }): void {
     this.teamSetter = teams;
-  }
-
-  /** Stops pending tally announcements (the app is shutting down). */
-  close(): void {
-    this.tally.close();
   }
 
   /** The current item's vote; a participant also gets their own ballot. Before set-up, an empty draft with the plan's rules. */
@@ -532,7 +520,7 @@ export class VotingService {
   /** Tells every screen of the session about a vote's options or status (no tallies in it). */
   private announce(row: VoteRow): VoteView {
     const view = toView(row, null);
-    this.io?.to(liveRooms.session(row.sessionId)).emit('vote:updated', view);
+    this.ctx.announcer.announce(liveRooms.session(row.sessionId), 'vote:updated', view);
     this.tally.scheduleTally(row.sessionId, row.itemId);
     return view;
   }
@@ -589,16 +577,10 @@ export class VotingService {
    * ballot in its answer, so it is left out), and the console's tally is due.
    */
   private afterBallot(sessionId: string, participantId: string, mine: MyBallot, fromSocket?: string): void {
-    const io = this.io;
     const room = liveRooms.participant(participantId);
-    // Most phones are a participant's only socket: with nobody else in the room (and no other process
-    // to tell), the ballot is not encoded and broadcast to nobody on every vote.
-    const local = io?.sockets.adapter.rooms.get(room);
-    const alone = !this.ctx.config.redisUrl && (!local || (local.size === 1 && fromSocket !== undefined && local.has(fromSocket)));
-    if (io && !alone) {
-      const others = io.to(room);
-      (fromSocket ? others.except(fromSocket) : others).emit('ballot:updated', mine);
-    }
+    // Most phones are a participant's only socket: with nobody else in the room, the ballot is not
+    // encoded and broadcast to nobody on every vote.
+    if (this.ctx.announcer.listening(room, fromSocket)) this.ctx.announcer.announce(room, 'ballot:updated', mine, { except: fromSocket });
     this.tally.scheduleTally(sessionId, mine.itemId);
   }
 
