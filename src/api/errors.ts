@@ -36,6 +36,15 @@ export function messageOf(err: unknown, fallback: string): string {
   return err instanceof ClientError ? err.message : fallback;
 }
 
+/**
+ * Anything a call threw, as the one client error: a client error as it is, anything else (a programming
+ * error, whose text is not for the person using the screen) as an `internal` error with the fallback message.
+ * @example error.value = clientErrorOf(err, 'Could not load the workshops');
+ */
+export function clientErrorOf(err: unknown, fallback: string): ClientError {
+  return err instanceof ClientError ? err : new ClientError('internal', fallback);
+}
+
 /** The server's error body `{ error: { code, message, fields? } }` of a failed HTTP answer, as a client error. */
 export async function errorOfResponse(res: Response, fallback: string): Promise<ClientError> {
   const body = (await res.json().catch(() => null)) as { error?: { code?: ErrorCode; message?: string; fields?: Record<string, string> } } | null;

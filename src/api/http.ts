@@ -1,9 +1,6 @@
 import type { ErrorCode } from '../../shared/errors';
 import { ClientError } from './errors';
 
-/** What an HTTP call threw: the one client error (kept under this name for the screens that catch it). */
-export { ClientError as ApiError } from './errors';
-
 /** How the HTTP client gets and renews the access token (set by the session store). */
 export interface TokenSource {
   token(): string | null;

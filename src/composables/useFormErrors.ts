@@ -1,5 +1,5 @@
+import { ClientError } from '../api/errors';
 import { ref } from 'vue';
-import { ApiError } from '../api/http';
 
 /**
  * Keeps a form's overall message and per-field messages from a failed API call.
@@ -19,7 +19,7 @@ export function useFormErrors() {
       await call();
       return true;
     } catch (err) {
-      if (err instanceof ApiError) {
+      if (err instanceof ClientError) {
         message.value = err.message;
         fields.value = err.fields;
       } else {

@@ -9,9 +9,6 @@ import { newId } from '../socket/ids';
 import { ClientError } from '../api/errors';
 import { useOutboxStore } from './outbox';
 
-/** What a socket command threw: the one client error (kept under this name for the screens that catch it). */
-export { ClientError as CommandError } from '../api/errors';
-
 /** The facilitator's commands that answer with the whole live state. */
 export type StateCommand = { [E in Command]: CommandAnswer<E> extends LiveState ? E : never }[Command];
 

@@ -1,7 +1,8 @@
+import { messageOf } from '../../api/errors';
 import { ref, watch, type Ref } from 'vue';
 import type { ActivityBoard, NoteView } from '../../../shared/schemas/activities';
 import type { LiveItem } from '../../../shared/schemas/live';
-import { ActivityError, type ActivityChannel } from './useActivityChannel';
+import type { ActivityChannel } from './useActivityChannel';
 
 /** How long to wait after a change before reading the board again, so a burst of changes costs one read. */
 const RELOAD_DELAY_MS = 120;
@@ -36,7 +37,7 @@ export function useActivityBoard(channel: ActivityChannel, item: () => LiveItem,
         error.value = null;
       }
     } catch (err) {
-      if (mine === asked) error.value = err instanceof ActivityError ? err.message : 'The activity could not be loaded';
+      if (mine === asked) error.value = messageOf(err, 'The activity could not be loaded');
     }
   }
   const soon = () => {

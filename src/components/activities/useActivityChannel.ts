@@ -7,14 +7,11 @@ import { photoObjectUrl, type PhotoToken } from '../../api/uploads';
 /** Which screen an activity view runs on. */
 export type ActivityScreen = 'phone' | 'console' | 'projector';
 
-/** An error an activity command answered with (the live store's command error). */
-export { CommandError as ActivityError } from '../../stores/live';
-
 /** The activity views' own connection to the live session: commands, broadcasts and photos. */
 export interface ActivityChannel {
   screen: ActivityScreen;
   connected: Ref<boolean>;
-  /** Sends a command and resolves with its data, or rejects with an ActivityError. */
+  /** Sends a command and resolves with its data, or rejects with the one ClientError (src/api/errors.ts). */
   request<E extends Command>(event: E, ...args: CommandArgs<E>): Promise<CommandAnswer<E>>;
   /** Listens to a broadcast until the component that asked is unmounted. */
   on<E extends keyof ServerToClientEvents>(event: E, listener: ServerToClientEvents[E]): void;
