@@ -5,6 +5,7 @@ import { compression } from 'vite-plugin-compression2';
 import { VitePWA } from 'vite-plugin-pwa';
 import { baseCompile } from '@intlify/message-compiler';
 import type { Plugin } from 'vite';
+import { LIGHT, cssVariables } from './src/theme/palette';
 
 /**
  * Preloads the built font file whose name matches `match` from the HTML shell: the browser otherwise finds
@@ -22,6 +23,23 @@ function preloadFont(match: RegExp): Plugin {
         return file ? [{ tag: 'link', attrs: { rel: 'preload', as: 'font', type: 'font/woff2', href: `/${file}`, crossorigin: '' }, injectTo: 'head' }] : [];
       },
     },
+  };
+}
+
+/**
+ * Fills the HTML shell's colours (`%cairn-primary%`, …) from the palette: the shell paints before any
+ * script runs, so it cannot read the CSS variables the app writes at start-up.
+ */
+function paletteInHtml(): Plugin {
+  const vars = cssVariables();
+  return {
+    name: 'cairn-palette-in-html',
+    transformIndexHtml: (html) =>
+      html.replace(/%cairn-([a-z-]+)%/g, (token, name: string) => {
+        const colour = vars[`--cairn-${name}`];
+        if (!colour) throw new Error(`index.html names ${token}, which is not in src/theme/palette.ts`);
+        return colour;
+      }),
   };
 }
 
@@ -64,6 +82,7 @@ export default defineConfig({
   // Quasar's plugin needs Vue's asset-url transform first (it throws on the wrong order).
   plugins: [
     precompiledMessages(),
+    paletteInHtml(),
     vue({ template: { transformAssetUrls } }),
     quasar(),
     // The phone's shell survives a bad connection: the HTML precached, the hashed files it used kept as it
@@ -80,8 +99,8 @@ export default defineConfig({
         start_url: '/join',
         scope: '/',
         display: 'standalone',
-        background_color: '#f7f4ee',
-        theme_color: '#0b5d5b',
+        background_color: LIGHT.background,
+        theme_color: LIGHT.primary,
         icons: [
           { src: '/icon-192.png', sizes: '192x192', type: 'image/png' },
           { src: '/icon-512.png', sizes: '512x512', type: 'image/png' },

@@ -9,7 +9,7 @@ import 'quasar/dist/quasar.css';
 import './css/app.css';
 import App from './App.vue';
 import { createCairnRouter } from './router';
-import { LIGHT, PROJECTOR, applyPalette } from './theme/palette';
+import { QUASAR_BRAND, applyPalette } from './theme/palette';
 import { i18n } from './i18n';
 
 applyPalette(document.documentElement.style);
@@ -19,16 +19,7 @@ app.use(Quasar, {
   plugins: { Notify, Dialog },
   iconSet,
   config: {
-    brand: {
-      primary: LIGHT.primary,
-      secondary: LIGHT.sand,
-      accent: LIGHT.accent,
-      dark: PROJECTOR.surface,
-      positive: LIGHT.positive,
-      negative: LIGHT.negative,
-      info: LIGHT.info,
-      warning: LIGHT.warningMark,
-    },
+    brand: { ...QUASAR_BRAND },
     notify: { position: 'top' },
   },
 });

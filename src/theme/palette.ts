@@ -51,6 +51,18 @@ export const PROJECTOR = {
   line: '#3a5a57',
 } as const;
 
+/** Quasar's brand colours (its `primary`, `negative`, … props and `text-*` / `bg-*` classes), taken from the palette. */
+export const QUASAR_BRAND = {
+  primary: LIGHT.primary,
+  secondary: LIGHT.sand,
+  accent: LIGHT.accent,
+  dark: PROJECTOR.surface,
+  positive: LIGHT.positive,
+  negative: LIGHT.negative,
+  info: LIGHT.info,
+  warning: LIGHT.warningMark,
+} as const;
+
 const kebab = (name: string): string => name.replace(/[A-Z]/g, (c) => `-${c.toLowerCase()}`);
 
 /**

@@ -1,7 +1,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import postcss, { type Rule } from 'postcss';
-import { cssVariables } from '../../src/theme/palette';
+import { cssVariables, LIGHT, QUASAR_BRAND } from '../../src/theme/palette';
 
 /** One text colour over one background as a stylesheet of Cairn's sets them, with what makes the text large. */
 export interface CssPair {
@@ -100,5 +100,42 @@ export function textColoursOf(file: string): { colour: string; where: string }[]
     const colour = resolveColour(decl.value);
     if (colour) out.push({ colour, where: `${file} ${(decl.parent as Rule).selector}` });
   });
+  return out;
+}
+
+/** Quasar's colour classes (`.text-red-1`, `.bg-negative`, …) as its stylesheet declares them, brand colours resolved through the palette. */
+function quasarClassColours(): Map<string, string> {
+  const out = new Map<string, string>();
+  const css = fs.readFileSync('node_modules/quasar/dist/quasar.css', 'utf8');
+  postcss.parse(css).walkRules(/^\.(text|bg)-[a-z0-9-]+$/, (rule) => {
+    rule.walkDecls(/^(color|background)$/, (decl) => {
+      const value = decl.value.replace(/\s*!important$/, '').trim();
+      const brand = /^var\(--q-([a-z]+)\)$/.exec(value);
+      const colour = brand ? (QUASAR_BRAND as Record<string, string>)[brand[1]!] : /^#[0-9a-f]{3,6}$/i.test(value) ? value : undefined;
+      if (colour) out.set(rule.selector.slice(1), colour.length === 4 ? `#${[...colour.slice(1)].map((c) => c + c).join('')}` : colour);
+    });
+  });
+  return out;
+}
+
+let quasarColours: Map<string, string> | null = null;
+
+/**
+ * The pairs a template sets with Quasar's colour classes on one element (`class="bg-red-1 text-negative"`);
+ * a background class alone pairs with the page's text colour, which the element inherits.
+ */
+export function classPairsOf(file: string): CssPair[] {
+  if (!file.endsWith('.vue')) return [];
+  quasarColours ??= quasarClassColours();
+  const colours = quasarColours;
+  const template = fs.readFileSync(file, 'utf8').replace(/<(script|style)[^>]*>[\s\S]*?<\/\1>/g, '');
+  const out: CssPair[] = [];
+  for (const m of template.matchAll(/\sclass="([^"]*)"/g)) {
+    const classes = m[1]!.split(/\s+/);
+    const bg = classes.map((c) => (c.startsWith('bg-') ? colours.get(c) : undefined)).find(Boolean);
+    if (!bg) continue;
+    const fg = classes.map((c) => (c.startsWith('text-') ? colours.get(c) : undefined)).find(Boolean) ?? LIGHT.text;
+    out.push({ fg, bg, where: `${file} class="${m[1]}"`, large: false });
+  }
   return out;
 }

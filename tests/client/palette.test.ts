@@ -25,6 +25,11 @@ describe('one palette: colours come from src/theme/palette.ts', () => {
     expect(found, 'use var(--cairn-…) in CSS, or LIGHT / PROJECTOR from src/theme/palette.ts in code').toEqual([]);
   });
 
+  it('the HTML shell and the web app manifest take their colours from the palette too', () => {
+    expect(fs.readFileSync('index.html', 'utf8').match(/#[0-9a-f]{6}\b|#[0-9a-f]{3}\b/gi)).toBeNull();
+    expect(fs.readFileSync('vite.config.ts', 'utf8').match(/['"]#[0-9a-f]{3,8}['"]/gi)).toBeNull();
+  });
+
   it('every var(--cairn-…) the client uses is one the palette defines', () => {
     const defined = new Set(Object.keys(cssVariables()));
     const unknown: string[] = [];
