@@ -55,7 +55,7 @@ test('a live run: QR join, two phones, advancing, countdowns that agree, and a p
 
   const phoneA = await phone(browser, joinUrl, 'Ana', true);
   const phoneB = await phone(browser, joinUrl, 'Ben', false);
-  await expect(projector.getByTestId('projector-joined')).toHaveText('2 joined');
+  await expect(projector.getByTestId('projector-joined')).toHaveText('2 people here');
   await expect(consolePage.getByTestId('online-count')).toHaveText('2');
 
   // Advance: both phones and the projector show the new activity within a second.

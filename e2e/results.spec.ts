@@ -77,7 +77,7 @@ test('after a short live run: the results page, the notes and tallies CSV as the
   await ana.locator('input[data-test="my-email"], [data-test="my-email"] input').fill('ana.lima@harbourlane.example');
   await ana.getByTestId('my-email-save').click();
   await expect(ana.getByTestId('my-email-saved')).toBeVisible();
-  await expect(ana.getByTestId('my-notes-count')).toHaveText('You wrote 2 notes in this session.');
+  await expect(ana.getByTestId('my-notes-count')).toHaveText('You wrote 2 notes in this workshop.');
   await shot(ana, 'results-phone-my-data');
 
   // End the day; the plan has a Results button.

@@ -23,17 +23,68 @@ export const ErrorCode = z.enum([
 /** An error code, e.g. `'forbidden'`. */
 export type ErrorCode = z.infer<typeof ErrorCode>;
 
+/** Values a translated message fills in ("No workshop has the code {code}"). */
+export const ErrorParams = z.record(z.string(), z.union([z.string(), z.number()]));
+/** Values a translated message fills in. */
+export type ErrorParams = z.infer<typeof ErrorParams>;
+
+/**
+ * The finer reasons behind a participant-facing error, each a message in the client's catalogs
+ * (`error.<reason>`, src/i18n/locales): the phone shows it in its participant's language, with `params`.
+ */
+export const ErrorReason = z.enum([
+  'join_code_unknown',
+  'join_ended',
+  'note_wrong_activity',
+  'photo_unreadable',
+  'photo_too_many_pixels',
+  'vote_closed',
+  'vote_not_open',
+]);
+/** A participant-facing error's reason, e.g. `'join_code_unknown'`. */
+export type ErrorReason = z.infer<typeof ErrorReason>;
+
+/** One rejected field as a code and values, so a client can say it in its own language (`field.<code>` in the catalogs). */
+export const FieldIssue = z.object({ code: z.string(), params: ErrorParams.optional() });
+/** One rejected field as a code and values. */
+export type FieldIssue = z.infer<typeof FieldIssue>;
+
 /** The one error body every route and acknowledgement uses. */
 export const ApiErrorBody = z.object({
   error: z.object({
     code: ErrorCode,
+    /** English, for logs, the facilitator's screens and clients without catalogs. */
     message: z.string(),
+    /** The finer reason, for a client to translate; `code` alone is translated when there is none. */
+    reason: ErrorReason.optional(),
+    params: ErrorParams.optional(),
     /** Field-by-field problems of a rejected input, keyed by dotted path. */
     fields: z.record(z.string(), z.string()).optional(),
+    /** The same problems as codes with values, keyed by the same paths. */
+    fieldIssues: z.record(z.string(), FieldIssue).optional(),
   }),
 });
 /** The one error body every route and acknowledgement uses. */
 export type ApiErrorBody = z.infer<typeof ApiErrorBody>;
+
+/**
+ * Turns a zod error into a map of dotted field paths to the first issue's code and limits, for a client
+ * to word in its own language (`too_small` with `min`, `too_big` with `max`, `invalid_format`, …).
+ */
+export function fieldIssues(error: z.ZodError): Record<string, FieldIssue> {
+  const out: Record<string, FieldIssue> = {};
+  for (const issue of error.issues) {
+    const key = issue.path.map(String).join('.') || '_';
+    if (key in out) continue;
+    const params: ErrorParams = {};
+    const limits = issue as { minimum?: unknown; maximum?: unknown; origin?: unknown };
+    if (typeof limits.minimum === 'number' || typeof limits.minimum === 'bigint') params.min = Number(limits.minimum);
+    if (typeof limits.maximum === 'number' || typeof limits.maximum === 'bigint') params.max = Number(limits.maximum);
+    if (typeof limits.origin === 'string') params.of = limits.origin;
+    out[key] = { code: issue.code, ...(Object.keys(params).length ? { params } : {}) };
+  }
+  return out;
+}
 
 /** Turns a zod error into a map of dotted field paths to the first message for each. */
 export function fieldErrors(error: z.ZodError): Record<string, string> {

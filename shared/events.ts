@@ -1,5 +1,6 @@
 import { z } from 'zod';
-import type { ErrorCode } from './errors';
+import type { ErrorCode, ErrorParams, ErrorReason } from './errors';
+import { LOCALES } from './locales';
 import { SubmissionInput, type LiveState, type Me, type ParticipantView, type ScreenState, type SubmissionView } from './schemas/live';
 import { FormTeamsPayload, SetTeamsPayload, type Team } from './schemas/team';
 import {
@@ -18,7 +19,7 @@ import {
 import { ActivityPayloads, type ActivityBoard, type PromotedOption, type NoteView, type RoundView, type ThemeView } from './schemas/activities';
 
 /** Every socket command answers through an acknowledgement of this shape. */
-export type Ack<T> = { data: T } | { error: { code: ErrorCode; message: string } };
+export type Ack<T> = { data: T } | { error: { code: ErrorCode; message: string; reason?: ErrorReason; params?: ErrorParams } };
 /** The acknowledgement callback of a command. */
 export type AckFn<T> = (answer: Ack<T>) => void;
 
@@ -44,6 +45,8 @@ export const LivePayloads = {
     cuts: z.array(z.object({ itemId: z.string().min(1).max(64), toMin: z.number().int().min(1).max(480) })).max(100),
   }),
   consent: z.object({ photoConsent: z.boolean() }),
+  /** Payload of `session:projector-locale` and `participant:locale`. */
+  locale: z.object({ locale: z.enum(LOCALES) }).strict(),
   /** Payload of `submission:list`. */
   submissionList: z.object({ itemId: z.string().min(1).max(64) }),
   /** Payload of `pages:show`: the page a projector shows of the view `key` (item and whether results show). */
@@ -106,12 +109,14 @@ export const COMMANDS = {
   'session:lock': command<LiveState>()('runner', LivePayloads.lock, "Lock or unlock the phones' input."),
   'session:reveal': command<LiveState>()('runner', LivePayloads.reveal, 'Show or hide the results on the other screens.'),
   'session:message': command<LiveState>()('runner', LivePayloads.message, 'Send a short message to everyone in the session.'),
+  'session:projector-locale': command<LiveState>()('runner', LivePayloads.locale, 'The language the projector shows this session in.'),
   'agenda:shorten': command<LiveState>()('runner', LivePayloads.shorten, 'Apply a shortening suggestion to the remaining items of this live run (the stored plan stays).'),
   'agenda:undo-cuts': command<LiveState>()('runner', empty, "Undo the last cut to this live run's timeboxes."),
   'agenda:keep-cuts': command<LiveState>()('runner', empty, "Write this live run's cut timeboxes into the stored plan."),
   'participants:list': command<ParticipantView[]>()('runner', empty, 'Who is in the room.'),
   'participant:me': command<Me>()('participant', empty, 'Phone: who am I (after a reload).'),
   'participant:consent': command<Me>()('participant', LivePayloads.consent, 'Phone: change photo consent.'),
+  'participant:locale': command<Me>()('participant', LivePayloads.locale, 'Phone: the language the phone now shows (for the e-mail with the report).'),
   'submission:create': command<{ id: string; duplicate: boolean }>()('participant', SubmissionInput, 'Phone: submit a note; a repeated clientId answers with the first result.'),
   'submission:list': command<SubmissionView[]>()('runner', LivePayloads.submissionList, 'The submissions of an item so far.'),
   'teams:list': command<Team[]>()('screen', empty, "Any screen: the session's teams."),

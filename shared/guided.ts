@@ -72,17 +72,38 @@ const NOUN_START = /^(a|an|the|more|better|some|less|fewer|easier|faster)\b/i;
  * @example guidedHints('point_of_view', { user: 'A new member', need: 'a map', insight: '' }).need // 'Say the need as something to do …'
  */
 export function guidedHints(kind: GuidedKind, fields: Record<string, string>): Record<string, string | null> {
+  const codes = guidedHintCodes(kind, fields);
   const out: Record<string, string | null> = {};
   for (const f of GUIDED_SENTENCES[kind].fields) {
+    const code = codes[f.id];
+    if (code === 'empty') out[f.id] = f.emptyHint;
+    else if (code === 'tooLong') out[f.id] = `Too long to send: keep it under ${ACTIVITY_LIMITS.fieldChars} characters.`;
+    else if (code === 'long') out[f.id] = 'A shorter phrase reads better on the wall; try to say it in fewer words.';
+    else if (code === 'noun') out[f.id] = 'Say the need as something to do, e.g. “to find a dock” rather than “a map”.';
+    else if (code === 'repeat') out[f.id] = 'No need to write “how might we” again: start with what we could do.';
+    else out[f.id] = null;
+  }
+  return out;
+}
+
+/** Why a guided sentence's field gets a hint; a phone words it in its participant's language. */
+export type GuidedHintCode = 'empty' | 'tooLong' | 'long' | 'noun' | 'repeat';
+
+/**
+ * The hint each field of a guided sentence gets, as a code ({@link guidedHints} words them in English),
+ * `null` where the field reads well.
+ * @example guidedHintCodes('point_of_view', { user: 'A new member', need: 'a map', insight: '' }).need // 'noun'
+ */
+export function guidedHintCodes(kind: GuidedKind, fields: Record<string, string>): Record<string, GuidedHintCode | null> {
+  const out: Record<string, GuidedHintCode | null> = {};
+  for (const f of GUIDED_SENTENCES[kind].fields) {
     const value = clean(fields[f.id]);
-    if (!value) out[f.id] = f.emptyHint;
-    else if (value.length > ACTIVITY_LIMITS.fieldChars) out[f.id] = `Too long to send: keep it under ${ACTIVITY_LIMITS.fieldChars} characters.`;
-    else if (value.length > ACTIVITY_LIMITS.fieldSoftChars) out[f.id] = 'A shorter phrase reads better on the wall; try to say it in fewer words.';
-    else if (kind === 'point_of_view' && f.id === 'need' && NOUN_START.test(value)) {
-      out[f.id] = 'Say the need as something to do, e.g. “to find a dock” rather than “a map”.';
-    } else if (kind === 'how_might_we' && f.id === 'action' && /^how might we\b/i.test(value)) {
-      out[f.id] = 'No need to write “how might we” again: start with what we could do.';
-    } else out[f.id] = null;
+    if (!value) out[f.id] = 'empty';
+    else if (value.length > ACTIVITY_LIMITS.fieldChars) out[f.id] = 'tooLong';
+    else if (value.length > ACTIVITY_LIMITS.fieldSoftChars) out[f.id] = 'long';
+    else if (kind === 'point_of_view' && f.id === 'need' && NOUN_START.test(value)) out[f.id] = 'noun';
+    else if (kind === 'how_might_we' && f.id === 'action' && /^how might we\b/i.test(value)) out[f.id] = 'repeat';
+    else out[f.id] = null;
   }
   return out;
 }

@@ -159,8 +159,9 @@ export class SocketCommands {
     const def = COMMANDS[event];
     const access = def.access;
     const fail = (err: unknown) => {
-      if (err instanceof AppError) reply({ error: { code: err.code, message: err.message } });
-      else {
+      if (err instanceof AppError) {
+        reply({ error: { code: err.code, message: err.message, ...(err.detail?.reason ? { reason: err.detail.reason } : {}), ...(err.detail?.params ? { params: err.detail.params } : {}) } });
+      } else {
         this.logger.error({ err, event }, 'socket command failed');
         reply({ error: { code: 'internal', message: 'Something went wrong on the server' } });
       }

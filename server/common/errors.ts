@@ -1,6 +1,6 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { z } from 'zod';
-import { fieldErrors, type ErrorCode } from '../../shared/errors';
+import { fieldErrors, fieldIssues, type ErrorCode, type ErrorParams, type ErrorReason } from '../../shared/errors';
 import type { InputRefusal } from '../../shared/input-gate';
 
 /** An error that carries its HTTP status and Cairn error code to the one error format. */
@@ -10,8 +10,22 @@ export class AppError extends Error {
     public code: ErrorCode,
     message: string,
     public fields?: Record<string, string>,
+    /** The finer reason a participant's phone translates, and its values. */
+    public detail?: { reason?: ErrorReason; params?: ErrorParams; fieldIssues?: ReturnType<typeof fieldIssues> },
   ) {
     super(message);
+  }
+
+  /** The error as the one error body's `error` object. */
+  body(): { code: ErrorCode; message: string; reason?: ErrorReason; params?: ErrorParams; fields?: Record<string, string>; fieldIssues?: ReturnType<typeof fieldIssues> } {
+    return {
+      code: this.code,
+      message: this.message,
+      ...(this.detail?.reason ? { reason: this.detail.reason } : {}),
+      ...(this.detail?.params ? { params: this.detail.params } : {}),
+      ...(this.fields ? { fields: this.fields } : {}),
+      ...(this.detail?.fieldIssues ? { fieldIssues: this.detail.fieldIssues } : {}),
+    };
   }
 }
 
@@ -19,7 +33,7 @@ export class AppError extends Error {
 export const errors = {
   badRequest: (message: string) => new AppError(400, 'bad_request', message),
   validation: (error: z.ZodError, what = 'The request') =>
-    new AppError(400, 'validation_failed', `${what} has fields that need fixing`, fieldErrors(error)),
+    new AppError(400, 'validation_failed', `${what} has fields that need fixing`, fieldErrors(error), { fieldIssues: fieldIssues(error) }),
   unauthenticated: (message = 'Sign in first') => new AppError(401, 'unauthenticated', message),
   forbidden: (message = 'Your role does not allow this') => new AppError(403, 'forbidden', message),
   notFound: (what = 'That') => new AppError(404, 'not_found', `${what} was not found`),
@@ -35,8 +49,8 @@ export const errors = {
 const INPUT_REFUSED: Record<InputRefusal, () => AppError> = {
   not_in_session: errors.notInSession,
   session_ended: errors.sessionEnded,
-  input_locked: () => new AppError(409, 'input_locked', 'The facilitator has locked input for now'),
-  not_current: () => errors.conflict('That activity is not the current one any more; nothing was sent'),
+  input_locked: () => new AppError(409, 'input_locked', 'The facilitator has paused answers for now'),
+  not_current: () => new AppError(409, 'conflict', 'That activity is not the current one any more; nothing was sent', undefined, { reason: 'note_wrong_activity' }),
 };
 
 /** Answers unknown API paths with the one error format. */
@@ -59,11 +73,11 @@ function clientError(status: number, type: string | undefined): { code: ErrorCod
 /** Turns anything thrown into `{ error: { code, message } }` with the right status. */
 export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   if (err instanceof AppError) {
-    res.status(err.status).json({ error: { code: err.code, message: err.message, ...(err.fields ? { fields: err.fields } : {}) } });
+    res.status(err.status).json({ error: err.body() });
     return;
   }
   if (err instanceof z.ZodError) {
-    res.status(400).json({ error: { code: 'validation_failed', message: 'The request has fields that need fixing', fields: fieldErrors(err) } });
+    res.status(400).json({ error: { code: 'validation_failed', message: 'The request has fields that need fixing', fields: fieldErrors(err), fieldIssues: fieldIssues(err) } });
     return;
   }
   const e = err as { type?: string; status?: number; code?: string };

@@ -14,6 +14,7 @@ import * as m0006 from './migrations/0006-retention';
 import * as m0007 from './migrations/0007-session-kind';
 import * as m0008 from './migrations/0008-pinned-items';
 import * as m0009 from './migrations/0009-team-history';
+import * as m0010 from './migrations/0010-locales';
 
 /** Versioned migrations, in order; add a file and a line here for each schema change. */
 export const MIGRATIONS = [
@@ -26,6 +27,7 @@ export const MIGRATIONS = [
   { name: '0007-session-kind', ...m0007 },
   { name: '0008-pinned-items', ...m0008 },
   { name: '0009-team-history', ...m0009 },
+  { name: '0010-locales', ...m0010 },
 ];
 
 /** An open Cairn database: Sequelize, its models and a serialised writer. */

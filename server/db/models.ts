@@ -1,3 +1,4 @@
+import type { Locale } from '../../shared/locales';
 import {
   DataTypes,
   Model,
@@ -137,6 +138,8 @@ export interface LiveSessionRow extends Model<InferAttributes<LiveSessionRow>, I
   version: number;
   startedAt: Date;
   endedAt: Date | null;
+  /** The language the projector shows this session in, picked by a facilitator. */
+  projectorLocale: CreationOptional<Locale>;
   createdAt: CreationOptional<Date>;
   updatedAt: CreationOptional<Date>;
 }
@@ -150,6 +153,8 @@ export interface ParticipantRow extends Model<InferAttributes<ParticipantRow>, I
   photoConsent: boolean;
   teamId: string | null;
   email: string | null;
+  /** The language of the participant's phone when they joined: the e-mail with the report speaks it. */
+  locale: CreationOptional<Locale>;
   joinedAt: Date;
   lastSeenAt: Date;
 }
@@ -421,6 +426,7 @@ export function defineModels(sequelize: Sequelize): Models {
       version: { type: DataTypes.INTEGER, allowNull: false },
       startedAt: { type: DataTypes.DATE, allowNull: false },
       endedAt: { type: DataTypes.DATE, allowNull: true },
+      projectorLocale: { type: DataTypes.STRING(5), allowNull: false, defaultValue: 'en' },
       ...timestamps,
     },
     { tableName: 'live_sessions' },
@@ -435,6 +441,7 @@ export function defineModels(sequelize: Sequelize): Models {
       photoConsent: { type: DataTypes.BOOLEAN, allowNull: false },
       teamId: { type: DataTypes.STRING(64), allowNull: true },
       email: { type: DataTypes.STRING(254), allowNull: true },
+      locale: { type: DataTypes.STRING(5), allowNull: false, defaultValue: 'en' },
       joinedAt: { type: DataTypes.DATE, allowNull: false },
       lastSeenAt: { type: DataTypes.DATE, allowNull: false },
     },

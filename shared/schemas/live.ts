@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { ActivitySettings, ActivityType, Phase } from './agenda-item';
 import { typedText } from './text';
 import { NOTE_TEXT } from '../notes';
+import { LOCALES } from '../locales';
 
 /** Alphabet of join codes: no 0/O, 1/I/L, so a code read off the projector is typed right. */
 export const JOIN_CODE_ALPHABET = '23456789ABCDEFGHJKMNPQRSTUVWXYZ';
@@ -109,6 +110,8 @@ export const LiveState = z.object({
   revealed: z.boolean(),
   /** The last short message the facilitator sent to all phones. */
   message: z.object({ id: z.string(), text: z.string(), sentAt: z.number() }).nullable(),
+  /** The language the projector shows, picked by a facilitator for this session. */
+  projectorLocale: z.enum(LOCALES),
   participantCount: z.number().int(),
   onlineCount: z.number().int(),
   /** Actual start and end of each item run so far. */
@@ -176,6 +179,8 @@ export const JoinBody = z.object({
   photoConsent: z.boolean({ error: 'Choose whether photos of you may be shown' }),
   /** A random id the phone keeps, so rate limits and rejoining work per device, not per IP. */
   deviceId: z.string().min(8).max(64),
+  /** The phone's language, for the e-mail with the report (English when left out). */
+  locale: z.enum(LOCALES).optional(),
 });
 /** Body of joining a live session. */
 export type JoinBody = z.infer<typeof JoinBody>;
@@ -186,7 +191,13 @@ export const JoinAnswer = z.object({ token: z.string(), sessionId: z.string(), m
 export type JoinAnswer = z.infer<typeof JoinAnswer>;
 
 /** What a phone may learn about a session before joining it. */
-export const JoinInfo = z.object({ sessionId: z.string(), workshopTitle: z.string(), consentText: z.string() });
+export const JoinInfo = z.object({
+  sessionId: z.string(),
+  workshopTitle: z.string(),
+  consentText: z.string(),
+  /** Days after the session ends that names, photos and addresses are deleted; `null`: kept until the facilitator deletes them. */
+  retentionDays: z.number().int().nullable(),
+});
 /** What a phone may learn about a session before joining it. */
 export type JoinInfo = z.infer<typeof JoinInfo>;
 

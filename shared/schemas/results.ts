@@ -428,6 +428,8 @@ export const MyData = z.object({
   photoConsent: z.boolean(),
   email: z.string().nullable(),
   notes: z.number().int(),
+  /** The workshop's automatic deletion: days after the session ends, `null` when the data is kept until deleted by hand. */
+  retentionDays: z.number().int().nullable(),
 });
 /** What a participant's phone may see of the data Cairn keeps about them. */
 export type MyData = z.infer<typeof MyData>;

@@ -1,4 +1,4 @@
-import type { ErrorCode } from '../../shared/errors';
+import type { ApiErrorBody, ErrorCode, ErrorParams, ErrorReason, FieldIssue } from '../../shared/errors';
 import type { BallotErrorCode } from '../../shared/tally';
 
 /** What a client error's code may be: the server's codes, a ballot's own check, or the two the client makes itself. */
@@ -16,6 +16,8 @@ export class ClientError extends Error {
     message: string,
     public status = 0,
     public fields: Record<string, string> = {},
+    /** The finer reason, its values and the fields as codes, for a phone to say in its own language (src/i18n/errors.ts). */
+    public detail: { reason?: ErrorReason; params?: ErrorParams; fieldIssues?: Record<string, FieldIssue> } = {},
   ) {
     super(message);
     this.name = 'ClientError';
@@ -45,9 +47,17 @@ export function clientErrorOf(err: unknown, fallback: string): ClientError {
   return err instanceof ClientError ? err : new ClientError('internal', fallback);
 }
 
-/** The server's error body `{ error: { code, message, fields? } }` of a failed HTTP answer, as a client error. */
+/** The server's error body `{ error: { code, message, reason?, params?, fields?, fieldIssues? } }` of a failed HTTP answer (already read), as a client error. */
+export function errorOfBody(status: number, body: unknown, fallback: string): ClientError {
+  const e = (body as { error?: Partial<ApiErrorBody['error']> } | null)?.error;
+  return new ClientError(e?.code ?? 'internal', e?.message ?? fallback, status, e?.fields ?? {}, {
+    reason: e?.reason,
+    params: e?.params,
+    fieldIssues: e?.fieldIssues,
+  });
+}
+
+/** The server's error body of a failed HTTP answer, as a client error. */
 export async function errorOfResponse(res: Response, fallback: string): Promise<ClientError> {
-  const body = (await res.json().catch(() => null)) as { error?: { code?: ErrorCode; message?: string; fields?: Record<string, string> } } | null;
-  const e = body?.error;
-  return new ClientError(e?.code ?? 'internal', e?.message ?? fallback, res.status, e?.fields ?? {});
+  return errorOfBody(res.status, await res.json().catch(() => null), fallback);
 }

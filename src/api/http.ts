@@ -1,5 +1,4 @@
-import type { ErrorCode } from '../../shared/errors';
-import { ClientError } from './errors';
+import { ClientError, errorOfBody } from './errors';
 
 /** How the HTTP client gets and renews the access token (set by the session store). */
 export interface TokenSource {
@@ -35,13 +34,8 @@ async function send<T>(method: string, path: string, body?: unknown, retry = tru
     return send<T>(method, path, body, false, extra);
   }
   if (res.status === 204) return undefined as T;
-  const data = (await res.json().catch(() => null)) as
-    | { error?: { code: ErrorCode; message: string; fields?: Record<string, string> } }
-    | null;
-  if (!res.ok) {
-    const e = data?.error;
-    throw new ClientError(e?.code ?? 'internal', e?.message ?? `The server answered ${res.status}`, res.status, e?.fields ?? {});
-  }
+  const data = (await res.json().catch(() => null)) as unknown;
+  if (!res.ok) throw errorOfBody(res.status, data, `The server answered ${res.status}`);
   return data as T;
 }
 

@@ -1,5 +1,5 @@
 import { http, type TokenSource } from './http';
-import { ClientError } from './errors';
+import { ClientError, errorOfBody } from './errors';
 import type {
   ExportFile,
   MyData,
@@ -118,8 +118,8 @@ export const myDataApi = {
     }).catch(() => {
       throw new ClientError('network', 'Cairn cannot reach the server; check the connection and try again');
     });
-    const data = (await res.json().catch(() => null)) as (T & { error?: { message: string; fields?: Record<string, string> } }) | null;
-    if (!res.ok) throw new ClientError('internal', data?.error?.message ?? `The server answered ${res.status}`, res.status, data?.error?.fields ?? {});
+    const data = (await res.json().catch(() => null)) as T | null;
+    if (!res.ok) throw errorOfBody(res.status, data, `The server answered ${res.status}`);
     return data as T;
   },
   get: (token: string) => myDataApi.call<MyData>('GET', 'data', token),

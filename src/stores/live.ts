@@ -95,7 +95,7 @@ export const useLiveStore = defineStore('live', () => {
     } catch {
       throw new ClientError('timeout', 'The server did not answer in time');
     }
-    if ('error' in answer) throw new ClientError(answer.error.code, answer.error.message);
+    if ('error' in answer) throw new ClientError(answer.error.code, answer.error.message, 0, {}, { reason: answer.error.reason, params: answer.error.params });
     return answer.data;
   }
 

@@ -4,6 +4,7 @@ import type { SubmissionInput } from '../../shared/schemas/live';
 import type { CommandAnswer, CommandPayload } from '../../shared/events';
 import { uploadPhoto } from '../api/uploads';
 import { ClientError } from '../api/errors';
+import { errorText } from '../i18n/errors';
 import { Outbox, type OutboxCommand, type OutboxItem, type PhotoFields } from '../socket/outbox';
 import { browserOutboxStorage } from '../socket/outbox-storage';
 
@@ -47,7 +48,8 @@ export const useOutboxStore = defineStore('outbox', () => {
         stalled.value = outbox.stalled && list.length > 0;
       },
       sent: () => (deliveries.value += 1),
-      refused: (item, err) => (rejected.value = err.message || `A ${item.kind} could not be sent`),
+      // Said on the phone, in its participant's language.
+      refused: (_item, err) => (rejected.value = errorText(err)),
     },
   );
 
@@ -97,7 +99,7 @@ export const useOutboxStore = defineStore('outbox', () => {
     try {
       await answer;
     } catch (err) {
-      if (!(err instanceof ClientError && err.lost)) rejected.value = err instanceof ClientError ? err.message : 'This could not be sent';
+      if (!(err instanceof ClientError && err.lost)) rejected.value = errorText(err);
     }
   }
 

@@ -135,7 +135,7 @@ describe('joining from a phone', () => {
   it('tells a phone the workshop title and the data policy for a live code', async () => {
     const res = await t.agent.get(`/api/join/${info.joinCode}`);
     expect(res.status).toBe(200);
-    expect(JoinInfo.parse(res.body)).toEqual({ sessionId: info.sessionId, workshopTitle: DEMO_WORKSHOP_TITLE, consentText: DEFAULT_CONSENT_TEXT });
+    expect(JoinInfo.parse(res.body)).toEqual({ sessionId: info.sessionId, workshopTitle: DEMO_WORKSHOP_TITLE, consentText: DEFAULT_CONSENT_TEXT, retentionDays: null });
   });
 
   it('forgives case, spaces and dashes in a typed code', async () => {

@@ -157,7 +157,7 @@ describe('sending the report', () => {
     expect(toObserver!.attachments).toEqual([]);
 
     expect(toParticipant!.to).toEqual(['ana.lima@harbourlane.example']);
-    expect(toParticipant!.text).toContain('the names of participants are removed');
+    expect(toParticipant!.text).toContain('without the names of participants');
     expect(toParticipant!.text).not.toContain('/workshops/');
     expect(toParticipant!.attachments).toHaveLength(1);
     const attachment = toParticipant!.attachments[0]!;

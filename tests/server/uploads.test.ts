@@ -224,7 +224,7 @@ describe('refusing bad uploads, leaving nothing behind', () => {
 
   it('refuses photos while input is locked', async () => {
     await commandData(facilitator, 'session:lock', { locked: true });
-    await expectNothingStored(() => upload(0, checkerboard()), 409, 'input_locked', /locked/);
+    await expectNothingStored(() => upload(0, checkerboard()), 409, 'input_locked', /paused answers/);
     await commandData(facilitator, 'session:lock', { locked: false });
   });
 });

@@ -251,11 +251,11 @@ export class PhotosService {
       if (err instanceof AppError) throw err;
       const message = err instanceof Error ? err.message : '';
       if (/pixel limit/i.test(message)) throw tooManyPixels();
-      throw new AppError(400, 'unsupported_media', 'That picture could not be read; take the photo again');
+      throw new AppError(400, 'unsupported_media', 'That picture could not be read; take the photo again', undefined, { reason: 'photo_unreadable' });
     }
   }
 }
 
 function tooManyPixels(): AppError {
-  return new AppError(413, 'payload_too_large', 'That picture has too many pixels to take; use your camera’s normal photo size');
+  return new AppError(413, 'payload_too_large', 'That picture has too many pixels to take; use your camera’s normal photo size', undefined, { reason: 'photo_too_many_pixels' });
 }

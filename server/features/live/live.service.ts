@@ -1,3 +1,4 @@
+import type { Locale } from '../../../shared/locales';
 import crypto from 'node:crypto';
 import QRCode from 'qrcode';
 import { QueryTypes, UniqueConstraintError, type Transaction } from 'sequelize';
@@ -287,9 +288,9 @@ export class LiveService {
   /** What a phone may learn about a live session from its join code before joining. */
   async joinInfo(code: string): Promise<JoinInfo> {
     const session = await this.joinable(code);
-    const w = await this.ctx.db.models.Workshop.findByPk(session.workshopId, { attributes: ['id', 'title', 'consentText'] });
+    const w = await this.ctx.db.models.Workshop.findByPk(session.workshopId, { attributes: ['id', 'title', 'consentText', 'retentionDays'] });
     if (!w) throw errors.notFound('That workshop');
-    return { sessionId: session.id, workshopTitle: w.title, consentText: w.consentText };
+    return { sessionId: session.id, workshopTitle: w.title, consentText: w.consentText, retentionDays: w.retentionDays ?? null };
   }
 
   /**
@@ -311,13 +312,20 @@ export class LiveService {
           body.deviceId,
         ]);
         if (found) {
-          await sql.run('UPDATE participants SET displayName = ?, photoConsent = ?, lastSeenAt = ? WHERE id = ?', [body.displayName, consent, now, found.id]);
+          // A phone that says its language keeps it; one that does not leaves the language it had.
+          await sql.run('UPDATE participants SET displayName = ?, photoConsent = ?, lastSeenAt = ?, locale = COALESCE(?, locale) WHERE id = ?', [
+            body.displayName,
+            consent,
+            now,
+            body.locale ?? null,
+            found.id,
+          ]);
           return { id: found.id, displayName: body.displayName, photoConsent: body.photoConsent, teamId: found.teamId };
         }
         const id = crypto.randomUUID();
         await sql.run(
-          'INSERT INTO participants (id, sessionId, deviceId, displayName, photoConsent, teamId, email, joinedAt, lastSeenAt) VALUES (?, ?, ?, ?, ?, NULL, NULL, ?, ?)',
-          [id, session.id, body.deviceId, body.displayName, consent, now, now],
+          'INSERT INTO participants (id, sessionId, deviceId, displayName, photoConsent, teamId, email, locale, joinedAt, lastSeenAt) VALUES (?, ?, ?, ?, ?, NULL, NULL, ?, ?, ?)',
+          [id, session.id, body.deviceId, body.displayName, consent, body.locale ?? 'en', now, now],
         );
         // Counted inside the writer, so a count read at the same time elsewhere cannot miss this join.
         if (rt.participantCount === null) {
@@ -489,6 +497,26 @@ export class LiveService {
     });
   }
 
+  /** Sets the language the projector shows this session in. */
+  setProjectorLocale(sessionId: string, locale: Locale): Promise<LiveState> {
+    return this.command(sessionId, (s) => {
+      if (s.projectorLocale === locale) return false;
+      s.projectorLocale = locale;
+    });
+  }
+
+  /** Keeps the language a participant's phone now shows, for the e-mail with the report. */
+  async setParticipantLocale(participantId: string, sessionId: string, locale: Locale): Promise<Me> {
+    const p = await this.ctx.db.writeTx(async (transaction) => {
+      const row = await this.ctx.db.models.Participant.findByPk(participantId, { transaction });
+      if (!row || row.sessionId !== sessionId) throw errors.forbidden('You are not in this session any more; join again');
+      row.locale = locale;
+      await row.save({ transaction });
+      return row;
+    });
+    return toMe(p);
+  }
+
   /** Shows or hides the current activity's results on the projector. */
   setRevealed(sessionId: string, revealed: boolean): Promise<LiveState> {
     return this.command(sessionId, (s) => {
@@ -640,8 +668,10 @@ export class LiveService {
   private async joinable(code: string): Promise<{ id: string; workshopId: string }> {
     // A prepared read: every phone of a room looks its code up once or twice within a minute.
     const [row] = await this.ctx.db.read<{ id: string; workshopId: string; status: string }>('SELECT id, workshopId, status FROM live_sessions WHERE joinCode = ?', [code]);
-    if (!row) throw new AppError(404, 'not_found', `No live session has the code ${code}; check the code on the big screen`);
-    if (row.status !== 'live') throw new AppError(404, 'not_found', 'That live session has ended');
+    if (!row) {
+      throw new AppError(404, 'not_found', `No live session has the code ${code}; check the code on the projector`, undefined, { reason: 'join_code_unknown', params: { code } });
+    }
+    if (row.status !== 'live') throw new AppError(404, 'not_found', 'That live session has ended', undefined, { reason: 'join_ended' });
     return row;
   }
 
@@ -683,6 +713,7 @@ export class LiveService {
       locked: s.locked,
       revealed: s.revealed,
       message: s.message,
+      projectorLocale: s.projectorLocale ?? 'en',
       runs: s.runs,
       version: s.version,
     };

@@ -77,6 +77,7 @@ export function registerLiveCommands(commands: SocketCommands, ctx: AppContext, 
   commands.add('session:lock', ({ who, payload }) => live.setLocked(who.sessionId, payload.locked));
   commands.add('session:reveal', ({ who, payload }) => live.setRevealed(who.sessionId, payload.revealed));
   commands.add('session:message', ({ who, payload }) => live.sendMessage(who.sessionId, payload.text));
+  commands.add('session:projector-locale', ({ who, payload }) => live.setProjectorLocale(who.sessionId, payload.locale));
   commands.add('agenda:shorten', ({ who, payload }) => live.shorten(who.sessionId, payload.cuts));
   commands.add('agenda:undo-cuts', ({ who }) => live.undoCuts(who.sessionId));
   commands.add('agenda:keep-cuts', ({ who }) => live.keepCuts(who.sessionId));
@@ -84,6 +85,7 @@ export function registerLiveCommands(commands: SocketCommands, ctx: AppContext, 
   commands.add('submission:list', ({ who, payload }) => live.listSubmissions(who.sessionId, payload.itemId));
   commands.add('participant:me', ({ who }) => live.me(who.participantId!, who.sessionId));
   commands.add('participant:consent', ({ who, payload }) => live.setConsent(who.participantId!, who.sessionId, payload.photoConsent));
+  commands.add('participant:locale', ({ who, payload }) => live.setParticipantLocale(who.participantId!, who.sessionId, payload.locale));
   commands.add('submission:create', ({ who, payload }) => live.createSubmission(who.participantId!, who.sessionId, payload));
 }
 

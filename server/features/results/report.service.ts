@@ -1,3 +1,5 @@
+import { participantMail } from './participant-mail';
+import { isLocale } from '../../../shared/locales';
 import { dayText } from '../../../shared/words';
 import fsp from 'node:fs/promises';
 import path from 'node:path';
@@ -120,14 +122,15 @@ export class ReportService {
       const { pdf, fileName } = await this.pdf(workshopId, true);
       for (const p of people) {
         if (!p.email) continue;
+        // In the language the participant's phone showed when they joined (or chose later).
+        const mail = participantMail(
+          isLocale(p.locale) ? p.locale : 'en',
+          { title: w.title, date: w.date, retentionDays: w.retentionDays ?? null },
+          body.note ? { from: sender.name, text: body.note } : null,
+        );
         await send({
           to: p.email,
-          subject: `Report of the workshop ${title}`,
-          text:
-            `Hello,\n\nYou asked for the report of the workshop ${title}. It is attached as a PDF; ` +
-            `the names of participants are removed from it.\n\n${note}` +
-            'You get this message because you left your e-mail address on your phone at the workshop. ' +
-            "The organisation's data-protection policy applies; the facilitator can delete e-mail addresses after the workshop.\n",
+          ...mail,
           attachments: [{ filename: fileName, content: pdf, contentType: 'application/pdf' }],
         });
       }

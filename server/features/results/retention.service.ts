@@ -186,7 +186,9 @@ export class RetentionService {
   async myData(participantId: string, sessionId: string): Promise<MyData> {
     const p = await this.participant(participantId, sessionId);
     const notes = await this.ctx.db.models.Submission.count({ where: { participantId, sessionId } });
-    return { displayName: p.displayName, photoConsent: p.photoConsent, email: p.email, notes };
+    const session = await this.ctx.db.models.LiveSession.findByPk(sessionId, { attributes: ['workshopId'] });
+    const w = session ? await this.ctx.db.models.Workshop.findByPk(session.workshopId, { attributes: ['retentionDays'] }) : null;
+    return { displayName: p.displayName, photoConsent: p.photoConsent, email: p.email, notes, retentionDays: w?.retentionDays ?? null };
   }
 
   /** A participant leaves an address to get the report by e-mail, or takes it back with `null`. */

@@ -220,7 +220,7 @@ export class VotingService {
         const item = state.item;
         if (!item || !(VoteKind.options as string[]).includes(item.type)) return { refused: errors.conflict('The current activity is not a vote') };
         const vote = await this.ledgers.vote(sessionId, item.id, transaction);
-        if (!vote) return { refused: errors.conflict('Voting has not opened yet') };
+        if (!vote) return { refused: new AppError(409, 'conflict', 'Voting has not opened yet', undefined, { reason: 'vote_not_open' }) };
         const ledger = await this.ledgers.ledger(vote.id, sessionId, transaction);
         const mine = ledger.ballots.get(participantId) ?? [];
         const answer = (dots: Dot[]): BallotAnswer => ({
@@ -229,9 +229,9 @@ export class VotingService {
         });
         // A retry of something already applied is answered before the checks, which may have changed since.
         if (ledger.receipts.has(receiptKey(participantId, payload.clientId))) return { answer: { ...answer(mine), duplicate: true }, applied: false };
-        if (vote.status === 'draft') return { refused: errors.conflict('Voting has not opened yet') };
+        if (vote.status === 'draft') return { refused: new AppError(409, 'conflict', 'Voting has not opened yet', undefined, { reason: 'vote_not_open' }) };
         if (vote.kind !== 'dot_vote') return { refused: errors.badRequest('This vote does not take that kind of ballot') };
-        if (vote.status === 'closed') return { refused: errors.conflict('Voting has closed; your votes stay as they were') };
+        if (vote.status === 'closed') return { refused: new AppError(409, 'conflict', 'Voting has closed; your votes stay as they were', undefined, { reason: 'vote_closed' }) };
         if (!vote.options.some((o) => o.id === payload.optionId)) return { refused: errors.badRequest('This vote has no such option') };
         const change = { optionId: payload.optionId, criterionId: payload.criterionId, delta: payload.delta };
         const cast = castDot(vote.rules, mine, participantId, change);
@@ -556,9 +556,9 @@ export class VotingService {
         const refused = await this.live.gate(sessionId, true, item.id);
         if (refused) throw refused;
         const vote = await Vote.findOne({ where: { sessionId, itemId: item.id }, transaction });
-        if (!vote || vote.status === 'draft') throw errors.conflict('Voting has not opened yet');
+        if (!vote || vote.status === 'draft') throw new AppError(409, 'conflict', 'Voting has not opened yet', undefined, { reason: 'vote_not_open' });
         if (!allowed.includes(vote.kind)) throw errors.badRequest('This vote does not take that kind of ballot');
-        if (vote.status === 'closed') throw errors.conflict('Voting has closed; your votes stay as they were');
+        if (vote.status === 'closed') throw new AppError(409, 'conflict', 'Voting has closed; your votes stay as they were', undefined, { reason: 'vote_closed' });
         await change(vote, transaction);
         await VoteReceipt.create({ id: crypto.randomUUID(), participantId, clientId, voteId: vote.id, createdAt: new Date() }, { transaction });
         return { answer: { duplicate: false, mine: await this.mineOf(vote, participantId, transaction) }, applied: true };

@@ -1,4 +1,5 @@
 import type { ActivityBoard, NoteView } from '../../../shared/schemas/activities';
+import { i18n } from '../../i18n';
 
 /** The notes a room would see: not hidden, not merged into another. */
 export function visibleNotes(board: ActivityBoard | null): NoteView[] {
@@ -17,7 +18,7 @@ export function storyTitle(board: ActivityBoard, key: string, frames: NoteView[]
   const team = board.teams.find((t) => t.id === key);
   if (team) return team.name;
   const name = frames.find((f) => f.displayName)?.displayName;
-  return name ? `${name} (no team)` : 'Without a team';
+  return name ? i18n.global.t('team.personal', { name }) : i18n.global.t('team.none');
 }
 
 /**
@@ -49,8 +50,8 @@ export function teamOf(board: ActivityBoard | null, participantId: string | unde
 
 /** The team's name, or a plain stand-in when the team is gone. */
 export function teamName(board: ActivityBoard | null, teamId: string | null): string {
-  if (!teamId) return 'Without a team';
-  return board?.teams.find((t) => t.id === teamId)?.name ?? 'An earlier team';
+  if (!teamId) return i18n.global.t('team.none');
+  return board?.teams.find((t) => t.id === teamId)?.name ?? i18n.global.t('team.earlier');
 }
 
 /** Notes longer than this (characters) may continue in the projector's next column instead of leaving most of a column empty. */
