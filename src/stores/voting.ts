@@ -46,8 +46,14 @@ export const useVotingStore = defineStore('voting', () => {
     return useLiveStore().ask(event, ...args);
   }
 
+  // Counts the vote broadcasts heard: an answer to `vote:state` read before a broadcast that arrived while
+  // it travelled is older than that broadcast and must not replace it (a phone would keep showing
+  // "voting opens here…" over a vote opened meanwhile).
+  let heard = 0;
+
   function takeVote(next: VoteView): void {
     if (itemId.value && next.itemId !== itemId.value) return;
+    heard += 1;
     // Broadcasts carry no ballot: keep this phone's own.
     const keep = vote.value && vote.value.itemId === next.itemId ? vote.value.mine : null;
     vote.value = { ...next, mine: next.mine ?? keep };
@@ -72,9 +78,12 @@ export const useVotingStore = defineStore('voting', () => {
     if (!withResults) results.value = null;
     if (!connected.value) return;
     try {
+      const before = heard;
       const v = await ask('vote:state');
       if (v.itemId !== itemId.value) return;
-      vote.value = v;
+      const now = vote.value;
+      // A broadcast heard meanwhile is at least as new as this answer; the answer still brings this phone's ballot.
+      vote.value = heard !== before && now?.itemId === v.itemId ? { ...now, mine: now.mine ?? v.mine } : v;
       problem.value = null;
       if (withResults && v.ready) {
         const r = await ask('vote:results');
