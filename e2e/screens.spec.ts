@@ -173,12 +173,31 @@ async function problems(page: Page, screen: 'projector' | 'console' | 'phone', m
   );
 }
 
-/** Waits for the projector's pages to settle (a fit runs on the next animation frames). */
+/**
+ * Waits for the layout to settle: a projector's fit runs on the next animation frame, and a fit that makes
+ * a second page shows the page mark, which takes height from the pages and fits them once more. Settled is
+ * when the pages' boxes, their inline layout and the page mark read the same twice running (at most 3 s).
+ */
 async function settle(page: Page): Promise<void> {
-  await page.evaluate(() => new Promise((r) => {
-    setTimeout(r, 400);
-    requestAnimationFrame(() => requestAnimationFrame(() => setTimeout(r, 50)));
-  }));
+  await page.evaluate(async () => {
+    const frames = () => new Promise<void>((r) => requestAnimationFrame(() => requestAnimationFrame(() => setTimeout(r, 50))));
+    const layout = () =>
+      JSON.stringify([
+        window.innerWidth,
+        window.innerHeight,
+        [...document.querySelectorAll('[data-test="fit-track"]')].map((t) => [t.getAttribute('style'), t.parentElement?.clientWidth, t.parentElement?.clientHeight]),
+        document.querySelector('[data-test="projector-page"]')?.textContent ?? '',
+      ]);
+    const end = Date.now() + 3000;
+    let last = layout();
+    let same = 0;
+    while (same < 2 && Date.now() < end) {
+      await frames();
+      const now = layout();
+      same = now === last ? same + 1 : 0;
+      last = now;
+    }
+  });
 }
 
 const t0 = Date.now();
