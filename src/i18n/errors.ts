@@ -1,4 +1,4 @@
-import { ApiError } from '../api/http';
+import { ClientError } from '../api/errors';
 import type { ErrorParams, FieldIssue } from '../../shared/errors';
 import { i18n } from './index';
 
@@ -27,7 +27,7 @@ export function errorText(err: unknown, fallbackKey: Key = 'error.internal'): st
 
 /** A rejected field in the participant's language (`field.<code>` with its limits), `undefined` when the field is fine. */
 export function fieldText(err: unknown, field: string): string | undefined {
-  if (!(err instanceof ApiError)) return undefined;
+  if (!(err instanceof ClientError)) return undefined;
   const issue: FieldIssue | undefined = err.detail.fieldIssues?.[field];
   if (!issue) return err.fields[field] === undefined ? undefined : i18n.global.t('error.validation_failed');
   const params = issue.params ?? {};
