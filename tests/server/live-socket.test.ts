@@ -347,6 +347,38 @@ describe('the shared countdown', () => {
   });
 });
 
+describe("the projector's language", () => {
+  it('is set by a runner for the session, kept in SQLite, and reaches the projector at once and after a reload', async () => {
+    const display = new URL(info.displayUrl).searchParams.get('display')!;
+    const projector = await t.connect(display);
+    expect((await commandData(projector, 'session:sync')).projectorLocale).toBe('en');
+    const followed = nextEvent(projector, 'session:updated', (s) => s.projectorLocale === 'de');
+    expect((await commandData(facilitator, 'session:projector-locale', { locale: 'de' })).projectorLocale).toBe('de');
+    await followed;
+    const row = await t.cairn.ctx.db.models.LiveSession.findByPk(info.sessionId);
+    expect(row?.projectorLocale).toBe('de');
+    // A projector that reloads asks again and gets the session's language.
+    projector.disconnect();
+    const reloaded = await t.connect(display);
+    expect((await commandData(reloaded, 'session:sync')).projectorLocale).toBe('de');
+    expect((await commandData(facilitator, 'session:projector-locale', { locale: 'en' })).projectorLocale).toBe('en');
+    reloaded.disconnect();
+  });
+
+  it('refuses an observer, a phone and the projector itself, and a language Cairn does not speak', async () => {
+    const display = new URL(info.displayUrl).searchParams.get('display')!;
+    const projector = await t.connect(display);
+    for (const socket of [observer, phoneA, projector]) {
+      expect(await command(socket, 'session:projector-locale', { locale: 'de' })).toMatchObject({ error: { code: 'forbidden' } });
+    }
+    for (const payload of [{ locale: 'fr' }, { locale: 'DE' }, {}, { locale: 'de', extra: 1 }, 'de']) {
+      expect(await command(facilitator, 'session:projector-locale', payload), JSON.stringify(payload)).toMatchObject({ error: { code: 'validation_failed' } });
+    }
+    expect((await commandData(facilitator, 'session:sync')).projectorLocale).toBe('en');
+    projector.disconnect();
+  });
+});
+
 describe('shortening the rest of the agenda', () => {
   it('cuts later items, never below their shortest timebox, and leaves the current timer alone', async () => {
     const at = await goto(9);
