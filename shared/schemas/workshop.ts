@@ -3,13 +3,7 @@ import { DayWindow, RuleSettings } from './day-window';
 import { AgendaItem } from './agenda-item';
 import { WorkshopRole } from './user';
 
-/** The data-policy text shown at join when the facilitator has not written one. */
-export const DEFAULT_CONSENT_TEXT =
-  'Cairn keeps the notes, votes and photos you add today so the team can use them after the workshop. ' +
-  'Your display name is shown to the facilitators and, where an activity needs it, to your team. ' +
-  'Photos that show people are only shown or exported for those who said yes to photos; you can change your answer at any time from your phone. ' +
-  'The facilitator can delete names and photos after the workshop; anonymous tallies and notes stay. ' +
-  "Your organisation's data-protection policy applies.";
+export { DEFAULT_CONSENT_TEXT } from '../consent';
 
 /**
  * Whether `YYYY-MM-DD` names a day of the (proleptic Gregorian) calendar: month 01–12, and a day

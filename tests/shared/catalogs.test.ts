@@ -3,6 +3,8 @@ import { describe, expect, it } from 'vitest';
 import { baseCompile } from '@intlify/message-compiler';
 import { LOCALES, pickLocale, pluralIndex } from '../../shared/locales';
 import { PARTICIPANT_MAIL, participantMail } from '../../server/features/results/participant-mail';
+import { DEFAULT_CONSENT_TEXT } from '../../shared/consent';
+import { dotMeaning } from '../../shared/matrix';
 
 type Tree = { [key: string]: string | Tree };
 // Two sets of catalogs: the participant's screens' (locales/, loaded with the app) and the facilitator's
@@ -52,6 +54,18 @@ describe('catalogs across sets', () => {
   it('never share a top-level section, so merging the facilitator’s into a language overwrites nothing', () => {
     const participant = Object.keys(catalog('en'));
     for (const key of Object.keys(catalog('en', 'facilitator'))) expect(participant, key).not.toContain(key);
+  });
+
+  it("shows the default data policy on an English phone word for word as the server keeps it", () => {
+    // A phone shows join.defaultPolicy in its language where the workshop's policy is still the default.
+    expect(flatten(catalog('en')).get('join.defaultPolicy')).toBe(DEFAULT_CONSENT_TEXT);
+  });
+
+  it("says what a dot means on an English phone as the console's preview does", () => {
+    // The console's preview of the phone's words (shared/matrix.ts) and the phone's catalog agree.
+    const en = flatten(catalog('en'));
+    expect(en.get('vote.dotMeansLow')!.replace('{name}', 'cost')).toBe(dotMeaning({ label: 'Cost', dotMeans: 'low' }));
+    expect(en.get('vote.dotMeansHigh')!.replace('{name}', 'joy')).toBe(dotMeaning({ label: 'Joy' }));
   });
 
   it('the participant e-mail has the same keys and placeholders in every language', () => {
