@@ -9,6 +9,8 @@ const OPTIONS = ['How might we show which tools are free?', 'How might we make r
 
 /** Scans the page with axe-core (no serious or critical finding) and keeps a screenshot of the state scanned. */
 async function scan(page: Page, state: string): Promise<void> {
+  // A dialog fades in: scanned half-transparent, its text fails contrast that it passes once shown.
+  await page.waitForFunction(() => document.getAnimations().every((a) => a.playState !== 'running' || a.effect?.getTiming().iterations === Infinity), undefined, { timeout: 10_000 });
   await shot(page, `a11y-${state}`);
   const results = await new AxeBuilder({ page }).analyze();
   const bad = results.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
