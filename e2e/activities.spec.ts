@@ -1,23 +1,9 @@
 import { test, expect, type Locator, type Page } from '@playwright/test';
-import { PNG } from 'pngjs';
-import { DEMO, expectAccessible, joinPhone, runLive, shot, signIn } from './fixtures';
+import { DEMO, expectAccessible, joinPhone, runLive, shot, signIn, sketchPng } from './fixtures';
 
 // The full-day template's agenda, by position (see shared/templates.ts).
 const AGENDA = { interview: 2, empathyMap: 3, howMightWe: 7, sketch: 11, testRounds: 15 };
 
-/** A small PNG made here: a sketch sheet of eight boxes on white. */
-function sketchPng(): Buffer {
-  const png = new PNG({ width: 160, height: 80 });
-  for (let y = 0; y < 80; y++) {
-    for (let x = 0; x < 160; x++) {
-      const line = x % 40 < 2 || y % 40 < 2;
-      const i = (y * 160 + x) * 4;
-      png.data[i] = png.data[i + 1] = png.data[i + 2] = line ? 30 : 250;
-      png.data[i + 3] = 255;
-    }
-  }
-  return PNG.sync.write(png);
-}
 
 /** Drags a note by its handle into a list, with small pointer steps (the lists sort by pointer, not HTML5 drag). */
 async function dragInto(page: Page, note: Locator, target: Locator): Promise<void> {

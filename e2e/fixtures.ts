@@ -3,6 +3,7 @@ import { io as ioClient } from 'socket.io-client';
 import AxeBuilder from '@axe-core/playwright';
 import fs from 'node:fs';
 import path from 'node:path';
+import { PNG } from 'pngjs';
 
 /** The demo accounts seeded on first start (see server/db/seed.ts and the README). */
 export const DEMO = {
@@ -92,4 +93,18 @@ export async function rehearseOwnWorkshop(request: APIRequestContext, baseURL: s
   const facilitator = ioClient(baseURL, { auth: { token: accessToken }, transports: ['websocket'] });
   await facilitator.timeout(10_000).emitWithAck('session:watch', { sessionId: live.sessionId });
   return { auth, workshopId, live, facilitator };
+}
+
+/** A small PNG made here: a sketch sheet of eight boxes on white. */
+export function sketchPng(): Buffer {
+  const png = new PNG({ width: 160, height: 80 });
+  for (let y = 0; y < 80; y++) {
+    for (let x = 0; x < 160; x++) {
+      const line = x % 40 < 2 || y % 40 < 2;
+      const i = (y * 160 + x) * 4;
+      png.data[i] = png.data[i + 1] = png.data[i + 2] = line ? 30 : 250;
+      png.data[i + 3] = 255;
+    }
+  }
+  return PNG.sync.write(png);
 }

@@ -1,9 +1,8 @@
 import { test, expect, type Browser, type Page } from '@playwright/test';
 import { io, type Socket } from 'socket.io-client';
-import { PNG } from 'pngjs';
 import fs from 'node:fs';
 import path from 'node:path';
-import { DEMO, runLive, shot, signIn } from './fixtures';
+import { DEMO, runLive, shot, signIn, sketchPng } from './fixtures';
 
 /*
  * A German phone and a Spanish phone take part in every activity type, and neither they nor the projector,
@@ -76,19 +75,6 @@ const STEP = (i: number) => `Etappe ${i + 1} · Etapa ${i + 1}`;
 const PROMPT = 'Schreibt auf, was euch am Steg aufgefallen ist. · Escribid lo que os llamó la atención en el muelle.';
 const CHALLENGES = ['Freie Stege finden · Encontrar muelles libres', 'Das Schloss verstehen · Entender el candado'];
 
-/** A small PNG made here: a sketch sheet of eight boxes on white. */
-function sketchPng(): Buffer {
-  const png = new PNG({ width: 160, height: 80 });
-  for (let y = 0; y < 80; y++) {
-    for (let x = 0; x < 160; x++) {
-      const line = x % 40 < 2 || y % 40 < 2;
-      const i = (y * 160 + x) * 4;
-      png.data[i] = png.data[i + 1] = png.data[i + 2] = line ? 30 : 250;
-      png.data[i + 3] = 255;
-    }
-  }
-  return PNG.sync.write(png);
-}
 
 /** Sends a socket command and returns its data, failing on a refusal. */
 async function cmd<T = unknown>(s: Socket, event: string, payload: unknown = {}): Promise<T> {
