@@ -32,6 +32,8 @@ import { ParticipantSockets, limitSocketEvents } from './common/socket-rate-limi
 import { shareBroadcasts } from './common/scale-out';
 import { Announcer } from './common/announcer';
 import { LiveService } from './features/live/live.service';
+import { PresenceService } from './features/live/presence.service';
+import { SubmissionsService } from './features/live/submissions.service';
 import { liveRoutes } from './features/live/live.router';
 import { sessionsRoutes } from './features/live/sessions.router';
 import { SessionsService } from './features/live/sessions.service';
@@ -223,12 +225,15 @@ export async function createApp(config: Config): Promise<CairnApp> {
   usersRoutes(routes, users);
   workshopsRoutes(routes, workshops);
   membersRoutes(routes, ctx, new MembersService(db, mail), auth);
-  const live = new LiveService(ctx);
-  liveRoutes(routes, ctx, live);
+  // The live session in three services: who is in the room, the session's state, and what the phones send in.
+  const presence = new PresenceService(ctx);
+  const live = new LiveService(ctx, presence);
+  const submissions = new SubmissionsService(ctx, live);
+  liveRoutes(routes, ctx, live, presence);
   sessionsRoutes(routes, new SessionsService(ctx));
-  const activities = new ActivitiesService(ctx, live);
-  uploadsRoutes(routes, ctx, new PhotosService(ctx, live));
-  const voting = new VotingService(ctx, live);
+  const activities = new ActivitiesService(ctx, live, presence, submissions);
+  uploadsRoutes(routes, ctx, new PhotosService(ctx, live, presence, submissions));
+  const voting = new VotingService(ctx, live, presence);
   votingRoutes(routes, voting);
   const results = new ResultsService(ctx, { votes: voting });
   const retention = new RetentionService(ctx);
@@ -275,9 +280,9 @@ export async function createApp(config: Config): Promise<CairnApp> {
   voting.useTeams(teams);
   const pages = new PagesService(announcer);
   // Every socket command, declared in shared/events.ts, gets its handler once here.
-  const commands = new SocketCommands(liveSessions(ctx, live), ctx.logger);
+  const commands = new SocketCommands(liveSessions(ctx, presence), ctx.logger);
   registerClockSocket(commands);
-  registerLiveCommands(commands, ctx, live);
+  registerLiveCommands(commands, ctx, { live, presence, submissions });
   registerTeamsSocket(commands, teams);
   registerActivitiesSocket(commands, activities);
   registerVotingSocket(commands, voting, ctx);
@@ -301,6 +306,7 @@ export async function createApp(config: Config): Promise<CairnApp> {
       // First, so the disconnects below schedule no announcements against a closing database.
       announcer.close();
       live.close();
+      presence.close();
       await retention.stop();
       io.disconnectSockets(true);
       await new Promise<void>((resolve) => io.close(() => resolve()));

@@ -4,6 +4,8 @@ import type { AppContext } from '../../context';
 import type { ActivityStateRow, AgendaItemRow, ParticipantRow, PhotoRow, SubmissionRow } from '../../db/models';
 import { AppError, errors } from '../../common/errors';
 import { liveRooms, type LiveService } from '../live/live.service';
+import type { PresenceService } from '../live/presence.service';
+import type { SubmissionsService } from '../live/submissions.service';
 import { photoCleared } from './photos.service';
 import { pairsForRound, roundRobinLength, testRotation } from '../../../shared/rotations';
 import { fieldErrors } from '../../../shared/errors';
@@ -50,14 +52,16 @@ export class ActivitiesService {
   constructor(
     private ctx: AppContext,
     private live: LiveService,
+    private presence: PresenceService,
+    submissions: SubmissionsService,
   ) {
-    live.addSubmissionCheck((input, participant, transaction) => this.checkSubmission(input, participant, transaction));
-    live.onConsentChanged((sessionId, participantId) => {
+    submissions.addSubmissionCheck((input, participant, transaction) => this.checkSubmission(input, participant, transaction));
+    presence.onConsentChanged((sessionId, participantId) => {
       this.photosOfChanged(sessionId, participantId).catch((err: unknown) => {
         if (!this.ctx.announcer.isClosed) this.ctx.logger.error({ err }, 'could not announce a change of photo consent');
       });
     });
-    live.onSubmissionCreated((view) => {
+    submissions.onSubmissionCreated((view) => {
       this.afterSubmission(view).catch((err: unknown) => {
         if (!this.ctx.announcer.isClosed) this.ctx.logger.error({ err }, 'could not announce a new note');
       });
@@ -438,7 +442,7 @@ export class ActivitiesService {
 
   /** A phone puts its own team's storyboard in order. */
   async reorderFrames(sessionId: string, participantId: string, itemId: string, frameIds: string[]): Promise<string[]> {
-    const p = await this.live.participantOf(participantId, sessionId);
+    const p = await this.presence.participantOf(participantId, sessionId);
     if (!p) throw errors.notInSession();
     return this.arrangeFrames(sessionId, itemId, storyKey({ teamId: p.teamId, participantId: p.id }), frameIds);
   }
@@ -542,7 +546,7 @@ export class ActivitiesService {
    */
   private async addLateJoiners(sessionId: string, state: ActivityStateRow): Promise<void> {
     const inRoster = new Set(state.roster ?? []);
-    const late = (await this.live.participants(sessionId)).filter((p) => p.online && !inRoster.has(p.id)).map((p) => p.id);
+    const late = (await this.presence.participants(sessionId)).filter((p) => p.online && !inRoster.has(p.id)).map((p) => p.id);
     if (late.length === 0) return;
     state.roster = [...(state.roster ?? []), ...late];
     state.changed('roster', true);
@@ -554,7 +558,7 @@ export class ActivitiesService {
     let state = await ActivityState.findOne({ where: { sessionId, itemId: item.id }, transaction });
     state ??= ActivityState.build({ id: crypto.randomUUID(), sessionId, itemId: item.id, round: 0, roster: null, frameOrders: {} });
     if (PAIRED_TYPES.has(item.type as ActivityType) && (state.roster === null || regroup)) {
-      const people = await this.live.participants(sessionId);
+      const people = await this.presence.participants(sessionId);
       const online = people.filter((p) => p.online);
       // Pair whoever is here; before anyone's phone is connected, everyone who joined.
       state.roster = (online.length ? online : people).map((p) => p.id);

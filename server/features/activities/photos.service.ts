@@ -7,6 +7,8 @@ import type { AppContext } from '../../context';
 import type { PhotoRow } from '../../db/models';
 import { AppError, errors } from '../../common/errors';
 import { type LiveService } from '../live/live.service';
+import type { PresenceService } from '../live/presence.service';
+import type { SubmissionsService } from '../live/submissions.service';
 import { ACTIVITY_LIBRARY } from '../../../shared/activities';
 import { ACTIVITY_LIMITS, type PhotoUploadAnswer, type PhotoUploadFields } from '../../../shared/schemas/activities';
 import type { ActivityType } from '../../../shared/schemas/agenda-item';
@@ -71,6 +73,8 @@ export class PhotosService {
   constructor(
     private ctx: AppContext,
     private live: LiveService,
+    private presence: PresenceService,
+    private submissions: SubmissionsService,
   ) {}
 
   /** Where the files of a photo live (outside any folder the server serves). */
@@ -114,7 +118,7 @@ export class PhotosService {
     if (!file || file.length === 0) throw errors.badRequest('Choose a photo first');
     // Cheap checks first, so a photo that cannot be taken now is not decoded for nothing.
     const [participant, session, item] = await Promise.all([
-      this.live.participantOf(participantId, sessionId),
+      this.presence.participantOf(participantId, sessionId),
       LiveSession.findByPk(sessionId),
       AgendaItem.findByPk(fields.itemId),
     ]);
@@ -167,7 +171,7 @@ export class PhotosService {
           { transaction },
         );
       });
-      const made = await this.live.createSubmission(participantId, sessionId, {
+      const made = await this.submissions.create(participantId, sessionId, {
         clientId: fields.clientId,
         itemId: item.id,
         kind: photoKind,

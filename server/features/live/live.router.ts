@@ -6,6 +6,7 @@ import { access, EDIT_ROLES, READ_ROLES } from '../../common/access';
 import { errors } from '../../common/errors';
 import type { AppContext } from '../../context';
 import type { LiveService } from './live.service';
+import type { PresenceService } from './presence.service';
 import { JoinAnswer, JoinBody, JoinCode, JoinInfo, LiveSessionInfo, StartLiveBody } from '../../../shared/schemas/live';
 
 const WorkshopParams = z.object({ workshopId: z.string().min(1).max(64) });
@@ -50,7 +51,7 @@ function sendPng(res: Response, png: Buffer): void {
  * The live session over HTTP: start, read and stop it, its join QR code, and joining from a phone.
  * The socket commands are in live.socket.ts.
  */
-export function liveRoutes(routes: ApiRoutes, ctx: AppContext, live: LiveService): void {
+export function liveRoutes(routes: ApiRoutes, ctx: AppContext, live: LiveService, presence: PresenceService): void {
   const tag = 'live';
 
   // Per device, not per address: a whole room shares one address behind the venue's Wi-Fi.
@@ -185,7 +186,7 @@ export function liveRoutes(routes: ApiRoutes, ctx: AppContext, live: LiveService
     params: CodeParams,
     response: JoinInfo,
     before: [perAddress, perDevice],
-    handler: ({ params }) => live.joinInfo(params.code),
+    handler: ({ params }) => presence.joinInfo(params.code),
   });
 
   routes.add({
@@ -198,6 +199,6 @@ export function liveRoutes(routes: ApiRoutes, ctx: AppContext, live: LiveService
     body: JoinBody,
     response: JoinAnswer,
     before: [perAddress, perDevice, perCodeAndAddress, perCodeAndDevice],
-    handler: ({ params, body }) => live.join(params.code, body),
+    handler: ({ params, body }) => presence.join(params.code, body),
   });
 }

@@ -1,9 +1,9 @@
 import type { Locale } from '../../../shared/locales';
 import crypto from 'node:crypto';
 import QRCode from 'qrcode';
-import { QueryTypes, UniqueConstraintError, type Transaction } from 'sequelize';
+import { QueryTypes, type Transaction } from 'sequelize';
 import type { AppContext } from '../../context';
-import type { LiveSessionRow, ParticipantRow, SubmissionRow } from '../../db/models';
+import type { LiveSessionRow } from '../../db/models';
 import { AppError, errors } from '../../common/errors';
 import { joinBaseUrl } from '../../common/network';
 import { toAgendaItem, type AgendaItemFields } from '../workshops/workshops.service';
@@ -25,22 +25,16 @@ import { cutRunTimeboxes, undoRunCut, withRunTimeboxes } from '../../../shared/d
 import {
   JOIN_CODE_ALPHABET,
   JOIN_CODE_LENGTH,
-  type JoinAnswer,
-  type JoinBody,
-  type JoinInfo,
   phoneStateOf,
   type LiveItem,
   type LiveSessionInfo,
   type LiveState,
-  type Me,
-  type ParticipantView,
   type SessionKind,
-  type SubmissionInput,
-  type SubmissionView,
   type TimerState,
 } from '../../../shared/schemas/live';
 import type { AgendaItem } from '../../../shared/schemas/agenda-item';
 import type { CairnIo } from '../../common/announcer';
+import type { PresenceService } from './presence.service';
 
 /** Cairn's socket.io server (the live socket handlers reach it for rooms and account checks; broadcasts go through the announcer). */
 export type LiveIo = CairnIo;
@@ -65,28 +59,14 @@ export const liveRooms = {
 const STATE_FRESH_MS = 5_000;
 /** The same with several processes on one file (REDIS_URL), where another process may have changed it. */
 const SHARED_STATE_FRESH_MS = 250;
-/** Joins, connections and consent changes within this window are announced together, so a room of phones arriving at once costs a few broadcasts, not one each. */
-const ROOM_TICK_MS = 250;
-/**
- * The window grows by this much per person online past 250 of them: each announcement sends the console the
- * whole room list, so with a fixed window a room of thousands joining at once costs the square of its size
- * (npm run bench, 2026-12-02, before this: server CPU per join 14.8 ms at 3,000 phones against 10.3 ms at 1,000).
- */
-const ROOM_TICK_MS_PER_PERSON = 1;
 /** Tries at drawing an unused join code before giving up (a clash is already about 1 in 10^10). */
 const JOIN_CODE_TRIES = 10;
 
 /** The part of a live state that does not change with the room's head count or the clock. */
 type BaseState = Omit<LiveState, 'serverTime' | 'participantCount' | 'onlineCount'>;
 
-/** What the service keeps in memory about a session: the room, never the session's state itself. */
+/** What the service keeps in memory about a session: its last state, never the session's state of record. */
 interface Runtime {
-  /** Participants who ever joined; `null` until first counted. */
-  participantCount: number | null;
-  /** Connected sockets of each online participant. */
-  online: Map<string, number>;
-  /** Participants whose last-seen time is to be written at the next tick. */
-  seen: Set<string>;
   /** The last state read or written, for phones that resync. */
   base: { state: BaseState; at: number } | null;
   loading: Promise<BaseState> | null;
@@ -105,28 +85,6 @@ function toLiveItem(item: AgendaItem, index: number): LiveItem {
     prompt: item.prompt,
     timeboxMin: item.timeboxMin,
     settings: item.settings,
-  };
-}
-
-/** A participant as their own phone sees them. */
-function toMe(p: ParticipantRow): Me {
-  return { id: p.id, displayName: p.displayName, photoConsent: p.photoConsent, teamId: p.teamId };
-}
-
-/** A stored submission as facilitators see it. */
-function toSubmissionView(row: SubmissionRow, displayName: string): SubmissionView {
-  return {
-    id: row.id,
-    itemId: row.itemId,
-    participantId: row.participantId,
-    displayName,
-    teamId: row.teamId,
-    kind: row.kind,
-    part: row.part,
-    text: row.text,
-    fields: row.fields,
-    hidden: row.hidden,
-    createdAt: row.createdAt.getTime(),
   };
 }
 
@@ -157,48 +115,34 @@ function applied<T>(t: Transition<T>): T | false {
 }
 
 /**
- * A rule an activity adds to submissions (e.g. a note's quadrant must be one of the map's): it runs
- * inside the write transaction once the general checks passed, and throws an AppError to refuse.
- */
-export type SubmissionCheck = (input: SubmissionInput, participant: ParticipantRow, transaction: Transaction) => Promise<void>;
-
-/**
- * The live session: starting and stopping it, joining from phones, the agenda position, the shared
- * countdown, locking, revealing, messages and submissions. Every change is written to SQLite first
- * (so a restart resumes where the room was) and broadcast after the commit.
+ * The live session: starting and stopping it, the agenda position and the shared countdown (the
+ * transitions of shared/live-moves.ts), locking, revealing, messages, the run's timebox cuts, the state
+ * every screen is sent and the one input gate over it. Every change is written to SQLite first (so a
+ * restart resumes where the room was) and broadcast after the commit. Who is in the room is
+ * presence.service.ts; what the phones send in is submissions.service.ts.
  */
 export class LiveService {
   private runtimes = new Map<string, Runtime>();
-  private submissionChecks: SubmissionCheck[] = [];
-  private submissionListeners: ((submission: SubmissionView) => void)[] = [];
-  private consentListeners: ((sessionId: string, participantId: string) => void)[] = [];
   private endingSteps: ((sessionId: string, transaction: Transaction) => Promise<void>)[] = [];
 
-  constructor(private ctx: AppContext) {
+  constructor(
+    private ctx: AppContext,
+    private presence: PresenceService,
+  ) {
     // Another Cairn process on the same file changed something: the kept states are read afresh.
     ctx.db.onExternalChange(() => {
       for (const rt of this.runtimes.values()) rt.base = null;
     });
-  }
-
-  /** Adds an activity's rule that every new submission must also pass. */
-  addSubmissionCheck(check: SubmissionCheck): void {
-    this.submissionChecks.push(check);
+    // Only screens that show the head count get the new counts when the room changes; the phones' state has not changed.
+    presence.onRoomChanged(async (sessionId) => {
+      const screens = liveRooms.screens(sessionId);
+      if (ctx.announcer.listening(screens)) ctx.announcer.announce(screens, 'session:updated', await this.state(sessionId));
+    });
   }
 
   /** Adds a step to ending a session, run in the transaction that ends it (a feature closes what was left open). */
   onEnding(step: (sessionId: string, transaction: Transaction) => Promise<void>): void {
     this.endingSteps.push(step);
-  }
-
-  /** Calls `listener` with every new submission after its commit (activities that tell more rooms than the facilitators). */
-  onSubmissionCreated(listener: (submission: SubmissionView) => void): void {
-    this.submissionListeners.push(listener);
-  }
-
-  /** Calls `listener` after a participant's photo consent changed (after the commit), so their photos can be shown or blurred at once. */
-  onConsentChanged(listener: (sessionId: string, participantId: string) => void): void {
-    this.consentListeners.push(listener);
   }
 
   /** Forgets the kept session states (the app is shutting down; the announcer has stopped announcing). */
@@ -285,146 +229,11 @@ export class LiveService {
     return row?.workshopId === workshopId;
   }
 
-  /** What a phone may learn about a live session from its join code before joining. */
-  async joinInfo(code: string): Promise<JoinInfo> {
-    const session = await this.joinable(code);
-    const w = await this.ctx.db.models.Workshop.findByPk(session.workshopId, { attributes: ['id', 'title', 'consentText', 'retentionDays'] });
-    if (!w) throw errors.notFound('That workshop');
-    return { sessionId: session.id, workshopTitle: w.title, consentText: w.consentText, retentionDays: w.retentionDays ?? null };
-  }
-
-  /**
-   * Joins a live session from a phone: the same device gets the same participant back, with the name and consent it gave last.
-   * A room joins within a minute, so a join shares its transaction with the writes waiting beside it
-   * (`batchTx`) and reads and writes its row with prepared statements, not through the model layer.
-   */
-  async join(code: string, body: JoinBody): Promise<JoinAnswer> {
-    const session = await this.joinable(code);
-    const rt = this.runtime(session.id);
-    const me = await this.ctx.db.batchTx(
-      async (transaction): Promise<Me> => {
-        const sql = this.ctx.db.raw(transaction);
-        // Dates as Sequelize writes them for SQLite, booleans as 0 and 1, so the model reads them back alike.
-        const now = new Date().toISOString().replace('T', ' ').replace('Z', ' +00:00');
-        const consent = body.photoConsent ? 1 : 0;
-        const [found] = await sql.all<{ id: string; teamId: string | null }>('SELECT id, teamId FROM participants WHERE sessionId = ? AND deviceId = ?', [
-          session.id,
-          body.deviceId,
-        ]);
-        if (found) {
-          // A phone that says its language keeps it; one that does not leaves the language it had.
-          await sql.run('UPDATE participants SET displayName = ?, photoConsent = ?, lastSeenAt = ?, locale = COALESCE(?, locale) WHERE id = ?', [
-            body.displayName,
-            consent,
-            now,
-            body.locale ?? null,
-            found.id,
-          ]);
-          return { id: found.id, displayName: body.displayName, photoConsent: body.photoConsent, teamId: found.teamId };
-        }
-        const id = crypto.randomUUID();
-        await sql.run(
-          'INSERT INTO participants (id, sessionId, deviceId, displayName, photoConsent, teamId, email, locale, joinedAt, lastSeenAt) VALUES (?, ?, ?, ?, ?, NULL, NULL, ?, ?, ?)',
-          [id, session.id, body.deviceId, body.displayName, consent, body.locale ?? 'en', now, now],
-        );
-        // Counted inside the writer, so a count read at the same time elsewhere cannot miss this join.
-        if (rt.participantCount === null) {
-          const [row] = await sql.all<{ n: number }>('SELECT COUNT(*) AS n FROM participants WHERE sessionId = ?', [session.id]);
-          rt.participantCount = Number(row?.n ?? 0);
-        } else rt.participantCount += 1;
-        return { id, displayName: body.displayName, photoConsent: body.photoConsent, teamId: null };
-      },
-      // The batch rolled back: the count is read afresh.
-      () => {
-        rt.participantCount = null;
-      },
-    );
-    this.scheduleTick(session.id);
-    return { token: this.ctx.tokens.signParticipant(me.id, session.id), sessionId: session.id, me };
-  }
-
-  /** Where a participant's socket belongs (its session and team), or `null` when there is no such participant in the session; read when a phone connects. */
-  async placeOf(participantId: string, sessionId: string): Promise<{ id: string; sessionId: string; teamId: string | null } | null> {
-    const [p] = await this.ctx.db.read<{ id: string; sessionId: string; teamId: string | null }>('SELECT id, sessionId, teamId FROM participants WHERE id = ?', [participantId]);
-    return p && p.sessionId === sessionId ? p : null;
-  }
-
-  /** A participant of a session, or `null` when there is no such participant in it. */
-  async participantOf(participantId: string, sessionId: string): Promise<ParticipantRow | null> {
-    const p = await this.ctx.db.models.Participant.findByPk(participantId);
-    return p && p.sessionId === sessionId ? p : null;
-  }
-
   /** The workshop a session belongs to (for checking a watcher's role on it). */
   async workshopOf(sessionId: string): Promise<string> {
     const row = await this.ctx.db.models.LiveSession.findByPk(sessionId, { attributes: ['id', 'workshopId'] });
     if (!row) throw errors.notFound('That live session');
     return row.workshopId;
-  }
-
-  /** Counts a participant's socket as connected; they are online while any of their sockets is. */
-  participantConnected(sessionId: string, participantId: string): void {
-    if (!this.ctx.announcer.active) return;
-    const rt = this.runtime(sessionId);
-    const sockets = (rt.online.get(participantId) ?? 0) + 1;
-    rt.online.set(participantId, sockets);
-    if (sockets === 1) {
-      rt.seen.add(participantId);
-      this.scheduleTick(sessionId);
-    }
-  }
-
-  /** Counts a participant's socket as gone. */
-  participantDisconnected(sessionId: string, participantId: string): void {
-    if (!this.ctx.announcer.active) return;
-    const rt = this.runtime(sessionId);
-    const sockets = (rt.online.get(participantId) ?? 1) - 1;
-    if (sockets > 0) {
-      rt.online.set(participantId, sockets);
-      return;
-    }
-    rt.online.delete(participantId);
-    rt.seen.add(participantId);
-    this.scheduleTick(sessionId);
-  }
-
-  /** Everyone who joined the session, with whether they are online now, in order of joining. */
-  async participants(sessionId: string): Promise<ParticipantView[]> {
-    // Raw rows: the list of a full room is read a few times a second while votes come in.
-    const rows = await this.ctx.db.sequelize.query<{ id: string; displayName: string; photoConsent: number | boolean; teamId: string | null; joinedAt: string }>(
-      'SELECT id, displayName, photoConsent, teamId, joinedAt FROM participants WHERE sessionId = ? ORDER BY joinedAt ASC',
-      { replacements: [sessionId], type: QueryTypes.SELECT },
-    );
-    const online = this.runtime(sessionId).online;
-    return rows.map((p) => ({
-      id: p.id,
-      displayName: p.displayName,
-      photoConsent: Boolean(p.photoConsent),
-      teamId: p.teamId,
-      online: online.has(p.id),
-      joinedAt: new Date(p.joinedAt).getTime(),
-    }));
-  }
-
-  /** What a participant's phone knows about them. */
-  async me(participantId: string, sessionId: string): Promise<Me> {
-    const p = await this.participantOf(participantId, sessionId);
-    if (!p) throw errors.notInSession();
-    return toMe(p);
-  }
-
-  /** A participant gives or withdraws photo consent (allowed even after the session ended). */
-  async setConsent(participantId: string, sessionId: string, photoConsent: boolean): Promise<Me> {
-    const p = await this.ctx.db.writeTx(async (transaction) => {
-      const row = await this.ctx.db.models.Participant.findByPk(participantId, { transaction });
-      if (!row || row.sessionId !== sessionId) throw errors.notInSession();
-      row.photoConsent = photoConsent;
-      await row.save({ transaction });
-      return row;
-    });
-    this.scheduleTick(sessionId);
-    for (const listener of this.consentListeners) listener(sessionId, participantId);
-    return toMe(p);
   }
 
   /** The session's state now, as every screen sees it. */
@@ -505,18 +314,6 @@ export class LiveService {
     });
   }
 
-  /** Keeps the language a participant's phone now shows, for the e-mail with the report. */
-  async setParticipantLocale(participantId: string, sessionId: string, locale: Locale): Promise<Me> {
-    const p = await this.ctx.db.writeTx(async (transaction) => {
-      const row = await this.ctx.db.models.Participant.findByPk(participantId, { transaction });
-      if (!row || row.sessionId !== sessionId) throw errors.forbidden('You are not in this session any more; join again');
-      row.locale = locale;
-      await row.save({ transaction });
-      return row;
-    });
-    return toMe(p);
-  }
-
   /** Shows or hides the current activity's results on the projector. */
   setRevealed(sessionId: string, revealed: boolean): Promise<LiveState> {
     return this.command(sessionId, (s) => {
@@ -578,71 +375,6 @@ export class LiveService {
     });
   }
 
-  /**
-   * Stores a participant's submission to the current item, exactly once per `clientId`: a retry
-   * answers with the first submission's id and `duplicate: true`.
-   */
-  async createSubmission(participantId: string, sessionId: string, input: SubmissionInput): Promise<{ id: string; duplicate: boolean }> {
-    const { Participant, Submission } = this.ctx.db.models;
-    let created: { row: SubmissionRow; displayName: string } | null = null;
-    const answer = await this.ctx.db
-      .writeTx(async (transaction) => {
-        const p = await Participant.findByPk(participantId, { transaction });
-        if (!p || p.sessionId !== sessionId) throw errors.notInSession();
-        // A retry of something already stored is answered before the checks, which may have changed since.
-        const first = await Submission.findOne({ where: { participantId, clientId: input.clientId }, attributes: ['id'], transaction });
-        if (first) return { id: first.id, duplicate: true };
-        const refused = await this.gate(sessionId, true, input.itemId);
-        if (refused) throw refused;
-        for (const check of this.submissionChecks) await check(input, p, transaction);
-        const row = await Submission.create(
-          {
-            id: crypto.randomUUID(),
-            sessionId,
-            itemId: input.itemId,
-            participantId,
-            clientId: input.clientId,
-            kind: input.kind,
-            part: input.part ?? null,
-            text: input.text,
-            fields: input.fields ?? null,
-            teamId: p.teamId,
-            themeId: null,
-            createdAt: new Date(),
-          },
-          { transaction },
-        );
-        created = { row, displayName: p.displayName };
-        return { id: row.id, duplicate: false };
-      })
-      .catch(async (err: unknown) => {
-        // The unique (participantId, clientId) index is the last word if two copies ever race past the lookup.
-        if (!(err instanceof UniqueConstraintError)) throw err;
-        const first = await Submission.findOne({ where: { participantId, clientId: input.clientId }, attributes: ['id'] });
-        if (!first) throw err;
-        return { id: first.id, duplicate: true };
-      });
-    const made = created as { row: SubmissionRow; displayName: string } | null;
-    if (made) {
-      const view = toSubmissionView(made.row, made.displayName);
-      this.ctx.announcer.announce(liveRooms.facilitators(sessionId), 'submission:created', view);
-      for (const listener of this.submissionListeners) listener(view);
-    }
-    return answer;
-  }
-
-  /** The submissions to one agenda item of a session so far, oldest first (hidden ones included and marked). */
-  async listSubmissions(sessionId: string, itemId: string): Promise<SubmissionView[]> {
-    const { Submission, Participant } = this.ctx.db.models;
-    const rows = await Submission.findAll({ where: { sessionId, itemId }, order: [['createdAt', 'ASC']] });
-    const people = await Participant.findAll({
-      where: { id: [...new Set(rows.map((r) => r.participantId))] },
-      attributes: ['id', 'displayName'],
-    });
-    const names = new Map(people.map((p) => [p.id, p.displayName]));
-    return rows.map((r) => toSubmissionView(r, names.get(r.participantId) ?? ''));
-  }
-
   private joinUrl(code: string): string {
     return `${joinBaseUrl(this.ctx.config)}/join/${code}`;
   }
@@ -665,16 +397,6 @@ export class LiveService {
     return row;
   }
 
-  private async joinable(code: string): Promise<{ id: string; workshopId: string }> {
-    // A prepared read: every phone of a room looks its code up once or twice within a minute.
-    const [row] = await this.ctx.db.read<{ id: string; workshopId: string; status: string }>('SELECT id, workshopId, status FROM live_sessions WHERE joinCode = ?', [code]);
-    if (!row) {
-      throw new AppError(404, 'not_found', `No live session has the code ${code}; check the code on the projector`, undefined, { reason: 'join_code_unknown', params: { code } });
-    }
-    if (row.status !== 'live') throw new AppError(404, 'not_found', 'That live session has ended', undefined, { reason: 'join_ended' });
-    return row;
-  }
-
   private async agendaOf(workshopId: string, transaction?: Transaction): Promise<AgendaItem[]> {
     // Raw rows: every live command reads the agenda, and the model layer took milliseconds for it.
     const rows = await this.ctx.db.sequelize.query<Omit<AgendaItemFields, 'settings'> & { settings: string }>(
@@ -687,7 +409,7 @@ export class LiveService {
   private runtime(sessionId: string): Runtime {
     let rt = this.runtimes.get(sessionId);
     if (!rt) {
-      rt = { participantCount: null, online: new Map(), seen: new Set(), base: null, loading: null };
+      rt = { base: null, loading: null };
       this.runtimes.set(sessionId, rt);
     }
     return rt;
@@ -774,12 +496,7 @@ export class LiveService {
   }
 
   private async stamp(base: BaseState): Promise<LiveState> {
-    const rt = this.runtime(base.sessionId);
-    if (rt.participantCount === null) {
-      const count = await this.ctx.db.models.Participant.count({ where: { sessionId: base.sessionId } });
-      rt.participantCount ??= count;
-    }
-    return { ...base, participantCount: rt.participantCount ?? 0, onlineCount: rt.online.size, serverTime: Date.now() };
+    return { ...base, ...(await this.presence.counts(base.sessionId)), serverTime: Date.now() };
   }
 
   /**
@@ -845,39 +562,5 @@ export class LiveService {
     // which does not grow with the day's history, to everyone else in the session (the phones).
     this.ctx.announcer.announce(screens, 'session:updated', state);
     this.ctx.announcer.announce(liveRooms.session(state.sessionId), 'session:updated', phoneStateOf(state), { except: screens });
-  }
-
-  /** Who is in the room is announced soon, coalescing a room of phones joining at once (the longer, the more are online). */
-  private scheduleTick(sessionId: string): void {
-    const rt = this.runtime(sessionId);
-    this.ctx.announcer.soon(`room:${sessionId}`, () => this.flushTick(sessionId), {
-      afterMs: Math.max(ROOM_TICK_MS, rt.online.size * ROOM_TICK_MS_PER_PERSON),
-      what: 'who is in the room',
-    });
-  }
-
-  /** Writes last-seen times and tells the console and the projector who is in the room now. */
-  private async flushTick(sessionId: string): Promise<void> {
-    const { announcer } = this.ctx;
-    if (announcer.isClosed) return;
-    const rt = this.runtime(sessionId);
-    if (rt.seen.size > 0) {
-      const ids = [...rt.seen];
-      rt.seen.clear();
-      const now = new Date();
-      await this.ctx.db.writeTx(async (transaction) => {
-        // In slices, to stay well inside SQLite's limit on bound variables in one statement.
-        for (let i = 0; i < ids.length; i += 500) {
-          await this.ctx.db.models.Participant.update({ lastSeenAt: now }, { where: { id: ids.slice(i, i + 500) }, transaction });
-        }
-      });
-    }
-    if (announcer.listening(liveRooms.facilitators(sessionId))) {
-      announcer.announce(liveRooms.facilitators(sessionId), 'participants:updated', await this.participants(sessionId));
-    }
-    // Only screens that show the head count get the new counts; the phones' state has not changed.
-    if (announcer.listening(liveRooms.screens(sessionId))) {
-      announcer.announce(liveRooms.screens(sessionId), 'session:updated', await this.state(sessionId));
-    }
   }
 }

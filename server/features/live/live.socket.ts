@@ -3,6 +3,8 @@ import { errors } from '../../common/errors';
 import type { CommandSocket, SocketCommands, SocketSessions } from '../../common/command';
 import { EDIT_ROLES } from '../../common/access';
 import { liveRooms, type LiveIo, type LiveService } from './live.service';
+import type { PresenceService } from './presence.service';
+import type { SubmissionsService } from './submissions.service';
 import type { Transaction } from 'sequelize';
 import type { MembershipRow, UserRow } from '../../db/models';
 import { phoneStateOf } from '../../../shared/schemas/live';
@@ -16,12 +18,12 @@ export type LiveSocket = CommandSocket;
  * and team's rooms on connect (and counted online), projectors in their session's, accounts in their
  * own (they attach to a session with `session:watch`); an account is rechecked on each command.
  */
-export function liveSessions(ctx: AppContext, live: LiveService): SocketSessions {
+export function liveSessions(ctx: AppContext, presence: PresenceService): SocketSessions {
   return {
     async attach(socket) {
       const data = socket.data;
       if (data.kind === 'participant' && data.participantId && data.sessionId) {
-        const p = await live.placeOf(data.participantId, data.sessionId);
+        const p = await presence.placeOf(data.participantId, data.sessionId);
         // A token whose participant is gone (data deleted, workshop removed) connects but joins nothing.
         if (!p || socket.disconnected) return null;
         await socket.join([
@@ -29,9 +31,9 @@ export function liveSessions(ctx: AppContext, live: LiveService): SocketSessions
           liveRooms.participant(p.id),
           ...(p.teamId ? [liveRooms.team(p.teamId)] : []),
         ]);
-        live.participantConnected(p.sessionId, p.id);
-        socket.on('disconnect', () => live.participantDisconnected(p.sessionId, p.id));
-        if (socket.disconnected) live.participantDisconnected(p.sessionId, p.id);
+        presence.participantConnected(p.sessionId, p.id);
+        socket.on('disconnect', () => presence.participantDisconnected(p.sessionId, p.id));
+        if (socket.disconnected) presence.participantDisconnected(p.sessionId, p.id);
         return { id: p.id, sessionId: p.sessionId };
       }
       if (data.kind === 'display' && data.sessionId) {
@@ -46,7 +48,11 @@ export function liveSessions(ctx: AppContext, live: LiveService): SocketSessions
 }
 
 /** The live session's own commands: watching, moving through the agenda, the timer, the room and notes. */
-export function registerLiveCommands(commands: SocketCommands, ctx: AppContext, live: LiveService): void {
+export function registerLiveCommands(
+  commands: SocketCommands,
+  ctx: AppContext,
+  { live, presence, submissions }: { live: LiveService; presence: PresenceService; submissions: SubmissionsService },
+): void {
   commands.add('session:watch', async ({ payload, socket }) => {
     const data = socket.data;
     const { sessionId } = payload;
@@ -81,12 +87,12 @@ export function registerLiveCommands(commands: SocketCommands, ctx: AppContext, 
   commands.add('agenda:shorten', ({ who, payload }) => live.shorten(who.sessionId, payload.cuts));
   commands.add('agenda:undo-cuts', ({ who }) => live.undoCuts(who.sessionId));
   commands.add('agenda:keep-cuts', ({ who }) => live.keepCuts(who.sessionId));
-  commands.add('participants:list', ({ who }) => live.participants(who.sessionId));
-  commands.add('submission:list', ({ who, payload }) => live.listSubmissions(who.sessionId, payload.itemId));
-  commands.add('participant:me', ({ who }) => live.me(who.participantId!, who.sessionId));
-  commands.add('participant:consent', ({ who, payload }) => live.setConsent(who.participantId!, who.sessionId, payload.photoConsent));
-  commands.add('participant:locale', ({ who, payload }) => live.setParticipantLocale(who.participantId!, who.sessionId, payload.locale));
-  commands.add('submission:create', ({ who, payload }) => live.createSubmission(who.participantId!, who.sessionId, payload));
+  commands.add('participants:list', ({ who }) => presence.participants(who.sessionId));
+  commands.add('submission:list', ({ who, payload }) => submissions.list(who.sessionId, payload.itemId));
+  commands.add('participant:me', ({ who }) => presence.me(who.participantId!, who.sessionId));
+  commands.add('participant:consent', ({ who, payload }) => presence.setConsent(who.participantId!, who.sessionId, payload.photoConsent));
+  commands.add('participant:locale', ({ who, payload }) => presence.setParticipantLocale(who.participantId!, who.sessionId, payload.locale));
+  commands.add('submission:create', ({ who, payload }) => submissions.create(who.participantId!, who.sessionId, payload));
 }
 
 /** What an open screen is told when its account's rights change. */

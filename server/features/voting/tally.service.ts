@@ -2,6 +2,7 @@ import { QueryTypes } from 'sequelize';
 import type { AppContext } from '../../context';
 import type { VoteRow } from '../../db/models';
 import { liveRooms, type LiveService } from '../live/live.service';
+import type { PresenceService } from '../live/presence.service';
 import { criterionIds, participation, selectTopN, tallyDots, type Dot, type TallyRow } from '../../../shared/tally';
 import { borda, schulze } from '../../../shared/preference';
 import { rankedRows } from '../../../shared/votes';
@@ -19,6 +20,7 @@ export class VoteTally {
   constructor(
     private ctx: AppContext,
     private live: LiveService,
+    private presence: PresenceService,
   ) {}
 
   /**
@@ -109,6 +111,6 @@ export class VoteTally {
     if (!announcer.listening(room)) return;
     const row = await this.ctx.db.models.Vote.findOne({ where: { sessionId, itemId } });
     if (!row || announcer.isClosed) return;
-    const results = await this.resultsOf(row, state.item.title, await this.live.participants(sessionId));
+    const results = await this.resultsOf(row, state.item.title, await this.presence.participants(sessionId));
     announcer.announce(room, 'vote:tallied', results);
   }}

@@ -4,6 +4,7 @@ import type { AppContext } from '../../context';
 import type { LiveSessionRow, VoteRow } from '../../db/models';
 import { AppError, errors } from '../../common/errors';
 import { liveRooms, type LiveService } from '../live/live.service';
+import type { PresenceService } from '../live/presence.service';
 import { type BallotErrorCode, type Dot } from '../../../shared/tally';
 import { castDot, rulesFor } from '../../../shared/votes';
 import { runningItemId } from '../../../shared/input-gate';
@@ -98,9 +99,10 @@ export class VotingService {
   constructor(
     private ctx: AppContext,
     private live: LiveService,
+    private presence: PresenceService,
   ) {
     this.ledgers = new DotLedgers(ctx);
-    this.tally = new VoteTally(ctx, live);
+    this.tally = new VoteTally(ctx, live, presence);
     // Another Cairn process on the same file voted, or changed a vote: read the votes afresh.
     ctx.db.onExternalChange(() => this.ledgers.forget());
     // A vote left open when the session ends is closed with it: no ballot can change any more, and the results take it whole.
@@ -281,7 +283,7 @@ export class VotingService {
     if (asker !== 'runner' && !state.revealed) throw errors.forbidden('The results are hidden until the facilitator reveals them');
     const item = await this.currentVoteItem(sessionId);
     const row = await this.readyVote(sessionId, item.id);
-    return this.tally.resultsOf(row, item.title, await this.live.participants(sessionId));
+    return this.tally.resultsOf(row, item.title, await this.presence.participants(sessionId));
   }
 
   /**
@@ -293,7 +295,7 @@ export class VotingService {
     const row = await this.readyVote(sessionId, item.id);
     if (row.kind === 'team_sort') throw errors.badRequest('A team sort forms teams; confirm them instead');
     if (row.status !== 'closed') throw errors.conflict('Close the vote before carrying options forward');
-    const results = await this.tally.resultsOf(row, item.title, await this.live.participants(sessionId));
+    const results = await this.tally.resultsOf(row, item.title, await this.presence.participants(sessionId));
     if (results.kind === 'team_sort') throw errors.badRequest('A team sort forms teams; confirm them instead');
     const { selected, tiedAtCutoff } = results.top;
     const n = row.rules.topN;
@@ -383,7 +385,7 @@ export class VotingService {
     if (row.kind !== 'team_sort') throw errors.badRequest('Only a team sort forms teams');
     const [rankings, people] = await Promise.all([
       VoteRanking.findAll({ where: { voteId: row.id } }),
-      this.live.participants(sessionId),
+      this.presence.participants(sessionId),
     ]);
     const rankingOf = new Map(rankings.map((r) => [r.participantId, r.ranking]));
     const placed = people.filter((p) => p.online || rankingOf.has(p.id));
@@ -463,7 +465,7 @@ export class VotingService {
   async sessionResults(sessionId: string, title: Map<string, string>): Promise<VoteResults[]> {
     const votes = await this.ctx.db.models.Vote.findAll({ where: { sessionId, status: ['open', 'closed'] }, order: [['createdAt', 'ASC']] });
     if (votes.length === 0) return [];
-    const people = await this.live.participants(sessionId);
+    const people = await this.presence.participants(sessionId);
     const out: VoteResults[] = [];
     for (const v of votes) out.push(await this.tally.resultsOf(v, title.get(v.itemId) ?? '', people));
     return out;
