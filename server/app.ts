@@ -44,6 +44,8 @@ import { registerTeamsSocket } from './features/teams/teams.socket';
 import { PagesService } from './features/live/pages.service';
 import { registerPagesSocket } from './features/live/pages.socket';
 import { ActivitiesService } from './features/activities/activities.service';
+import { ModerationService } from './features/activities/moderation.service';
+import { RoundsService } from './features/activities/rounds.service';
 import { registerActivitiesSocket } from './features/activities/activities.socket';
 import { PhotosService } from './features/activities/photos.service';
 import { uploadsRoutes } from './features/activities/uploads.router';
@@ -284,7 +286,11 @@ export async function createApp(config: Config): Promise<CairnApp> {
   registerClockSocket(commands);
   registerLiveCommands(commands, ctx, { live, presence, submissions });
   registerTeamsSocket(commands, teams);
-  registerActivitiesSocket(commands, activities);
+  registerActivitiesSocket(commands, {
+    activities,
+    moderation: new ModerationService(ctx, activities),
+    rounds: new RoundsService(ctx, activities, presence),
+  });
   registerVotingSocket(commands, voting, ctx);
   registerPagesSocket(commands, pages);
   const participantSockets = new ParticipantSockets();
