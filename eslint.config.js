@@ -82,6 +82,12 @@ export default tseslint.config(
       'src/pages/workshop-results.vue',
       'src/components/results/ExportPanel.vue',
       'src/components/results/SessionChooser.vue',
+      'src/components/activities/ModerationBoard.vue',
+      'src/components/activities/ModerationNote.vue',
+      'src/components/activities/ActivityConsole.vue',
+      'src/components/activities/RoundsPanel.vue',
+      'src/components/activities/TeamsPanel.vue',
+      'src/components/activities/TeamSizeWarnings.vue',
     ],
     plugins: { '@intlify/vue-i18n': vueI18n },
     settings: { 'vue-i18n': { localeDir: './src/i18n/facilitator/*.json', messageSyntaxVersion: '^11.0.0' } },
@@ -89,7 +95,7 @@ export default tseslint.config(
       '@intlify/vue-i18n/no-raw-text': [
         'error',
         {
-          ignorePattern: '^[-–#:()&·×←→✓…/+—′\\s\\d]+$',
+          ignorePattern: '^[-–#:()&·×←→↔✓…/+—′\\s\\d]+$',
           ignoreText: ['Cairn'],
           attributes: { '/.+/': ['label', 'title', 'placeholder', 'hint', 'aria-label', 'alt', 'error-message', 'no-data-label'] },
         },

@@ -188,7 +188,7 @@ test('activities on the phones, the console and the projector: pairs, a team map
   await ben.getByTestId('note-input').fill('Green for free docks reads at a glance');
   await ben.getByTestId('send-note').click();
   await expect(ana.getByTestId('sketch')).toContainText('Green for free docks reads at a glance');
-  await expect(consolePage.getByTestId('gallery-item')).toContainText('1 feedback');
+  await expect(consolePage.getByTestId('gallery-item')).toContainText('1 piece of feedback');
   await shot(consolePage, 'activities-console-gallery');
   await shot(ana, 'activities-phone-sketch');
 
