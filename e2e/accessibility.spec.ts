@@ -111,6 +111,16 @@ test('the live console, projector and phone through a vote, and the results, pas
   await scan(page, 'console');
   await scan(projector, 'projector');
   await scan(phone, 'phone');
+  // The phone's settings: a button that shows and hides them (a disclosure), Escape hides them again.
+  const settings = phone.getByRole('button', { name: 'Your settings' });
+  await settings.click();
+  await expect(settings).toHaveAttribute('aria-expanded', 'true');
+  await expect(phone.getByTestId('my-data-link')).toBeVisible();
+  await scan(phone, 'phone-settings');
+  await phone.getByTestId('consent-toggle').focus();
+  await phone.keyboard.press('Escape');
+  await expect(phone.getByTestId('my-data-link')).toHaveCount(0);
+  await expect(settings).toBeFocused();
 
   await page.getByTestId('timeline-item').filter({ hasText: 'Pick the challenges' }).getByRole('button').click();
   const setup = page.getByTestId('vote-setup');

@@ -1,7 +1,6 @@
 import { createApp } from 'vue';
 import { createPinia } from 'pinia';
-import { Quasar, Notify, Dialog } from 'quasar';
-import iconSet from 'quasar/icon-set/svg-mdi-v7';
+import { Quasar } from 'quasar';
 import '@fontsource/source-sans-3/400.css';
 import '@fontsource/source-sans-3/600.css';
 import '@fontsource/source-sans-3/700.css';
@@ -11,18 +10,22 @@ import App from './App.vue';
 import { createCairnRouter } from './router';
 import { QUASAR_BRAND, applyPalette } from './theme/palette';
 import { i18n } from './i18n';
+import { keepQuasarApp } from './quasar-later';
+import { phoneIconSet } from './theme/phone-icons';
 
 applyPalette(document.documentElement.style);
 const app = createApp(App);
 app.use(createPinia());
+// Notify, Dialog and the MDI icon set come with the first facilitator's screen (quasar-later.ts); the phone's
+// icon set names only what its Quasar components draw by themselves (theme/phone-icons.ts).
 app.use(Quasar, {
-  plugins: { Notify, Dialog },
-  iconSet,
+  iconSet: phoneIconSet,
   config: {
     brand: { ...QUASAR_BRAND },
     notify: { position: 'top' },
   },
 });
+keepQuasarApp(app);
 app.use(i18n);
 app.use(createCairnRouter());
 app.mount('#app');

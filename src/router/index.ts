@@ -3,6 +3,7 @@ import { useSessionStore } from '../stores/session';
 // In the first script: a phone's page then waits for one round of lazy files, not two.
 import PhoneLayout from '../layouts/PhoneLayout.vue';
 import { loadFacilitatorMessages, phoneLocale, setLocale } from '../i18n';
+import { installFacilitatorQuasar } from '../quasar-later';
 
 /**
  * Route meta: `public` routes need no sign-in; `admin` routes need the admin role; `phone` routes are a
@@ -77,9 +78,10 @@ export function createCairnRouter() {
     // the facilitator's screens are English.
     if (to.meta.phone) await setLocale(phoneLocale());
     else if (to.name !== 'live-projector') {
-      await setLocale('en');
-      await loadFacilitatorMessages();
+      await Promise.all([setLocale('en').then(loadFacilitatorMessages), installFacilitatorQuasar()]);
     }
+    // The projector's screen uses the facilitator's Quasar parts too (live-projector.vue sets its own language).
+    if (to.name === 'live-projector') await installFacilitatorQuasar();
     // A phone has no account: asking for the sign-in cookie would only cost it a round trip and a 401.
     if (to.meta.phone) return true;
     const session = useSessionStore();
