@@ -4,12 +4,14 @@
  * from these declarations.
  */
 
+import { LIGHT } from './palette';
+
 /** The four sticker variants a criterion's mark can take. */
 export type MarkShape = 'solid' | 'ring' | 'half' | 'dot_in_ring';
 
 /** The criteria's marks in the order criteria are numbered: colour (light themes), sticker variant and letter. */
 export const CRITERION_MARKS = [
-  { colour: '#0b5d5b', shape: 'solid', letter: 'A' },
+  { colour: LIGHT.primary, shape: 'solid', letter: 'A' },
   { colour: '#b9452f', shape: 'ring', letter: 'B' },
   { colour: '#6b4f1d', shape: 'half', letter: 'C' },
   { colour: '#3d4f8a', shape: 'dot_in_ring', letter: 'D' },

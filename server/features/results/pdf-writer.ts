@@ -1,8 +1,9 @@
 import PDFDocument from 'pdfkit';
 import { FACES, HAS_FONTS, hasRtl, layoutBidi, scriptRuns, useFace, type Weight } from './report-fonts';
+import { LIGHT } from '../../../shared/palette';
 
-/** Cairn's print colours: the light palette's teal, text and muted grey (src/theme/palette.ts), and a rule's line. */
-export const INK = { teal: '#0b5d5b', text: '#1e2a29', muted: '#4f5d5b', rule: '#d8cdb8' };
+/** Cairn's print colours, from the light palette (shared/palette.ts): teal headings, text, muted grey and the line of a rule. */
+export const INK = { teal: LIGHT.primary, text: LIGHT.text, muted: LIGHT.muted, rule: LIGHT.line };
 
 /** Space between lines of the report's text, in points. */
 const LINE_GAP = 1.5;
