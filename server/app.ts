@@ -50,6 +50,7 @@ import { registerActivitiesSocket } from './features/activities/activities.socke
 import { PhotosService } from './features/activities/photos.service';
 import { uploadsRoutes } from './features/activities/uploads.router';
 import { VotingService } from './features/voting/voting.service';
+import { VoteSourcesService } from './features/voting/vote-sources.service';
 import { votingRoutes } from './features/voting/voting.router';
 import { registerVotingSocket } from './features/voting/voting.socket';
 import { ResultsService } from './features/results/results.service';
@@ -291,7 +292,7 @@ export async function createApp(config: Config): Promise<CairnApp> {
     moderation: new ModerationService(ctx, activities),
     rounds: new RoundsService(ctx, activities, presence),
   });
-  registerVotingSocket(commands, voting, ctx);
+  registerVotingSocket(commands, voting, new VoteSourcesService(ctx), ctx);
   registerPagesSocket(commands, pages);
   const participantSockets = new ParticipantSockets();
   io.on('connection', (socket) => {

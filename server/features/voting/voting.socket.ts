@@ -2,12 +2,13 @@ import type { AppContext } from '../../context';
 import { EDIT_ROLES } from '../../common/access';
 import type { CommandSocket, SocketCommands } from '../../common/command';
 import type { VotingService } from './voting.service';
+import type { VoteSourcesService } from './vote-sources.service';
 
 /**
  * Voting commands: the facilitators set up, open, close and carry forward; phones vote; every
  * screen reads the vote, and the results once the facilitator reveals them.
  */
-export function registerVotingSocket(commands: SocketCommands, voting: VotingService, ctx: AppContext): void {
+export function registerVotingSocket(commands: SocketCommands, voting: VotingService, sources: VoteSourcesService, ctx: AppContext): void {
   /** Whether this socket is a facilitator running its session now (checked afresh, as `runner` commands are). */
   const runsSession = async (socket: CommandSocket): Promise<boolean> => {
     const data = socket.data;
@@ -28,7 +29,7 @@ export function registerVotingSocket(commands: SocketCommands, voting: VotingSer
     return voting.results(who.sessionId, asker);
   });
   commands.add('vote:choose', ({ who, payload }) => voting.choose(who.sessionId, payload.optionIds));
-  commands.add('vote:sources', ({ who }) => voting.sources(who.sessionId));
+  commands.add('vote:sources', ({ who }) => sources.list(who.sessionId));
   commands.add('teams:propose', ({ who, payload }) => voting.propose(who.sessionId, payload));
   commands.add('teams:confirm', ({ who, payload }) => voting.confirmTeams(who.sessionId, payload));
 }
