@@ -65,7 +65,7 @@ export class ActivitiesService {
 
 
   /**
-   * The rules each activity adds to a submission, run by the live service inside its write
+   * The rules each activity adds to a submission, run by the submissions service inside its write
    * transaction: parts must be the activity's, guided sentences complete, photos the sender's own,
    * feedback aimed at someone else's sketch or another team's prototype.
    */
