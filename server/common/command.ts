@@ -149,42 +149,47 @@ export class SocketCommands {
     return list;
   }
 
+  // Every command of every phone passes here: no closures made per command (a room's burst of votes
+  // is thousands a second), the answer and the failure are methods.
   private run(socket: CommandSocket, event: Command, handler: CommandHandler<Command>, args: unknown[]): void {
     let [payload, ack] = args;
     // A command sent with only an acknowledgement gets an empty payload.
     if (typeof payload === 'function' && ack === undefined) [payload, ack] = [{}, payload];
-    const reply = (answer: Ack<unknown>) => {
-      if (typeof ack === 'function') (ack as (a: Ack<unknown>) => void)(answer);
-    };
     const def = COMMANDS[event];
-    const access = def.access;
-    const fail = (err: unknown) => {
-      if (err instanceof AppError) {
-        reply({ error: { code: err.code, message: err.message, ...(err.detail?.reason ? { reason: err.detail.reason } : {}), ...(err.detail?.params ? { params: err.detail.params } : {}) } });
-      } else {
-        this.logger.error({ err, event }, 'socket command failed');
-        reply({ error: { code: 'internal', message: 'Something went wrong on the server' } });
-      }
-    };
-    if (access === 'any') {
+    if (def.access === 'any') {
       // Answered at once, without waiting for the socket's rooms: the clock's ping measures the server's own time.
       try {
         const answer = handler({ payload: parsePayload(event, def.payload, payload ?? {}) as never, who: { sessionId: '', participantId: null }, socket });
-        Promise.resolve(answer).then((data) => reply({ data }), fail);
+        Promise.resolve(answer).then(
+          (data) => reply(ack, { data }),
+          (err: unknown) => this.fail(event, ack, err),
+        );
       } catch (err) {
-        fail(err);
+        this.fail(event, ack, err);
       }
       return;
     }
-    void (async () => {
-      try {
-        const who = await this.allow(socket, access);
-        const parsed = parsePayload(event, def.payload, payload ?? {});
-        reply({ data: await handler({ payload: parsed as never, who, socket }) });
-      } catch (err) {
-        fail(err);
-      }
-    })();
+    void this.runAllowed(socket, event, handler, def.access, payload, ack);
+  }
+
+  private async runAllowed(socket: CommandSocket, event: Command, handler: CommandHandler<Command>, access: Exclude<CommandAccess, 'any'>, payload: unknown, ack: unknown): Promise<void> {
+    try {
+      const who = await this.allow(socket, access);
+      const parsed = parsePayload(event, COMMANDS[event].payload, payload ?? {});
+      reply(ack, { data: await handler({ payload: parsed as never, who, socket }) });
+    } catch (err) {
+      this.fail(event, ack, err);
+    }
+  }
+
+  /** Answers a failed command: an AppError with its code (and reason), anything else as `internal`, logged. */
+  private fail(event: Command, ack: unknown, err: unknown): void {
+    if (err instanceof AppError) {
+      reply(ack, { error: { code: err.code, message: err.message, ...(err.detail?.reason ? { reason: err.detail.reason } : {}), ...(err.detail?.params ? { params: err.detail.params } : {}) } });
+    } else {
+      this.logger.error({ err, event }, 'socket command failed');
+      reply(ack, { error: { code: 'internal', message: 'Something went wrong on the server' } });
+    }
   }
 
   /** Authorises a command by its declared access; throws `forbidden` with the reason. */
@@ -218,6 +223,11 @@ export class SocketCommands {
     if (!(await this.sessions.recheck(socket)).canRun) throw errors.forbidden('Only the facilitators can run the session');
     return { sessionId, participantId: null };
   }
+}
+
+/** Answers through a command's acknowledgement, when the sender asked for one. */
+function reply(ack: unknown, answer: Ack<unknown>): void {
+  if (typeof ack === 'function') (ack as (a: Ack<unknown>) => void)(answer);
 }
 
 /** Answers `forbidden` to a command the socket's kind may never send (it carries no listener for it). */

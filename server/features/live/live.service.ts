@@ -260,6 +260,21 @@ export class LiveService {
     }
   }
 
+  /**
+   * The input gate (as `gate`, for a participant still in the session, whatever the item) and the item
+   * running now, from one look at the state kept in memory: the dot path asks both for every dot.
+   */
+  async gateWithItem(sessionId: string): Promise<{ refused: AppError | null; item: LiveItem | null }> {
+    try {
+      const base = await this.baseState(sessionId);
+      const why = inputRefusal(base, true);
+      return { refused: why ? errors.inputRefused(why) : null, item: base.item };
+    } catch (err) {
+      if (err instanceof AppError) return { refused: err, item: null };
+      throw err;
+    }
+  }
+
   /** Moves to the next agenda item. */
   next(sessionId: string): Promise<LiveState> {
     return this.move(sessionId, { to: 'next' });

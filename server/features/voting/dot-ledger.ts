@@ -1,5 +1,5 @@
 import crypto from 'node:crypto';
-import { DataTypes, QueryTypes, type Transaction } from 'sequelize';
+import { QueryTypes, type Transaction } from 'sequelize';
 import type { AppContext } from '../../context';
 import type { VoteRow } from '../../db/models';
 import type { RawStatements } from '../../db';
@@ -14,53 +14,49 @@ export interface DotLedger {
 /** A group commit's dot writes: the final count of every dot it changed, and the receipts it adds. */
 interface DotWrites {
   dots: Map<string, { voteId: string; participantId: string; optionId: string; criterionId: string; count: number }>;
-  receipts: [id: string, participantId: string, clientId: string, voteId: string, createdAt: string][];
+  receipts: [id: string, participantId: string, clientId: string, voteId: string][];
 }
-
-/** Rows a multi-row statement carries: 6 values each stays under SQLite's oldest limit of 999 parameters. */
-const ROWS_PER_STATEMENT = 150;
-
-/** Dates as Sequelize writes a DATE column for SQLite (UTC), so the model reads a receipt written here back alike. */
-const SQLITE_DATE = new DataTypes.DATE();
 
 /** The key of a receipt in a ledger: one participant's one client id. */
 export function receiptKey(participantId: string, clientId: string): string {
   return `${participantId}\n${clientId}`;
 }
 
-function chunks<T>(list: T[], size: number): T[][] {
-  const out: T[][] = [];
-  for (let i = 0; i < list.length; i += size) out.push(list.slice(i, i + size));
-  return out;
+/**
+ * A receipt's date as Sequelize writes a DATE column for SQLite (UTC, `2026-12-01 10:00:00.000 +00:00`),
+ * so the model reads a receipt written here back alike; made by hand, as the join does, since the
+ * model layer's own conversion goes through a date library on every dot.
+ */
+function sqliteDate(at: Date): string {
+  return at.toISOString().replace('T', ' ').replace('Z', ' +00:00');
 }
+
+/**
+ * A group commit's writes, one statement a table whatever the number of rows: the rows go in as one
+ * JSON array (`json_each`), so each statement is compiled once and binds one value, where a multi-row
+ * VALUES list was compiled afresh for every batch and bound six values a row.
+ */
+const UPSERT_DOTS = `INSERT INTO vote_dots (id, voteId, participantId, optionId, criterionId, count)
+  SELECT value ->> 0, value ->> 1, value ->> 2, value ->> 3, value ->> 4, value ->> 5 FROM json_each(?) WHERE true
+  ON CONFLICT (voteId, participantId, optionId, criterionId) DO UPDATE SET count = excluded.count`;
+const DELETE_DOTS = `DELETE FROM vote_dots WHERE (voteId, participantId, optionId, criterionId) IN
+  (SELECT value ->> 0, value ->> 1, value ->> 2, value ->> 3 FROM json_each(?))`;
+const INSERT_RECEIPTS = `INSERT INTO vote_receipts (id, participantId, clientId, voteId, createdAt)
+  SELECT value ->> 0, value ->> 1, value ->> 2, value ->> 3, value ->> 4 FROM json_each(?)`;
 
 /** Stores a group commit's dots: counts by upsert on the unique (vote, voter, option, criterion) index, zeros deleted, receipts appended. */
 async function storeDots(sql: RawStatements, writes: DotWrites): Promise<void> {
-  const rows = [...writes.dots.values()];
-  for (const part of chunks(
-    rows.filter((r) => r.count > 0),
-    ROWS_PER_STATEMENT,
-  )) {
-    await sql.once(
-      `INSERT INTO vote_dots (id, voteId, participantId, optionId, criterionId, count) VALUES ${part.map(() => '(?, ?, ?, ?, ?, ?)').join(', ')}
-       ON CONFLICT (voteId, participantId, optionId, criterionId) DO UPDATE SET count = excluded.count`,
-      part.flatMap((r) => [crypto.randomUUID(), r.voteId, r.participantId, r.optionId, r.criterionId, r.count]),
-    );
+  const kept: (string | number)[][] = [];
+  const zeros: string[][] = [];
+  for (const r of writes.dots.values()) {
+    if (r.count > 0) kept.push([crypto.randomUUID(), r.voteId, r.participantId, r.optionId, r.criterionId, r.count]);
+    else zeros.push([r.voteId, r.participantId, r.optionId, r.criterionId]);
   }
-  for (const r of rows.filter((row) => row.count === 0)) {
-    await sql.run('DELETE FROM vote_dots WHERE voteId = ? AND participantId = ? AND optionId = ? AND criterionId = ?', [
-      r.voteId,
-      r.participantId,
-      r.optionId,
-      r.criterionId,
-    ]);
-  }
-  for (const part of chunks(writes.receipts, ROWS_PER_STATEMENT)) {
-    await sql.once(
-      `INSERT INTO vote_receipts (id, participantId, clientId, voteId, createdAt) VALUES ${part.map(() => '(?, ?, ?, ?, ?)').join(', ')}`,
-      part.flat(),
-    );
-  }
+  if (kept.length) await sql.run(UPSERT_DOTS, [JSON.stringify(kept)]);
+  if (zeros.length) await sql.run(DELETE_DOTS, [JSON.stringify(zeros)]);
+  // A receipt is dated when its group commit stores it, a few milliseconds after its dot was checked.
+  const at = sqliteDate(new Date());
+  if (writes.receipts.length) await sql.run(INSERT_RECEIPTS, [JSON.stringify(writes.receipts.map((r) => [...r, at]))]);
 }
 
 /**
@@ -85,6 +81,15 @@ export class DotLedgers {
    * reads all its participants at once: in a burst, every phone's first dot would otherwise read its own.
    */
   async inSession(participantId: string, sessionId: string): Promise<boolean> {
+    return this.knownInSession(participantId, sessionId) || this.readInSession(participantId, sessionId);
+  }
+
+  /** Whether a participant is known to be in a session, from memory alone (the dot path's usual answer, without a promise). */
+  knownInSession(participantId: string, sessionId: string): boolean {
+    return this.sessionOfParticipant.get(participantId) === sessionId;
+  }
+
+  private async readInSession(participantId: string, sessionId: string): Promise<boolean> {
     const known = this.sessionOfParticipant.get(participantId);
     if (known) return known === sessionId;
     let reading = this.participantsRead.get(sessionId);
@@ -155,7 +160,7 @@ export class DotLedgers {
     ledger.receipts.add(receiptKey(participantId, clientId));
     const writes = this.writesOf(transaction);
     writes.dots.set([vote.id, participantId, dot.optionId, dot.criterionId].join('\n'), { voteId: vote.id, participantId, ...dot });
-    writes.receipts.push([crypto.randomUUID(), participantId, clientId, vote.id, SQLITE_DATE.stringify(new Date(), { timezone: '+00:00' })]);
+    writes.receipts.push([crypto.randomUUID(), participantId, clientId, vote.id]);
   }
 
   /** Adds a receipt stored by another path (a ranking) to its session's receipts, if they are kept. */

@@ -1,12 +1,11 @@
-import { QueryTypes } from 'sequelize';
 import type { AppContext } from '../../context';
 import type { VoteRow } from '../../db/models';
 import { liveRooms, type LiveService } from '../live/live.service';
 import type { PresenceService } from '../live/presence.service';
+import type { ParticipantView } from '../../../shared/schemas/live';
 import { criterionIds, participation, selectTopN, tallyDots, type Dot, type TallyRow } from '../../../shared/tally';
 import { borda, schulze } from '../../../shared/preference';
 import { rankedRows } from '../../../shared/votes';
-import type { ParticipantView } from '../../../shared/schemas/live';
 import type { DotVoteResults, Participation, PreferenceResults, TeamSortResults, VoteResults } from '../../../shared/schemas/voting';
 
 /** Tallies pushed to a room at most this often: live enough for the console, cheap when a room of phones votes at once. */
@@ -23,22 +22,27 @@ export class VoteTally {
     private presence: PresenceService,
   ) {}
 
+  /** The participant ids of a room's list who are online now. */
+  static online(people: readonly ParticipantView[]): string[] {
+    return people.filter((p) => p.online).map((p) => p.id);
+  }
+
   /**
    * A vote's results from the stored ballots, counted by the pure functions of shared/. The room is
-   * everyone online now plus everyone who voted, so a voter whose phone dropped still counts.
+   * everyone online now (`online`: their participant ids) plus everyone who voted, so a voter whose
+   * phone dropped still counts.
    */
-  async resultsOf(row: VoteRow, itemTitle: string, people: ParticipantView[]): Promise<VoteResults> {
+  async resultsOf(row: VoteRow, itemTitle: string, online: readonly string[]): Promise<VoteResults> {
     const { VoteRanking } = this.ctx.db.models;
     const optionIds = row.options.map((o) => o.id);
     const base = { itemId: row.itemId, itemTitle, status: row.status, options: row.options, rules: row.rules, chosen: row.chosen };
-    const online = people.filter((p) => p.online).map((p) => p.id);
     const n = Math.min(row.rules.topN, optionIds.length);
 
     if (row.kind === 'dot_vote') {
-      // Raw rows: a room's dots are thousands of rows, read a few times a second while votes come in.
-      const rows = await this.ctx.db.sequelize.query<{ participantId: string; optionId: string; criterionId: string; count: number }>(
+      // A prepared statement: a room's dots are thousands of rows, read a few times a second while votes come in.
+      const rows = await this.ctx.db.read<{ participantId: string; optionId: string; criterionId: string; count: number }>(
         'SELECT participantId, optionId, criterionId, count FROM vote_dots WHERE voteId = ?',
-        { replacements: [row.id], type: QueryTypes.SELECT },
+        [row.id],
       );
       const dots: Dot[] = rows.map((d) => ({ voterId: d.participantId, optionId: d.optionId, criterionId: d.criterionId, count: Number(d.count) }));
       const voterIds = [...new Set([...online, ...dots.map((d) => d.voterId)])];
@@ -111,6 +115,7 @@ export class VoteTally {
     if (!announcer.listening(room)) return;
     const row = await this.ctx.db.models.Vote.findOne({ where: { sessionId, itemId } });
     if (!row || announcer.isClosed) return;
-    const results = await this.resultsOf(row, state.item.title, await this.presence.participants(sessionId));
+    // Who is online comes from memory: the room's list is not read a few times a second for it.
+    const results = await this.resultsOf(row, state.item.title, this.presence.onlineIds(sessionId));
     announcer.announce(room, 'vote:tallied', results);
   }}

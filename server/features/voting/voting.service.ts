@@ -202,18 +202,15 @@ export class VotingService {
    * (`storeDots`). The acknowledgement still comes only after that commit.
    */
   async dot(participantId: string, sessionId: string, payload: DotPayload, fromSocket?: string): Promise<BallotAnswer> {
-    if (!(await this.ledgers.inSession(participantId, sessionId))) throw errors.notInSession();
+    if (!this.ledgers.knownInSession(participantId, sessionId) && !(await this.ledgers.inSession(participantId, sessionId))) throw errors.notInSession();
     const db = this.ctx.db;
     const outcome = await db.batchTx(
       async (transaction): Promise<{ refused: AppError } | { answer: BallotAnswer; applied: boolean }> => {
         // Read at the moment the write runs: a close, a lock or a move that came first has landed. A refusal
         // is answered to this dot alone (anything thrown here would roll back the whole batch).
-        const refused = await this.live.gate(sessionId, true);
+        // One look at the live state a dot: the gate, and the current item, which is the vote's item.
+        const { refused, item } = await this.live.gateWithItem(sessionId);
         if (refused) return { refused };
-        // The gate has read the state; this read is served from memory.
-        const state = await this.live.state(sessionId);
-        // One read of the live state a vote: the current item is the vote's item.
-        const item = state.item;
         if (!item || !(VoteKind.options as string[]).includes(item.type)) return { refused: errors.conflict('The current activity is not a vote') };
         const vote = await this.ledgers.vote(sessionId, item.id, transaction);
         if (!vote) return { refused: new AppError(409, 'conflict', 'Voting has not opened yet', undefined, { reason: 'vote_not_open' }) };
@@ -277,7 +274,7 @@ export class VotingService {
     if (asker !== 'runner' && !state.revealed) throw errors.forbidden('The results are hidden until the facilitator reveals them');
     const item = await this.currentVoteItem(sessionId);
     const row = await this.readyVote(sessionId, item.id);
-    return this.tally.resultsOf(row, item.title, await this.presence.participants(sessionId));
+    return this.tally.resultsOf(row, item.title, VoteTally.online(await this.presence.participants(sessionId)));
   }
 
   /**
@@ -289,7 +286,7 @@ export class VotingService {
     const row = await this.readyVote(sessionId, item.id);
     if (row.kind === 'team_sort') throw errors.badRequest('A team sort forms teams; confirm them instead');
     if (row.status !== 'closed') throw errors.conflict('Close the vote before carrying options forward');
-    const results = await this.tally.resultsOf(row, item.title, await this.presence.participants(sessionId));
+    const results = await this.tally.resultsOf(row, item.title, VoteTally.online(await this.presence.participants(sessionId)));
     if (results.kind === 'team_sort') throw errors.badRequest('A team sort forms teams; confirm them instead');
     const { selected, tiedAtCutoff } = results.top;
     const n = row.rules.topN;
@@ -406,9 +403,9 @@ export class VotingService {
   async sessionResults(sessionId: string, title: Map<string, string>): Promise<VoteResults[]> {
     const votes = await this.ctx.db.models.Vote.findAll({ where: { sessionId, status: ['open', 'closed'] }, order: [['createdAt', 'ASC']] });
     if (votes.length === 0) return [];
-    const people = await this.presence.participants(sessionId);
+    const online = VoteTally.online(await this.presence.participants(sessionId));
     const out: VoteResults[] = [];
-    for (const v of votes) out.push(await this.tally.resultsOf(v, title.get(v.itemId) ?? '', people));
+    for (const v of votes) out.push(await this.tally.resultsOf(v, title.get(v.itemId) ?? '', online));
     return out;
   }
 
