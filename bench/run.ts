@@ -337,6 +337,8 @@ async function main(): Promise<void> {
     heap_ratio_after_burst: round(cairn.heapPerPhoneAfterBurst / bare.heapPerPhoneAfterBurst, 2),
     loop_delay_p99_ms: round(cairn.burstStats.loopDelayP99Ms),
     cpu_burst_ms: round(cpuMs),
+    cpu_burst_user_ms: round(cairn.burstStats.cpuUserMs),
+    cpu_burst_system_ms: round(cairn.burstStats.cpuSystemMs),
     cpu_per_acked_vote_ms: round(cpuMs / Math.max(1, cairn.burst.acked), 3),
     cpu_per_stored_vote_ms: round(cpuMs / Math.max(1, cairn.onDisk.storedDots), 3),
     baseline_cpu_per_ack_ms: round(bare.cpuPerAckMs, 3),
