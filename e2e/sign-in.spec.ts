@@ -13,7 +13,7 @@ test('a wrong password gets a clear message', async ({ page }) => {
   await page.getByLabel('E-mail').fill(DEMO.facilitator.email);
   await page.getByLabel('Password').fill('not the password');
   await page.getByTestId('submit').click();
-  await expect(page.getByTestId('sign-in-error')).toHaveText('That e-mail and password do not match an account');
+  await expect(page.getByTestId('sign-in-error')).toHaveText('That e-mail and password do not match an account.');
   await expect(page).toHaveURL(/\/sign-in/);
   await shot(page, 'sign-in-wrong-password');
 });

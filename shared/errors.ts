@@ -1,4 +1,7 @@
 import { z } from 'zod';
+import { REASON_PARAMS, type ErrorReason as Reason } from './reasons';
+
+export { FACILITATOR_REASONS, PARTICIPANT_REASONS, REASON_PARAMS, because, type ReasonParams, type Why } from './reasons';
 
 /** Every error code Cairn's API and socket acknowledgements can answer with. */
 export const ErrorCode = z.enum([
@@ -28,21 +31,10 @@ export const ErrorParams = z.record(z.string(), z.union([z.string(), z.number()]
 /** Values a translated message fills in. */
 export type ErrorParams = z.infer<typeof ErrorParams>;
 
-/**
- * The finer reasons behind a participant-facing error, each a message in the client's catalogs
- * (`error.<reason>`, src/i18n/locales): the phone shows it in its participant's language, with `params`.
- */
-export const ErrorReason = z.enum([
-  'join_code_unknown',
-  'join_ended',
-  'note_wrong_activity',
-  'photo_unreadable',
-  'photo_too_many_pixels',
-  'vote_closed',
-  'vote_not_open',
-]);
-/** A participant-facing error's reason, e.g. `'join_code_unknown'`. */
-export type ErrorReason = z.infer<typeof ErrorReason>;
+/** The finer reason behind an error, for a client to say in its own language with `params` (shared/reasons.ts). */
+export const ErrorReason = z.enum(Object.keys(REASON_PARAMS) as [Reason, ...Reason[]]);
+/** An error's reason, e.g. `'join_code_unknown'`. */
+export type ErrorReason = Reason;
 
 /** One rejected field as a code and values, so a client can say it in its own language (`field.<code>` in the catalogs). */
 export const FieldIssue = z.object({ code: z.string(), params: ErrorParams.optional() });
@@ -69,7 +61,8 @@ export type ApiErrorBody = z.infer<typeof ApiErrorBody>;
 
 /**
  * Turns a zod error into a map of dotted field paths to the first issue's code and limits, for a client
- * to word in its own language (`too_small` with `min`, `too_big` with `max`, `invalid_format`, …).
+ * to word in its own language (`too_small` with `min`, `too_big` with `max`, `invalid_format`, …; a
+ * schema's own rule by the reason it names, `{ params: { reason: 'start_before_doors' } }`).
  */
 export function fieldIssues(error: z.ZodError): Record<string, FieldIssue> {
   const out: Record<string, FieldIssue> = {};
@@ -81,7 +74,14 @@ export function fieldIssues(error: z.ZodError): Record<string, FieldIssue> {
     if (typeof limits.minimum === 'number' || typeof limits.minimum === 'bigint') params.min = Number(limits.minimum);
     if (typeof limits.maximum === 'number' || typeof limits.maximum === 'bigint') params.max = Number(limits.maximum);
     if (typeof limits.origin === 'string') params.of = limits.origin;
-    out[key] = { code: issue.code, ...(Object.keys(params).length ? { params } : {}) };
+    // What a value should have been (`int`, `number`) or how it should be written (`email`): the client's words differ.
+    const kind = issue as { expected?: unknown; format?: unknown; inclusive?: unknown };
+    if (issue.code === 'invalid_type' && typeof kind.expected === 'string') params.expected = kind.expected;
+    if (issue.code === 'invalid_format' && typeof kind.format === 'string') params.format = kind.format;
+    if ((issue.code === 'too_small' || issue.code === 'too_big') && kind.inclusive === false) params.exclusive = 1;
+    // A rule of the schema's own (`refine`) names its message through `params.reason` ("start_before_doors").
+    const own = issue.code === 'custom' ? (issue as { params?: { reason?: unknown } }).params?.reason : undefined;
+    out[key] = { code: typeof own === 'string' ? own : issue.code, ...(Object.keys(params).length ? { params } : {}) };
   }
   return out;
 }

@@ -5,12 +5,13 @@
  */
 import { remainingMs, type Timer } from './clock';
 import { runningItemId } from './input-gate';
+import { because, type Why } from './reasons';
 
 /** A run of an agenda item: when it started and, once the room moved on, when it ended. */
 export type Run = { itemId: string; startedAt: number; endedAt: number | null };
 
 /** A transition's answer: the new value, nothing to change (the command was already done), or why it is refused. */
-export type Transition<T> = { next: T } | { unchanged: true } | { refused: 'conflict' | 'bad_request'; message: string };
+export type Transition<T> = { next: T } | { unchanged: true } | { refused: 'conflict' | 'bad_request'; message: string; why: Why };
 
 /** Where a move goes: the next item, the previous one, or any item by its place (0 is the first). */
 export type MoveTarget = { to: 'next' } | { to: 'back' } | { to: 'index'; index: number };
@@ -42,10 +43,10 @@ export function currentIndexOf(runs: readonly Run[], storedIndex: number, agenda
  */
 export function moveTarget(from: number, count: number, target: MoveTarget): Transition<number> {
   if (target.to === 'next') {
-    return from + 1 >= count ? { refused: 'conflict', message: 'This is the last item of the agenda' } : { next: from + 1 };
+    return from + 1 >= count ? { refused: 'conflict', message: 'This is the last item of the agenda', why: because('last_item') } : { next: from + 1 };
   }
-  if (target.to === 'back') return from <= 0 ? { refused: 'conflict', message: 'This is the first item of the agenda' } : { next: from - 1 };
-  if (target.index >= count) return { refused: 'bad_request', message: `The agenda has ${count} items; there is no item ${target.index + 1}` };
+  if (target.to === 'back') return from <= 0 ? { refused: 'conflict', message: 'This is the first item of the agenda', why: because('first_item') } : { next: from - 1 };
+  if (target.index >= count) return { refused: 'bad_request', message: `The agenda has ${count} items; there is no item ${target.index + 1}`, why: because('no_such_item', { count, number: target.index + 1 }) };
   return { next: target.index };
 }
 
@@ -83,7 +84,7 @@ export function startTimer(timer: Timer, now: number): Transition<Timer> {
  */
 export function pauseTimer(timer: Timer, now: number): Transition<Timer> {
   if (timer.status === 'paused') return { unchanged: true };
-  if (timer.status !== 'running') return { refused: 'conflict', message: 'The timer is not running' };
+  if (timer.status !== 'running') return { refused: 'conflict', message: 'The timer is not running', why: because('timer_not_running') };
   return { next: { status: 'paused', endsAt: null, remainingMs: remainingMs(timer, now), durationMs: timer.durationMs } };
 }
 
@@ -93,7 +94,7 @@ export function pauseTimer(timer: Timer, now: number): Transition<Timer> {
  */
 export function resumeTimer(timer: Timer, now: number): Transition<Timer> {
   if (timer.status === 'running') return { unchanged: true };
-  if (timer.status === 'ended') return { refused: 'conflict', message: 'The timer has ended' };
+  if (timer.status === 'ended') return { refused: 'conflict', message: 'The timer has ended', why: because('timer_ended') };
   return { next: runningTimer(timer, now, remainingMs(timer, now)) };
 }
 
@@ -104,7 +105,7 @@ export function resumeTimer(timer: Timer, now: number): Transition<Timer> {
  * @example adjustTimer(idleTimer(5), 60_000, 0) // { next: { status: 'idle', durationMs: 360_000, … } }
  */
 export function adjustTimer(timer: Timer, deltaMs: number, now: number): Transition<Timer> {
-  if (timer.status === 'ended') return { refused: 'conflict', message: 'The timer has ended' };
+  if (timer.status === 'ended') return { refused: 'conflict', message: 'The timer has ended', why: because('timer_ended') };
   const left = Math.max(0, remainingMs(timer, now) + deltaMs);
   const durationMs = Math.max(left, timer.durationMs + deltaMs);
   if (timer.status === 'running') return { next: { status: 'running', endsAt: now + left, remainingMs: null, durationMs } };

@@ -1,7 +1,7 @@
 import crypto from 'node:crypto';
 import type { Database } from '../db';
 import type { UserRow } from '../db/models';
-import { errors } from './errors';
+import { because, errors } from './errors';
 import { hashPassword } from './passwords';
 import { normaliseEmail, type GlobalRole, type User } from '../../shared/schemas/user';
 
@@ -28,7 +28,7 @@ export async function createAccount(
   input: { email: string; name: string; password: string; role: GlobalRole },
 ): Promise<UserRow> {
   const existing = await findAccountByEmail(db, input.email);
-  if (existing) throw errors.conflict('An account with that e-mail already exists');
+  if (existing) throw errors.conflict('An account with that e-mail already exists', because('account_exists'));
   return db.models.User.create({
     id: crypto.randomUUID(),
     email: normaliseEmail(input.email),

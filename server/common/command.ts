@@ -1,6 +1,6 @@
 import type { Socket } from 'socket.io';
 import { ZodObject, type z } from 'zod';
-import { AppError, errors } from './errors';
+import { AppError, because, errors } from './errors';
 import type { Logger } from 'pino';
 import { fieldErrors } from '../../shared/errors';
 import {
@@ -209,18 +209,18 @@ export class SocketCommands {
     }
     if (need === 'screen' && data.kind === 'display') {
       if (data.sessionId) return { sessionId: data.sessionId, participantId: null };
-      throw errors.forbidden('Watch a session first');
+      throw errors.forbidden('Watch a session first', because('watch_first'));
     }
     if (need === 'screen' && data.kind === 'user') {
-      if (!data.watching) throw errors.forbidden('Watch a session first');
+      if (!data.watching) throw errors.forbidden('Watch a session first', because('watch_first'));
       // An account's rights are checked afresh on every command (removed, disabled, signed out elsewhere).
-      if (!(await this.sessions.recheck(socket)).watching) throw errors.forbidden('You have no role on this workshop any more');
+      if (!(await this.sessions.recheck(socket)).watching) throw errors.forbidden('You have no role on this workshop any more', because('no_role_any_more'));
       return { sessionId: data.watching.sessionId, participantId: null };
     }
-    if (data.kind !== 'user' || !data.watching || !data.userId) throw errors.forbidden('Only the facilitators can run the session');
+    if (data.kind !== 'user' || !data.watching || !data.userId) throw errors.forbidden('Only the facilitators can run the session', because('runners_only'));
     // Checked afresh on every command, so a co-facilitator removed during the day stops at once.
     const { sessionId } = data.watching;
-    if (!(await this.sessions.recheck(socket)).canRun) throw errors.forbidden('Only the facilitators can run the session');
+    if (!(await this.sessions.recheck(socket)).canRun) throw errors.forbidden('Only the facilitators can run the session', because('runners_only'));
     return { sessionId, participantId: null };
   }
 }

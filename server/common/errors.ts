@@ -1,7 +1,9 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { z } from 'zod';
-import { fieldErrors, fieldIssues, type ErrorCode, type ErrorParams, type ErrorReason } from '../../shared/errors';
+import { because, fieldErrors, fieldIssues, type ErrorCode, type ErrorParams, type ErrorReason, type Why } from '../../shared/errors';
 import type { InputRefusal } from '../../shared/input-gate';
+
+export { because, type Why };
 
 /** An error that carries its HTTP status and Cairn error code to the one error format. */
 export class AppError extends Error {
@@ -29,15 +31,38 @@ export class AppError extends Error {
   }
 }
 
-/** Shorthands for the errors every feature raises. */
+/** What a not-found error names, in English for logs; the client says it through `problem.<thing>_missing`. */
+const MISSING = {
+  workshop: 'That workshop',
+  item: 'That agenda item',
+  live_session: 'That live session',
+  session: 'That session',
+  account: 'That account',
+  invitation: 'That invitation',
+  member: 'That member',
+  vote: 'That vote',
+  theme: 'That theme',
+  notes: 'One of those notes',
+  promotion: 'That promotion',
+  activity: 'That activity',
+  photo: 'That photo',
+  dev_inbox: 'The dev inbox',
+} as const satisfies Record<string, string>;
+/** Something an API call names that may not be found. */
+export type Missing = keyof typeof MISSING;
+
+/**
+ * Shorthands for the errors every feature raises. The English message is for logs and tests; `why` (a reason
+ * from shared/errors.ts with its values, `because('no_cut_to_undo')`) is what a client translates.
+ */
 export const errors = {
-  badRequest: (message: string) => new AppError(400, 'bad_request', message),
+  badRequest: (message: string, why?: Why) => new AppError(400, 'bad_request', message, undefined, why),
   validation: (error: z.ZodError, what = 'The request') =>
     new AppError(400, 'validation_failed', `${what} has fields that need fixing`, fieldErrors(error), { fieldIssues: fieldIssues(error) }),
   unauthenticated: (message = 'Sign in first') => new AppError(401, 'unauthenticated', message),
-  forbidden: (message = 'Your role does not allow this') => new AppError(403, 'forbidden', message),
-  notFound: (what = 'That') => new AppError(404, 'not_found', `${what} was not found`),
-  conflict: (message: string) => new AppError(409, 'conflict', message),
+  forbidden: (message = 'Your role does not allow this', why?: Why) => new AppError(403, 'forbidden', message, undefined, why),
+  notFound: (thing: Missing) => new AppError(404, 'not_found', `${MISSING[thing]} was not found`, undefined, because(`${thing}_missing`)),
+  conflict: (message: string, why?: Why) => new AppError(409, 'conflict', message, undefined, why),
   /** A participant token whose participant is no longer in the session (removed, data deleted). */
   notInSession: () => new AppError(403, 'forbidden', 'You are not in this session any more; join again'),
   /** A command on a live session that has ended. */

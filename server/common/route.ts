@@ -130,7 +130,7 @@ async function authorise(app: AppContext, a: Access, caller: Caller, req: Reques
   }
   const workshopId = String(req.params[a.param] ?? '');
   const role = await app.workshopRoleOf(caller.user, workshopId);
-  if (role === 'missing') throw errors.notFound('That workshop');
+  if (role === 'missing') throw errors.notFound('workshop');
   if (!role || !a.roles.includes(role)) throw errors.forbidden();
   return role;
 }

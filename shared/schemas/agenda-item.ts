@@ -112,6 +112,7 @@ export const AgendaItemInput = AgendaItem.omit({ id: true })
   .refine((i) => i.minTimeboxMin <= i.timeboxMin, {
     message: 'The shortest timebox cannot be longer than the timebox',
     path: ['minTimeboxMin'],
+    params: { reason: 'shortest_over_timebox' },
   });
 /** An agenda item as typed into the planner. */
 export type AgendaItemInput = z.infer<typeof AgendaItemInput>;

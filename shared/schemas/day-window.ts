@@ -3,7 +3,7 @@ import { z } from 'zod';
 /** A clock time of day as `HH:MM` (24-hour). */
 export const ClockTime = z
   .string()
-  .regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'Use a 24-hour time such as 09:30');
+  .refine((s) => /^([01]\d|2[0-3]):[0-5]\d$/.test(s), { message: 'Use a 24-hour time such as 09:30', params: { reason: 'clock_time' } });
 /** A clock time of day as `HH:MM`. */
 export type ClockTime = z.infer<typeof ClockTime>;
 
@@ -19,9 +19,9 @@ export const DayWindow = z
     start: ClockTime,
     end: ClockTime,
   })
-  .refine((w) => !allTimes(w) || w.doorsOpen <= w.start, { message: 'The workshop cannot start before the doors open', path: ['start'] })
-  .refine((w) => !allTimes(w) || w.start < w.end, { message: 'The workshop must end after it starts', path: ['end'] })
-  .refine((w) => !allTimes(w) || w.end <= w.doorsClose, { message: 'The workshop must end before the doors close', path: ['end'] });
+  .refine((w) => !allTimes(w) || w.doorsOpen <= w.start, { message: 'The workshop cannot start before the doors open', path: ['start'], params: { reason: 'start_before_doors' } })
+  .refine((w) => !allTimes(w) || w.start < w.end, { message: 'The workshop must end after it starts', path: ['end'], params: { reason: 'end_after_start' } })
+  .refine((w) => !allTimes(w) || w.end <= w.doorsClose, { message: 'The workshop must end before the doors close', path: ['end'], params: { reason: 'end_before_doors_close' } });
 /** The day window of a workshop. */
 export type DayWindow = z.infer<typeof DayWindow>;
 

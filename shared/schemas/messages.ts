@@ -1,5 +1,8 @@
 import { z } from 'zod';
 import { countOf } from '../words';
+import { COUNTS, PERCENTS } from '../field-nouns';
+
+export { COUNTS, PERCENTS };
 
 /**
  * Validation messages written for a person, in one place: every zod schema that gives no message of its
@@ -7,37 +10,6 @@ import { countOf } from '../words';
  * expected number to be >=1"). `installMessages()` makes them zod's messages; the server's app and the
  * client's entry call it once.
  */
-
-/** What a number or list field counts, by its key, so a limit reads with its noun ("at least 1 team"). */
-const COUNTS: Readonly<Record<string, string>> = {
-  teamCount: 'team',
-  headcount: 'participant',
-  roomCapacity: 'person',
-  maxStretchMin: 'minute',
-  minLunchMin: 'minute',
-  maxTalkMin: 'minute',
-  fullDayMin: 'minute',
-  timeboxMin: 'minute',
-  minTimeboxMin: 'minute',
-  roundMinutes: 'minute',
-  minutes: 'minute',
-  rounds: 'round',
-  dotsPerVoter: 'dot',
-  capPerOption: 'dot',
-  topN: 'option',
-  options: 'option',
-  criteria: 'criterion',
-  sketchesPerPerson: 'sketch',
-  storyboardFrames: 'frame',
-  retentionDays: 'day',
-  days: 'day',
-  maxTeamSize: 'person',
-  minTeamSize: 'person',
-  sizes: 'team size',
-};
-
-/** Fields that are a percentage. */
-const PERCENTS: ReadonlySet<string> = new Set(['loadCeilingPct']);
 
 // A number with the noun its field counts, or a percentage, or the number alone.
 function amount(field: string | undefined, n: number | bigint): string {

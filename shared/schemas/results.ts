@@ -371,7 +371,7 @@ export const SendReportBody = z
     /** A short note from the facilitator at the top of the message. */
     note: z.string().trim().max(1000, 'Keep the note under 1000 characters').default(''),
   })
-  .refine((b) => b.memberIds.length + b.participantIds.length > 0, { message: 'Choose at least one person to send the report to', path: ['memberIds'] });
+  .refine((b) => b.memberIds.length + b.participantIds.length > 0, { message: 'Choose at least one person to send the report to', path: ['memberIds'], params: { reason: 'report_nobody' } });
 /** Body of sending the report by e-mail. */
 export type SendReportBody = z.infer<typeof SendReportBody>;
 

@@ -22,8 +22,8 @@ export function isCalendarDate(value: string): boolean {
 /** A calendar date as `YYYY-MM-DD`, one that exists. */
 export const IsoDate = z
   .string()
-  .regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date such as 2027-03-14')
-  .refine(isCalendarDate, 'That day does not exist; check the month and the day');
+  .refine((s) => /^\d{4}-\d{2}-\d{2}$/.test(s), { message: 'Use a date such as 2027-03-14', params: { reason: 'date_format' }, abort: true })
+  .refine(isCalendarDate, { message: 'That day does not exist; check the month and the day', params: { reason: 'no_such_day' } });
 
 /** The brief of a workshop: what the facilitator fills in before planning the agenda. */
 export const WorkshopBrief = z.object({

@@ -30,15 +30,6 @@ export class ClientError extends Error {
 }
 
 /**
- * The message to show for anything a call threw: a client error's own message, else the fallback
- * (a programming error's text is not for the person using the screen).
- * @example error.value = messageOf(err, 'Could not load the workshops');
- */
-export function messageOf(err: unknown, fallback: string): string {
-  return err instanceof ClientError ? err.message : fallback;
-}
-
-/**
  * Anything a call threw, as the one client error: a client error as it is, anything else (a programming
  * error, whose text is not for the person using the screen) as an `internal` error with the fallback message.
  * @example error.value = clientErrorOf(err, 'Could not load the workshops');

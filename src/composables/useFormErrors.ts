@@ -1,10 +1,13 @@
 import { ClientError } from '../api/errors';
 import { ref } from 'vue';
 import { errorText, fieldText } from '../i18n/errors';
+import { i18n } from '../i18n';
+import { problemFields, problemText } from '../i18n/problems';
 
 /**
- * Keeps a form's overall message and per-field messages from a failed API call; with `translate`, in the
- * participant's language from the catalogs (src/i18n/errors.ts) rather than the server's English.
+ * Keeps a form's overall message and per-field messages from a failed API call, in the screen's language: a
+ * facilitator's screen from the facilitator's catalogs (src/i18n/problems.ts); with `translate`, a participant's
+ * screen from the participant's catalogs (src/i18n/errors.ts).
  * @example const { message, fields, run } = useFormErrors(); await run(() => api.save(form))
  */
 export function useFormErrors(options: { translate?: boolean } = {}) {
@@ -24,13 +27,12 @@ export function useFormErrors(options: { translate?: boolean } = {}) {
       if (err instanceof ClientError && options.translate) {
         fields.value = Object.fromEntries(Object.keys(err.fields).map((f) => [f, fieldText(err, f) ?? '']));
         message.value = Object.keys(err.fields).length ? null : errorText(err);
-      } else if (err instanceof ClientError) {
-        message.value = err.message;
-        fields.value = err.fields;
       } else if (options.translate) {
         message.value = errorText(err);
       } else {
-        message.value = 'Something went wrong; try again';
+        // The facilitator's screens: the server's reason and each field's issue, from the facilitator's catalogs.
+        message.value = problemText(err, i18n.global.t('problemCode.internal'));
+        fields.value = problemFields(err);
       }
       return false;
     } finally {

@@ -107,10 +107,10 @@ describe('moving through the agenda', () => {
   it('goes back, and refuses to go before the first or past the last item', async () => {
     await goto(1);
     expect((await commandData(facilitator, 'session:back')).currentIndex).toBe(0);
-    expect(await command(facilitator, 'session:back')).toEqual({ error: { code: 'conflict', message: expect.any(String) } });
+    expect(await command(facilitator, 'session:back')).toEqual({ error: { code: 'conflict', message: expect.any(String), reason: 'first_item' } });
     const last = demo.itemIds.length - 1;
     expect((await goto(last)).item?.id).toBe(demo.itemIds[last]);
-    expect(await command(facilitator, 'session:next')).toEqual({ error: { code: 'conflict', message: expect.any(String) } });
+    expect(await command(facilitator, 'session:next')).toEqual({ error: { code: 'conflict', message: expect.any(String), reason: 'last_item' } });
     expect(await command(facilitator, 'session:goto', { index: demo.itemIds.length })).toMatchObject({ error: { code: 'bad_request' } });
   });
 
@@ -148,7 +148,7 @@ describe('who may run the session', () => {
       ['session:message', { text: 'Hello' }],
       ['participants:list', {}],
     ] as const) {
-      expect(await command(observer, event, payload), event).toEqual({ error: { code: 'forbidden', message: expect.any(String) } });
+      expect(await command(observer, event, payload), event).toEqual({ error: { code: 'forbidden', message: expect.any(String), reason: 'runners_only' } });
     }
     const followed = nextEvent(observer, 'session:updated', (s) => s.currentIndex === 3);
     await goto(3);
@@ -159,7 +159,7 @@ describe('who may run the session', () => {
   it('refuses to let an account with no role watch, and answers not_found for an unknown session', async () => {
     const stranger = await createStranger(t, 'live-socket-stranger');
     const socket = await t.connect(stranger.token);
-    expect(await command(socket, 'session:watch', { sessionId: info.sessionId })).toEqual({ error: { code: 'forbidden', message: expect.any(String) } });
+    expect(await command(socket, 'session:watch', { sessionId: info.sessionId })).toEqual({ error: { code: 'forbidden', message: expect.any(String), reason: 'no_role' } });
     expect(await command(socket, 'session:sync')).toMatchObject({ error: { code: 'forbidden' } });
     expect(await command(socket, 'session:next')).toMatchObject({ error: { code: 'forbidden' } });
     expect(await command(facilitator, 'session:watch', { sessionId: 'no-such-session' })).toMatchObject({ error: { code: 'not_found' } });

@@ -40,7 +40,7 @@ describe('the countdown', () => {
   });
 
   it('refuses to pause a timer that is not running, and to resume or adjust an ended one', () => {
-    expect(pauseTimer(idleTimer(5), 0)).toEqual({ refused: 'conflict', message: 'The timer is not running' });
+    expect(pauseTimer(idleTimer(5), 0)).toEqual({ refused: 'conflict', message: 'The timer is not running', why: { reason: 'timer_not_running' } });
     expect(pauseTimer(paused(1_000), 0)).toEqual({ unchanged: true });
     const ended: Timer = { status: 'ended', endsAt: null, remainingMs: null, durationMs: 5 * MIN };
     expect(resumeTimer(ended, 0)).toMatchObject({ refused: 'conflict' });
@@ -64,14 +64,18 @@ describe('the countdown', () => {
 describe('moving through the agenda', () => {
   it('goes forward and back inside the agenda and refuses past either end', () => {
     expect(moveTarget(0, 3, { to: 'next' })).toEqual({ next: 1 });
-    expect(moveTarget(2, 3, { to: 'next' })).toEqual({ refused: 'conflict', message: 'This is the last item of the agenda' });
+    expect(moveTarget(2, 3, { to: 'next' })).toEqual({ refused: 'conflict', message: 'This is the last item of the agenda', why: { reason: 'last_item' } });
     expect(moveTarget(1, 3, { to: 'back' })).toEqual({ next: 0 });
-    expect(moveTarget(0, 3, { to: 'back' })).toEqual({ refused: 'conflict', message: 'This is the first item of the agenda' });
+    expect(moveTarget(0, 3, { to: 'back' })).toEqual({ refused: 'conflict', message: 'This is the first item of the agenda', why: { reason: 'first_item' } });
   });
 
   it('goes to any item, the current one included (it restarts), and refuses a place the agenda does not have', () => {
     expect(moveTarget(1, 3, { to: 'index', index: 1 })).toEqual({ next: 1 });
-    expect(moveTarget(1, 3, { to: 'index', index: 3 })).toEqual({ refused: 'bad_request', message: 'The agenda has 3 items; there is no item 4' });
+    expect(moveTarget(1, 3, { to: 'index', index: 3 })).toEqual({
+      refused: 'bad_request',
+      message: 'The agenda has 3 items; there is no item 4',
+      why: { reason: 'no_such_item', params: { count: 3, number: 4 } },
+    });
   });
 
   it('ends the open run and starts the item’s run, its countdown idle with its whole timebox', () => {

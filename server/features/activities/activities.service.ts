@@ -2,7 +2,7 @@ import crypto from 'node:crypto';
 import type { Transaction } from 'sequelize';
 import type { AppContext } from '../../context';
 import type { ActivityStateRow, AgendaItemRow, ParticipantRow, PhotoRow, SubmissionRow } from '../../db/models';
-import { AppError, errors } from '../../common/errors';
+import { AppError, because, errors } from '../../common/errors';
 import { liveRooms, type LiveService } from '../live/live.service';
 import type { PresenceService } from '../live/presence.service';
 import type { SubmissionsService } from '../live/submissions.service';
@@ -72,7 +72,7 @@ export class ActivitiesService {
   async checkSubmission(input: SubmissionInput, participant: ParticipantRow, transaction: Transaction): Promise<void> {
     const { AgendaItem, Submission, Team, Participant, Photo } = this.ctx.db.models;
     const item = await AgendaItem.findByPk(input.itemId, { transaction });
-    if (!item) throw errors.notFound('That activity');
+    if (!item) throw errors.notFound('activity');
     // A talk, a break or a vote takes no notes at all; every other activity only its own kinds.
     const refusal = noteRefusal(item.type as ActivityType, input.kind);
     if (refusal) throw errors.badRequest(refusal);
@@ -253,15 +253,15 @@ export class ActivitiesService {
    */
   async arrangeFrames(sessionId: string, itemId: string, key: string, frameIds: string[]): Promise<string[]> {
     const item = await this.itemOf(sessionId, itemId);
-    if (item.type !== 'storyboard') throw errors.badRequest('Only a storyboard has frames to put in order');
-    if (new Set(frameIds).size !== frameIds.length) throw errors.badRequest('Each frame can be in the story once');
+    if (item.type !== 'storyboard') throw errors.badRequest('Only a storyboard has frames to put in order', because('storyboard_only'));
+    if (new Set(frameIds).size !== frameIds.length) throw errors.badRequest('Each frame can be in the story once', because('frame_once'));
     const { Submission } = this.ctx.db.models;
     const order = await this.ctx.db.writeTx(async (transaction) => {
       const frames = (await Submission.findAll({ where: { sessionId, itemId, kind: 'frame' }, order: [['createdAt', 'ASC']], transaction })).filter(
         (f) => storyKey(f) === key && !f.mergedIntoId,
       );
       const known = new Set(frames.map((f) => f.id));
-      if (frameIds.some((id) => !known.has(id))) throw errors.badRequest('Those frames are not all in this storyboard');
+      if (frameIds.some((id) => !known.has(id))) throw errors.badRequest('Those frames are not all in this storyboard', because('frames_unknown'));
       const full = [...frameIds, ...frames.map((f) => f.id).filter((id) => !frameIds.includes(id))];
       const state = await this.stateOf(sessionId, item.id, transaction);
       state.frameOrders = { ...state.frameOrders, [key]: full };
@@ -289,7 +289,7 @@ export class ActivitiesService {
   async itemOf(sessionId: string, itemId: string): Promise<AgendaItemRow> {
     const workshopId = await this.live.workshopOf(sessionId);
     const item = await this.ctx.db.models.AgendaItem.findOne({ where: { id: itemId, workshopId } });
-    if (!item) throw errors.notFound('That agenda item');
+    if (!item) throw errors.notFound('item');
     return item;
   }
 

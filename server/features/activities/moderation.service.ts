@@ -2,7 +2,7 @@ import crypto from 'node:crypto';
 import type { Transaction } from 'sequelize';
 import type { AppContext } from '../../context';
 import type { SubmissionRow } from '../../db/models';
-import { errors } from '../../common/errors';
+import { because, errors } from '../../common/errors';
 import { liveRooms } from '../live/live.service';
 import { toPromoted, toTheme, type ActivitiesService } from './activities.service';
 import type { NoteView, PromotedOption, ThemeView } from '../../../shared/schemas/activities';
@@ -41,8 +41,8 @@ export class ModerationService {
       let [keep] = await this.notesOf(sessionId, [keepId], transaction);
       if (keep!.mergedIntoId) [keep] = await this.notesOf(sessionId, [keep!.mergedIntoId], transaction);
       const dupes = (await this.notesOf(sessionId, duplicateIds, transaction)).filter((d) => d.id !== keep!.id);
-      if (dupes.length === 0) throw errors.badRequest('Choose at least one other note to merge');
-      if (dupes.some((d) => d.itemId !== keep!.itemId)) throw errors.badRequest('Only notes of the same activity can be merged');
+      if (dupes.length === 0) throw errors.badRequest('Choose at least one other note to merge', because('merge_needs_other'));
+      if (dupes.some((d) => d.itemId !== keep!.itemId)) throw errors.badRequest('Only notes of the same activity can be merged', because('merge_same_activity'));
       const ids = dupes.map((d) => d.id);
       // Notes already merged into a duplicate follow it under the kept note.
       await Submission.update({ mergedIntoId: keep!.id }, { where: { sessionId, mergedIntoId: ids }, transaction });
@@ -83,7 +83,7 @@ export class ModerationService {
   async applyThemes(sessionId: string, itemId: string, groups: { name: string; noteIds: string[] }[]): Promise<ThemeView[]> {
     await this.activities.itemOf(sessionId, itemId);
     const all = groups.flatMap((g) => g.noteIds);
-    if (new Set(all).size !== all.length) throw errors.badRequest('A note can be in one theme only');
+    if (new Set(all).size !== all.length) throw errors.badRequest('A note can be in one theme only', because('one_theme_each'));
     const made = await this.ctx.db.writeTx(async (transaction) => {
       const out = [];
       for (const g of groups) {
@@ -149,8 +149,8 @@ export class ModerationService {
         source = { itemId: t.itemId, text: t.name };
       } else {
         const [n] = await this.notesOf(sessionId, [sourceId], transaction);
-        if (n!.mergedIntoId) throw errors.badRequest('That note was merged into another; promote the note it went under');
-        if (n!.hidden) throw errors.badRequest('That note is hidden; show it again before promoting it');
+        if (n!.mergedIntoId) throw errors.badRequest('That note was merged into another; promote the note it went under', because('promote_merged'));
+        if (n!.hidden) throw errors.badRequest('That note is hidden; show it again before promoting it', because('promote_hidden'));
         source = { itemId: n!.itemId, text: n!.text };
       }
       const position = (((await Promotion.max('position', { where: { sessionId }, transaction })) as number | null) ?? -1) + 1;
@@ -169,7 +169,7 @@ export class ModerationService {
     const { Promotion } = this.ctx.db.models;
     const itemId = await this.ctx.db.writeTx(async (transaction) => {
       const p = await Promotion.findByPk(promotionId, { transaction });
-      if (!p || p.sessionId !== sessionId) throw errors.notFound('That promotion');
+      if (!p || p.sessionId !== sessionId) throw errors.notFound('promotion');
       await p.destroy({ transaction });
       return p.itemId;
     });
@@ -200,14 +200,14 @@ export class ModerationService {
   /** Notes of the session by id (all must exist in it), for moderation. */
   private async notesOf(sessionId: string, ids: string[], transaction: Transaction): Promise<SubmissionRow[]> {
     const rows = await this.ctx.db.models.Submission.findAll({ where: { sessionId, id: ids }, transaction });
-    if (rows.length !== new Set(ids).size) throw errors.notFound('One of those notes');
+    if (rows.length !== new Set(ids).size) throw errors.notFound('notes');
     return rows;
   }
 
   /** A theme of the session, or 404. */
   private async themeOf(sessionId: string, themeId: string, transaction: Transaction) {
     const t = await this.ctx.db.models.Theme.findByPk(themeId, { transaction });
-    if (!t || t.sessionId !== sessionId) throw errors.notFound('That theme');
+    if (!t || t.sessionId !== sessionId) throw errors.notFound('theme');
     return t;
   }
 
@@ -221,8 +221,8 @@ export class ModerationService {
   /** Moves notes of one item into a theme (or out of any with `null`), refusing other items' notes and merged duplicates. */
   private async moveNotes(sessionId: string, itemId: string, themeId: string | null, noteIds: string[], transaction: Transaction) {
     const rows = await this.notesOf(sessionId, noteIds, transaction);
-    if (rows.some((r) => r.itemId !== itemId)) throw errors.badRequest('A theme groups notes of its own activity only');
-    if (rows.some((r) => r.mergedIntoId)) throw errors.badRequest('A merged duplicate goes with the note it was merged into');
+    if (rows.some((r) => r.itemId !== itemId)) throw errors.badRequest('A theme groups notes of its own activity only', because('theme_own_activity'));
+    if (rows.some((r) => r.mergedIntoId)) throw errors.badRequest('A merged duplicate goes with the note it was merged into', because('theme_merged'));
     await this.ctx.db.models.Submission.update({ themeId }, { where: { sessionId, id: noteIds }, transaction });
     for (const r of rows) r.themeId = themeId;
     return rows;

@@ -124,8 +124,8 @@ export class PhotosService {
     ]);
     const refused = await this.live.gate(sessionId, Boolean(participant));
     if (refused) throw refused;
-    if (!session) throw errors.notFound('That live session');
-    if (!item || item.workshopId !== session.workshopId) throw errors.notFound('That agenda item');
+    if (!session) throw errors.notFound('live_session');
+    if (!item || item.workshopId !== session.workshopId) throw errors.notFound('item');
     const photoKind = ACTIVITY_LIBRARY[item.type as ActivityType].photos;
     if (!photoKind) throw errors.badRequest('This activity does not take photos');
     const tooMany = (mine: number) =>
@@ -205,7 +205,7 @@ export class PhotosService {
   async read(photoId: string, reader: PhotoReader, size: PhotoSize): Promise<{ data: Buffer; blurred: boolean }> {
     const { Photo, Submission, Participant, LiveSession } = this.ctx.db.models;
     const photo = await Photo.findByPk(photoId);
-    const missing = () => errors.notFound('That photo');
+    const missing = () => errors.notFound('photo');
     if (!photo) throw missing();
     if (reader.kind === 'account') {
       const session = await LiveSession.findByPk(photo.sessionId, { attributes: ['id', 'workshopId'] });

@@ -1,7 +1,7 @@
 import type { Transaction } from 'sequelize';
 import type { AppContext } from '../../context';
 import type { ActivityStateRow, AgendaItemRow } from '../../db/models';
-import { errors } from '../../common/errors';
+import { because, errors } from '../../common/errors';
 import { liveRooms } from '../live/live.service';
 import type { PresenceService } from '../live/presence.service';
 import type { ActivitiesService } from './activities.service';
@@ -25,7 +25,7 @@ export class RoundsService {
   /** The current round of an item run in rounds; the first look draws the pairs from whoever is online. */
   async round(sessionId: string, itemId: string): Promise<RoundView> {
     const item = await this.activities.itemOf(sessionId, itemId);
-    if (!ROUND_TYPES.has(item.type as ActivityType)) throw errors.badRequest('This activity does not run in rounds');
+    if (!ROUND_TYPES.has(item.type as ActivityType)) throw errors.badRequest('This activity does not run in rounds', because('no_rounds'));
     let state = await this.ctx.db.models.ActivityState.findOne({ where: { sessionId, itemId } });
     if (!state || (PAIRED_TYPES.has(item.type as ActivityType) && state.roster === null)) {
       state = await this.ctx.db.writeTx((transaction) => this.stateFor(sessionId, item, transaction));
@@ -36,7 +36,7 @@ export class RoundsService {
   /** Goes to a round (the console's next and back), or draws the pairs again from whoever is online now; every screen hears it. */
   async setRound(sessionId: string, itemId: string, round: number, regroup: boolean): Promise<RoundView> {
     const item = await this.activities.itemOf(sessionId, itemId);
-    if (!ROUND_TYPES.has(item.type as ActivityType)) throw errors.badRequest('This activity does not run in rounds');
+    if (!ROUND_TYPES.has(item.type as ActivityType)) throw errors.badRequest('This activity does not run in rounds', because('no_rounds'));
     const state = await this.ctx.db.writeTx(async (transaction) => {
       const s = await this.stateFor(sessionId, item, transaction, regroup);
       if (!regroup && round > s.round && PAIRED_TYPES.has(item.type as ActivityType)) await this.addLateJoiners(sessionId, s);

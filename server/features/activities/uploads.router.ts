@@ -78,7 +78,7 @@ export function uploadsRoutes(routes: ApiRoutes, ctx: AppContext, photos: Photos
     const caller = await ctx.auth.callerOfToken(token);
     if (caller.kind !== 'display') return next();
     const params = PhotoParams.safeParse(req.params);
-    if (!params.success) throw errors.notFound('That photo');
+    if (!params.success) throw errors.notFound('photo');
     sendPhoto(res, await photos.read(params.data.photoId, { kind: 'display', sessionId: caller.sessionId }, sizeOf(req)));
   };
 

@@ -5,7 +5,7 @@ import type { Database } from '../../db';
 import type { UserRow } from '../../db/models';
 import type { TokenService } from '../../common/tokens';
 import type { Caller } from '../../context';
-import { AppError, errors } from '../../common/errors';
+import { AppError, because, errors } from '../../common/errors';
 import { checkPassword, hashPassword, hashToken, newToken } from '../../common/passwords';
 import { createAccount, findAccountByEmail } from '../../common/accounts';
 import type { GlobalRole } from '../../../shared/schemas/user';
@@ -42,8 +42,8 @@ export class AuthService {
   async signIn(email: string, password: string): Promise<UserRow> {
     const user = await this.findByEmail(email);
     const ok = await checkPassword(password, user?.passwordHash);
-    if (!user || !ok) throw new AppError(401, 'wrong_credentials', 'That e-mail and password do not match an account');
-    if (user.disabled) throw new AppError(403, 'forbidden', 'This account is disabled; ask your Cairn admin');
+    if (!user || !ok) throw new AppError(401, 'wrong_credentials', 'That e-mail and password do not match an account', undefined, because('sign_in_failed'));
+    if (user.disabled) throw new AppError(403, 'forbidden', 'This account is disabled; ask your Cairn admin', undefined, because('account_disabled'));
     return user;
   }
 
@@ -86,7 +86,7 @@ export class AuthService {
   /** Changes a password after checking the current one; other sessions are signed out. */
   async changePassword(user: UserRow, current: string, next: string): Promise<UserRow> {
     if (!(await checkPassword(current, user.passwordHash))) {
-      throw new AppError(400, 'wrong_credentials', 'Your current password is not right', { currentPassword: 'Not right' });
+      throw new AppError(400, 'wrong_credentials', 'Your current password is not right', { currentPassword: 'Not right' }, { ...because('current_password_wrong'), fieldIssues: { currentPassword: { code: 'current_password_wrong' } } });
     }
     const hash = await hashPassword(next);
     await this.db.writeTx(async (transaction) => {
@@ -125,7 +125,7 @@ export class AuthService {
    * account's other links and sessions end with it.
    */
   async confirmReset(token: string, newPassword: string): Promise<void> {
-    const invalid = () => new AppError(400, 'bad_request', 'This reset link is no longer valid; ask for a new one');
+    const invalid = () => new AppError(400, 'bad_request', 'This reset link is no longer valid; ask for a new one', undefined, because('reset_link_invalid'));
     const hash = await hashPassword(newPassword);
     await this.db.writeTx(async (transaction) => {
       const { PasswordReset, User } = this.db.models;

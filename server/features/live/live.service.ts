@@ -4,7 +4,7 @@ import QRCode from 'qrcode';
 import { QueryTypes, type Transaction } from 'sequelize';
 import type { AppContext } from '../../context';
 import type { LiveSessionRow } from '../../db/models';
-import { AppError, errors } from '../../common/errors';
+import { AppError, because, errors } from '../../common/errors';
 import { joinBaseUrl } from '../../common/network';
 import { toAgendaItem, type AgendaItemFields } from '../workshops/workshops.service';
 import {
@@ -110,7 +110,7 @@ function currentIndexOf(session: LiveSessionRow, agenda: AgendaItem[]): number {
 
 /** A transition's new value, `false` when nothing changes, or its refusal thrown as an AppError. */
 function applied<T>(t: Transition<T>): T | false {
-  if ('refused' in t) throw t.refused === 'conflict' ? errors.conflict(t.message) : errors.badRequest(t.message);
+  if ('refused' in t) throw t.refused === 'conflict' ? errors.conflict(t.message, t.why) : errors.badRequest(t.message, t.why);
   return 'unchanged' in t ? false : t.next;
 }
 
@@ -155,7 +155,7 @@ export class LiveService {
     const { LiveSession, Workshop } = this.ctx.db.models;
     const existing = await LiveSession.findOne({ where: { workshopId, status: 'live' } });
     if (existing) return { info: this.info(existing), created: false };
-    if (!(await Workshop.findByPk(workshopId, { attributes: ['id'] }))) throw errors.notFound('That workshop');
+    if (!(await Workshop.findByPk(workshopId, { attributes: ['id'] }))) throw errors.notFound('workshop');
     const result = await this.ctx.db.writeTx(async (transaction) => {
       // Checked again inside the writer: two facilitators pressing start at once get one session.
       const again = await LiveSession.findOne({ where: { workshopId, status: 'live' }, transaction });
@@ -166,7 +166,7 @@ export class LiveService {
         const code = drawJoinCode();
         if (!(await LiveSession.findOne({ where: { joinCode: code }, attributes: ['id'], transaction }))) joinCode = code;
       }
-      if (!joinCode) throw new AppError(500, 'internal', 'Could not draw an unused join code; try again');
+      if (!joinCode) throw new AppError(500, 'internal', 'Could not draw an unused join code; try again', undefined, because('join_code_draw_failed'));
       const now = Date.now();
       const first = agenda[0];
       const row = await LiveSession.create(
@@ -232,7 +232,7 @@ export class LiveService {
   /** The workshop a session belongs to (for checking a watcher's role on it). */
   async workshopOf(sessionId: string): Promise<string> {
     const row = await this.ctx.db.models.LiveSession.findByPk(sessionId, { attributes: ['id', 'workshopId'] });
-    if (!row) throw errors.notFound('That live session');
+    if (!row) throw errors.notFound('live_session');
     return row.workshopId;
   }
 
@@ -356,8 +356,8 @@ export class LiveService {
       const current = currentIndexOf(s, agenda);
       for (const cut of cuts) {
         const at = agenda.findIndex((i) => i.id === cut.itemId);
-        if (at < 0) throw errors.badRequest('One of the items is not on the agenda any more');
-        if (at <= current) throw errors.badRequest(`“${agenda[at]!.title}” is not after the current item; only later items can be shortened`);
+        if (at < 0) throw errors.badRequest('One of the items is not on the agenda any more', because('item_not_on_agenda'));
+        if (at <= current) throw errors.badRequest(`“${agenda[at]!.title}” is not after the current item; only later items can be shortened`, because('item_not_after_current', { title: agenda[at]!.title }));
       }
       const plan = await this.agendaOf(s.workshopId, transaction);
       const next = cutRunTimeboxes({ timeboxes: s.timeboxes ?? {}, before: s.timeboxesBefore ?? null }, plan, cuts);
@@ -370,7 +370,7 @@ export class LiveService {
   undoCuts(sessionId: string): Promise<LiveState> {
     return this.command(sessionId, (s) => {
       const run = { timeboxes: s.timeboxes ?? {}, before: s.timeboxesBefore ?? null };
-      if (run.before === null) throw errors.conflict('There is no cut to undo');
+      if (run.before === null) throw errors.conflict('There is no cut to undo', because('no_cut_to_undo'));
       const next = undoRunCut(run);
       setJson(s, 'timeboxes', next.timeboxes);
       setJson(s, 'timeboxesBefore', next.before);
@@ -381,7 +381,7 @@ export class LiveService {
   keepCuts(sessionId: string): Promise<LiveState> {
     return this.command(sessionId, async (s, _agenda, _now, transaction) => {
       const cuts = Object.entries(s.timeboxes ?? {});
-      if (cuts.length === 0) throw errors.conflict('This run has no cuts to write into the plan');
+      if (cuts.length === 0) throw errors.conflict('This run has no cuts to write into the plan', because('no_cuts_to_write'));
       for (const [itemId, timeboxMin] of cuts) {
         await this.ctx.db.models.AgendaItem.update({ timeboxMin }, { where: { id: itemId, workshopId: s.workshopId }, transaction });
       }
@@ -408,7 +408,7 @@ export class LiveService {
 
   private async liveRowOf(workshopId: string): Promise<LiveSessionRow> {
     const row = await this.ctx.db.models.LiveSession.findOne({ where: { workshopId, status: 'live' } });
-    if (!row) throw new AppError(404, 'not_found', 'This workshop has no live session; start one first');
+    if (!row) throw new AppError(404, 'not_found', 'This workshop has no live session; start one first', undefined, because('no_live_session'));
     return row;
   }
 
@@ -503,7 +503,7 @@ export class LiveService {
         }),
       ]);
     const [s, early] = await Promise.all([LiveSession.findByPk(sessionId, { transaction }), known ? readWorkshop(known) : null]);
-    if (!s) throw errors.notFound('That live session');
+    if (!s) throw errors.notFound('live_session');
     this.runtime(sessionId).workshopId = s.workshopId;
     const [plan, [w]] = early ?? (await readWorkshop(s.workshopId));
     // The live run follows its own timeboxes where cuts shortened items for this session only.

@@ -1,5 +1,5 @@
 import type { AppContext } from '../../context';
-import { errors } from '../../common/errors';
+import { because, errors } from '../../common/errors';
 import type { CommandSocket, SocketCommands, SocketSessions } from '../../common/command';
 import { EDIT_ROLES } from '../../common/access';
 import { liveRooms, type LiveIo, type LiveService } from './live.service';
@@ -58,7 +58,7 @@ export function registerLiveCommands(
     const { sessionId } = payload;
     const workshopId = await live.workshopOf(sessionId);
     const role = await ctx.accountRoleOf(data.userId!, workshopId, data.tokenVersion);
-    if (!role) throw errors.forbidden('You have no role on this workshop');
+    if (!role) throw errors.forbidden('You have no role on this workshop', because('no_role'));
     const before = data.watching?.sessionId;
     if (before && before !== sessionId) {
       for (const room of [liveRooms.session(before), liveRooms.screens(before), liveRooms.facilitators(before)]) await socket.leave(room);

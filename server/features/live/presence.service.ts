@@ -72,7 +72,7 @@ export class PresenceService {
   async joinInfo(code: string): Promise<JoinInfo> {
     const session = await this.joinable(code);
     const w = await this.ctx.db.models.Workshop.findByPk(session.workshopId, { attributes: ['id', 'title', 'consentText', 'retentionDays'] });
-    if (!w) throw errors.notFound('That workshop');
+    if (!w) throw errors.notFound('workshop');
     return { sessionId: session.id, workshopTitle: w.title, consentText: w.consentText, retentionDays: w.retentionDays ?? null };
   }
 

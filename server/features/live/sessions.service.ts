@@ -1,7 +1,7 @@
 import fs from 'node:fs/promises';
 import { QueryTypes } from 'sequelize';
 import type { AppContext } from '../../context';
-import { AppError, errors } from '../../common/errors';
+import { because, errors } from '../../common/errors';
 import { PHOTO_KEEPERS } from '../results/retention.service';
 import type { SessionKind, SessionSummary } from '../../../shared/schemas/live';
 
@@ -47,7 +47,7 @@ export class SessionsService {
   async setKind(workshopId: string, sessionId: string, kind: SessionKind): Promise<SessionSummary> {
     await this.ctx.db.writeTx(async (transaction) => {
       const row = await this.ctx.db.models.LiveSession.findByPk(sessionId, { transaction });
-      if (!row || row.workshopId !== workshopId) throw errors.notFound('That session');
+      if (!row || row.workshopId !== workshopId) throw errors.notFound('session');
       row.kind = kind;
       await row.save({ transaction });
     });
@@ -61,8 +61,8 @@ export class SessionsService {
   async discard(workshopId: string, sessionId: string): Promise<void> {
     const files = await this.ctx.db.writeTx(async (transaction) => {
       const row = await this.ctx.db.models.LiveSession.findByPk(sessionId, { transaction });
-      if (!row || row.workshopId !== workshopId) throw errors.notFound('That session');
-      if (row.status === 'live') throw new AppError(409, 'conflict', 'This session is still live; end it before discarding it');
+      if (!row || row.workshopId !== workshopId) throw errors.notFound('session');
+      if (row.status === 'live') throw errors.conflict('This session is still live; end it before discarding it', because('session_still_live'));
       const toRemove: string[] = [];
       for (const keeper of PHOTO_KEEPERS) toRemove.push(...(await keeper.erase(this.ctx, [sessionId], transaction)));
       // Participants, notes, teams, themes, promotions, activity states and votes go with the session (ON DELETE CASCADE).

@@ -3,7 +3,7 @@ import crypto from 'node:crypto';
 import { Op } from 'sequelize';
 import type { Database } from '../../db';
 import type { InvitationRow, UserRow } from '../../db/models';
-import { AppError, errors } from '../../common/errors';
+import { AppError, because, errors } from '../../common/errors';
 import { hashToken, newToken } from '../../common/passwords';
 import { normaliseEmail } from '../../../shared/schemas/user';
 import type { Mailer } from '../mail/mail.service';
@@ -36,7 +36,7 @@ export class MembersService {
   async people(workshopId: string): Promise<People> {
     const { Workshop, Membership, User, Invitation } = this.db.models;
     const w = await Workshop.findByPk(workshopId);
-    if (!w) throw errors.notFound('That workshop');
+    if (!w) throw errors.notFound('workshop');
     const memberships = await Membership.findAll({ where: { workshopId }, order: [['createdAt', 'ASC']] });
     const users = await User.findAll({ where: { id: { [Op.in]: [w.ownerId, ...memberships.map((m) => m.userId)] } } });
     const byId = new Map(users.map((u) => [u.id, u]));
@@ -56,10 +56,10 @@ export class MembersService {
   async invite(workshopId: string, inviter: UserRow, body: InviteBody, baseUrl: string): Promise<Invitation> {
     const { Workshop, Invitation, Membership, User } = this.db.models;
     const w = await Workshop.findByPk(workshopId);
-    if (!w) throw errors.notFound('That workshop');
+    if (!w) throw errors.notFound('workshop');
     const existing = await User.findOne({ where: { email: body.email } });
     if (existing && (existing.id === w.ownerId || (await Membership.findOne({ where: { workshopId, userId: existing.id } })))) {
-      throw errors.conflict('That person already has a role on this workshop');
+      throw errors.conflict('That person already has a role on this workshop', because('already_member'));
     }
     const token = newToken();
     const row = await this.db.writeTx(async (transaction) => {
@@ -95,13 +95,13 @@ export class MembersService {
   /** Withdraws an open invitation. */
   async revoke(workshopId: string, invitationId: string): Promise<void> {
     const n = await this.db.models.Invitation.destroy({ where: { id: invitationId, workshopId, acceptedAt: null } });
-    if (n === 0) throw errors.notFound('That invitation');
+    if (n === 0) throw errors.notFound('invitation');
   }
 
   /** Takes a member's role away. */
   async removeMember(workshopId: string, membershipId: string): Promise<void> {
     const n = await this.db.models.Membership.destroy({ where: { id: membershipId, workshopId } });
-    if (n === 0) throw errors.notFound('That member');
+    if (n === 0) throw errors.notFound('member');
   }
 
   /** What an invitation link is for, before accepting. */
@@ -127,11 +127,11 @@ export class MembersService {
   async accept(token: string, user: UserRow): Promise<string> {
     const inv = await this.open(token);
     if (normaliseEmail(user.email) !== normaliseEmail(inv.email)) {
-      throw errors.forbidden(`This invitation is for ${inv.email}; sign in as ${inv.email} to accept it`);
+      throw errors.forbidden(`This invitation is for ${inv.email}; sign in as ${inv.email} to accept it`, because('invitation_other_account', { email: inv.email }));
     }
     const w = await this.db.models.Workshop.findByPk(inv.workshopId);
-    if (!w) throw errors.notFound('That workshop');
-    if (w.ownerId === user.id) throw errors.conflict('You are this workshop’s lead facilitator already');
+    if (!w) throw errors.notFound('workshop');
+    if (w.ownerId === user.id) throw errors.conflict('You are this workshop’s lead facilitator already', because('already_lead'));
     await this.db.writeTx(async (transaction) => {
       const { Membership } = this.db.models;
       const m = await Membership.findOne({ where: { workshopId: inv.workshopId, userId: user.id }, transaction });
@@ -150,7 +150,7 @@ export class MembersService {
   private async open(token: string): Promise<InvitationRow> {
     const inv = await this.db.models.Invitation.findOne({ where: { tokenHash: hashToken(token) } });
     if (!inv || inv.acceptedAt || inv.expiresAt.getTime() < Date.now()) {
-      throw new AppError(404, 'not_found', 'This invitation link is no longer valid; ask the facilitator for a new one');
+      throw new AppError(404, 'not_found', 'This invitation link is no longer valid; ask the facilitator for a new one', undefined, because('invitation_invalid'));
     }
     return inv;
   }

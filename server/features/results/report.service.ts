@@ -6,7 +6,7 @@ import path from 'node:path';
 import { Op } from 'sequelize';
 import type { AppContext } from '../../context';
 import type { UserRow } from '../../db/models';
-import { AppError, errors } from '../../common/errors';
+import { AppError, because, errors } from '../../common/errors';
 import type { ResultsService } from './results.service';
 import { exportFileName } from './export.service';
 import { renderReportPdf } from './report-content';
@@ -86,13 +86,13 @@ export class ReportService {
    */
   async send(workshopId: string, body: SendReportBody, sender: UserRow, baseUrl: string): Promise<SendReportAnswer> {
     const w = await this.ctx.db.models.Workshop.findByPk(workshopId);
-    if (!w) throw errors.notFound('That workshop');
+    if (!w) throw errors.notFound('workshop');
     const recipients = await this.recipients(workshopId);
     const members = recipients.members.filter((m) => body.memberIds.includes(m.userId));
-    if (members.length !== new Set(body.memberIds).size) throw errors.badRequest('Choose members of this workshop only');
+    if (members.length !== new Set(body.memberIds).size) throw errors.badRequest('Choose members of this workshop only', because('report_members_only'));
     const participantIds = new Set(recipients.participants.map((p) => p.participantId));
     if (!body.participantIds.every((id) => participantIds.has(id))) {
-      throw errors.badRequest('Choose participants who left an address for the report only');
+      throw errors.badRequest('Choose participants who left an address for the report only', because('report_participants_only'));
     }
     const people = body.participantIds.length
       ? await this.ctx.db.models.Participant.findAll({ where: { id: [...new Set(body.participantIds)] } })
@@ -105,7 +105,7 @@ export class ReportService {
         await this.ctx.mail.send(mail);
       } catch (err) {
         this.ctx.logger.error({ err }, 'the report could not be sent');
-        throw new AppError(502, 'internal', 'The mail server did not take the report; try again later');
+        throw new AppError(502, 'internal', 'The mail server did not take the report; try again later', undefined, because('mail_refused'));
       }
     };
     for (const m of members) {

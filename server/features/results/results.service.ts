@@ -538,7 +538,7 @@ export class ResultsService {
   async input(workshopId: string, anonymize: boolean, now = Date.now(), selector: SessionSelector = 'day'): Promise<ResultsInput> {
     const { Workshop, User, AgendaItem, LiveSession, Participant, Team, Submission } = this.ctx.db.models;
     const workshop = await Workshop.findByPk(workshopId);
-    if (!workshop) throw errors.notFound('That workshop');
+    if (!workshop) throw errors.notFound('workshop');
     const [owner, itemRows, sessions] = await Promise.all([
       User.findByPk(workshop.ownerId, { attributes: ['id', 'name'] }),
       AgendaItem.findAll({ where: { workshopId }, order: [['position', 'ASC']] }),

@@ -3,7 +3,7 @@ import fs from 'node:fs/promises';
 import path from 'node:path';
 import { Op, type Transaction } from 'sequelize';
 import type { AppContext } from '../../context';
-import { AppError, errors } from '../../common/errors';
+import { because, errors } from '../../common/errors';
 import { anonymousName } from './results.service';
 import type { MyData, RetentionStatus } from '../../../shared/schemas/results';
 
@@ -68,7 +68,7 @@ export class RetentionService {
   async status(workshopId: string): Promise<RetentionStatus> {
     const { Workshop, LiveSession, Participant } = this.ctx.db.models;
     const w = await Workshop.findByPk(workshopId);
-    if (!w) throw errors.notFound('That workshop');
+    if (!w) throw errors.notFound('workshop');
     const sessions = await LiveSession.findAll({ where: { workshopId }, attributes: ['id', 'status', 'endedAt'] });
     const sessionIds = sessions.map((s) => s.id);
     const liveNow = sessions.some((s) => s.status === 'live');
@@ -96,7 +96,7 @@ export class RetentionService {
   async setDays(workshopId: string, retentionDays: number | null): Promise<RetentionStatus> {
     await this.ctx.db.writeTx(async (transaction) => {
       const n = await this.ctx.db.models.Workshop.update({ retentionDays }, { where: { id: workshopId }, transaction });
-      if (n[0] === 0) throw errors.notFound('That workshop');
+      if (n[0] === 0) throw errors.notFound('workshop');
     });
     return this.status(workshopId);
   }
@@ -110,10 +110,10 @@ export class RetentionService {
     const { Workshop, LiveSession, Participant, Invitation } = this.ctx.db.models;
     const files = await this.ctx.db.writeTx(async (transaction) => {
       const w = await Workshop.findByPk(workshopId, { transaction });
-      if (!w) throw errors.notFound('That workshop');
+      if (!w) throw errors.notFound('workshop');
       const sessions = await LiveSession.findAll({ where: { workshopId }, order: [['startedAt', 'ASC']], transaction });
       if (sessions.some((s) => s.status === 'live')) {
-        throw new AppError(409, 'conflict', 'A live session is running; end it first, then delete the personal data');
+        throw errors.conflict('A live session is running; end it first, then delete the personal data', because('live_session_running'));
       }
       const sessionIds = sessions.map((s) => s.id);
       const order = new Map(sessionIds.map((id, i) => [id, i]));
@@ -198,7 +198,7 @@ export class RetentionService {
       if (!p || p.sessionId !== sessionId) throw errors.notInSession();
       // After "delete personal data" a participant's token still works for a while: it must not bring an address back.
       if (email !== null && p.deviceId.startsWith(ERASED_DEVICE_PREFIX)) {
-        throw new AppError(409, 'conflict', "This workshop's personal data has been deleted; Cairn keeps no addresses for it any more");
+        throw errors.conflict("This workshop's personal data has been deleted; Cairn keeps no addresses for it any more", because('data_deleted'));
       }
       p.email = email;
       await p.save({ transaction });

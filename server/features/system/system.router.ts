@@ -34,7 +34,7 @@ export function systemRoutes(routes: ApiRoutes, app: AppContext, meta: RouteMeta
     tag,
     access: access.global('admin'),
     handler: () => {
-      if (!app.mail.dev || app.config.nodeEnv === 'production') throw errors.notFound('The dev inbox');
+      if (!app.mail.dev || app.config.nodeEnv === 'production') throw errors.notFound('dev_inbox');
       return { messages: [...app.mail.dev.messages].reverse() };
     },
   });

@@ -1,6 +1,6 @@
 import crypto from 'node:crypto';
 import type { AppContext } from '../../context';
-import { errors } from '../../common/errors';
+import { because, errors } from '../../common/errors';
 import { liveRooms } from '../live/live.service';
 import { teamSizes } from '../../../shared/team-sort';
 import type { SetTeamsPayload, Team } from '../../../shared/schemas/team';
@@ -54,14 +54,14 @@ export class TeamsService {
     const seen = new Set<string>();
     for (const t of payload.teams) {
       for (const id of t.memberIds) {
-        if (seen.has(id)) throw errors.badRequest('A person can be in one team only');
+        if (seen.has(id)) throw errors.badRequest('A person can be in one team only', because('one_team_each'));
         seen.add(id);
       }
     }
     const known = new Set(
       (await Participant.findAll({ where: { sessionId }, attributes: ['id'] })).map((p) => p.id),
     );
-    if (![...seen].every((id) => known.has(id))) throw errors.badRequest('Every team member must have joined this session');
+    if (![...seen].every((id) => known.has(id))) throw errors.badRequest('Every team member must have joined this session', because('team_members_joined'));
     const oldIds = (await TeamModel.findAll({ where: { sessionId, retiredAt: null }, attributes: ['id'] })).map((t) => t.id);
     const made = payload.teams.map((t, position) => ({ id: crypto.randomUUID(), ...t, position }));
     await this.ctx.db.writeTx(async (transaction) => {

@@ -1,5 +1,5 @@
 import type { Database } from '../../db';
-import { errors } from '../../common/errors';
+import { because, errors } from '../../common/errors';
 import { createAccount } from '../../common/accounts';
 import type { AppSettings, CreateUserBody, UpdateUserBody } from '../../../shared/schemas/user';
 import type { UserRow } from '../../db/models';
@@ -24,9 +24,9 @@ export class UsersService {
   /** Changes an account's name, role or disabled state; an admin cannot lock themselves out. */
   async update(actor: UserRow, id: string, body: UpdateUserBody): Promise<UserRow> {
     const user = await this.db.models.User.findByPk(id);
-    if (!user) throw errors.notFound('That account');
+    if (!user) throw errors.notFound('account');
     if (user.id === actor.id && (body.disabled || (body.role && body.role !== 'admin'))) {
-      throw errors.badRequest('You cannot disable your own account or take away your own admin role');
+      throw errors.badRequest('You cannot disable your own account or take away your own admin role', because('own_account'));
     }
     if (body.name !== undefined) user.name = body.name;
     if (body.role !== undefined) user.role = body.role;

@@ -19,7 +19,7 @@ export class VoteSourcesService {
   async list(sessionId: string): Promise<VoteSources> {
     const { Submission, Vote, AgendaItem, LiveSession, Promotion } = this.ctx.db.models;
     const session = await LiveSession.findByPk(sessionId, { attributes: ['id', 'workshopId'] });
-    if (!session) throw errors.notFound('That live session');
+    if (!session) throw errors.notFound('live_session');
     const [promotions, notes, votes, items] = await Promise.all([
       Promotion.findAll({ where: { sessionId }, order: [['position', 'ASC']] }),
       Submission.findAll({

@@ -3,7 +3,7 @@ import fs from 'node:fs/promises';
 import { Op, QueryTypes, type Transaction } from 'sequelize';
 import type { Database } from '../../db';
 import type { AgendaItemRow, UserRow, WorkshopRow } from '../../db/models';
-import { errors } from '../../common/errors';
+import { because, errors } from '../../common/errors';
 import type { WorkshopAccessRole } from '../../common/access';
 import { instantiateTemplate, templateFill } from '../../../shared/templates';
 import { newAgendaItem, copyTitle } from '../../../shared/activities';
@@ -228,7 +228,7 @@ export class WorkshopsService {
       const rows = await this.db.models.AgendaItem.findAll({ where: { workshopId }, transaction });
       const known = new Set(rows.map((r) => r.id));
       if (ids.length !== rows.length || new Set(ids).size !== ids.length || !ids.every((id) => known.has(id))) {
-        throw errors.badRequest('The new order must list every item of the agenda exactly once');
+        throw errors.badRequest('The new order must list every item of the agenda exactly once', because('reorder_incomplete'));
       }
       const pos = new Map(ids.map((id, i) => [id, i]));
       for (const r of rows) {
@@ -250,13 +250,13 @@ export class WorkshopsService {
   /** The workshop row, or a not-found error. */
   async row(workshopId: string): Promise<WorkshopRow> {
     const w = await this.db.models.Workshop.findByPk(workshopId);
-    if (!w) throw errors.notFound('That workshop');
+    if (!w) throw errors.notFound('workshop');
     return w;
   }
 
   private async itemRow(workshopId: string, itemId: string): Promise<AgendaItemRow> {
     const row = await this.db.models.AgendaItem.findOne({ where: { id: itemId, workshopId } });
-    if (!row) throw errors.notFound('That agenda item');
+    if (!row) throw errors.notFound('item');
     return row;
   }
 
