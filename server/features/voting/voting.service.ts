@@ -2,7 +2,7 @@ import crypto from 'node:crypto';
 import { UniqueConstraintError, type Transaction } from 'sequelize';
 import type { AppContext } from '../../context';
 import type { LiveSessionRow, VoteRow } from '../../db/models';
-import { AppError, errors } from '../../common/errors';
+import { AppError, because, errors } from '../../common/errors';
 import { liveRooms, type LiveService } from '../live/live.service';
 import type { PresenceService } from '../live/presence.service';
 import { type BallotErrorCode, type Dot } from '../../../shared/tally';
@@ -145,13 +145,13 @@ export class VotingService {
     const options: VoteOption[] = payload.options.map((o) => {
       if ('text' in o) return { id: crypto.randomUUID(), text: o.text, submissionId: null };
       const text = noteText.get(o.submissionId);
-      if (text === undefined) throw errors.badRequest('One of the notes is not in this session, or it is hidden');
+      if (text === undefined) throw errors.badRequest('One of the notes is not in this session, or it is hidden', because('notes_not_votable'));
       return { id: crypto.randomUUID(), text: text.trim().slice(0, MAX_OPTION_TEXT), submissionId: o.submissionId };
     });
     const seen = new Set<string>();
     for (const o of options) {
       const key = o.text.toLowerCase().replace(/\s+/g, ' ');
-      if (seen.has(key)) throw errors.badRequest(`Two options read “${o.text}”; keep one`);
+      if (seen.has(key)) throw errors.badRequest(`Two options read “${o.text}”; keep one`, because('duplicate_option', { text: o.text }));
       seen.add(key);
     }
     const rules = parseRules(rulesFor(item, options.length, payload.rules ?? {}));
@@ -160,11 +160,11 @@ export class VotingService {
       await this.checkStillCurrent(sessionId, item.id, transaction);
       const existing = await Vote.findOne({ where: { sessionId, itemId: item.id }, transaction });
       if (existing) {
-        if (existing.status === 'open') throw errors.conflict('Close the vote before changing its options');
+        if (existing.status === 'open') throw errors.conflict('Close the vote before changing its options', because('options_while_open'));
         const cast =
           (await VoteDot.count({ where: { voteId: existing.id }, transaction })) +
           (await VoteRanking.count({ where: { voteId: existing.id }, transaction }));
-        if (cast > 0) throw errors.conflict('People have voted already, so the options stay as they are');
+        if (cast > 0) throw errors.conflict('People have voted already, so the options stay as they are', because('options_after_ballots'));
         existing.status = 'draft';
         setJson(existing, 'options', options);
         setJson(existing, 'rules', rules);
@@ -211,7 +211,7 @@ export class VotingService {
         // One look at the live state a dot: the gate, and the current item, which is the vote's item.
         const { refused, item } = await this.live.gateWithItem(sessionId);
         if (refused) return { refused };
-        if (!item || !(VoteKind.options as string[]).includes(item.type)) return { refused: errors.conflict('The current activity is not a vote') };
+        if (!item || !(VoteKind.options as string[]).includes(item.type)) return { refused: errors.conflict('The current activity is not a vote', because('not_a_vote')) };
         const vote = await this.ledgers.vote(sessionId, item.id, transaction);
         if (!vote) return { refused: new AppError(409, 'conflict', 'Voting has not opened yet', undefined, { reason: 'vote_not_open' }) };
         const ledger = await this.ledgers.ledger(vote.id, sessionId, transaction);
@@ -225,7 +225,7 @@ export class VotingService {
         if (vote.status === 'draft') return { refused: new AppError(409, 'conflict', 'Voting has not opened yet', undefined, { reason: 'vote_not_open' }) };
         if (vote.kind !== 'dot_vote') return { refused: errors.badRequest('This vote does not take that kind of ballot') };
         if (vote.status === 'closed') return { refused: new AppError(409, 'conflict', 'Voting has closed; your votes stay as they were', undefined, { reason: 'vote_closed' }) };
-        if (!vote.options.some((o) => o.id === payload.optionId)) return { refused: errors.badRequest('This vote has no such option') };
+        if (!vote.options.some((o) => o.id === payload.optionId)) return { refused: errors.badRequest('This vote has no such option', because('no_such_option')) };
         const change = { optionId: payload.optionId, criterionId: payload.criterionId, delta: payload.delta };
         const cast = castDot(vote.rules, mine, participantId, change);
         if (!cast.ok) return { refused: new AppError(BALLOT_ERROR[cast.code] === 'bad_request' ? 400 : 409, BALLOT_ERROR[cast.code], cast.message) };
@@ -246,7 +246,7 @@ export class VotingService {
     const { VoteRanking } = this.ctx.db.models;
     const { answer, applied } = await this.ballot(participantId, sessionId, payload.clientId, ['preference_vote', 'team_sort'], async (vote, transaction) => {
       const known = new Set(vote.options.map((o) => o.id));
-      if (!payload.ranking.every((id) => known.has(id))) throw errors.badRequest('This vote has no such option');
+      if (!payload.ranking.every((id) => known.has(id))) throw errors.badRequest('This vote has no such option', because('no_such_option'));
       if (new Set(payload.ranking).size !== payload.ranking.length) throw errors.badRequest('Each option can have one place only');
       const row = await VoteRanking.findOne({ where: { voteId: vote.id, participantId }, transaction });
       if (row) {
@@ -284,23 +284,23 @@ export class VotingService {
   async choose(sessionId: string, optionIds: string[]): Promise<VoteView> {
     const item = await this.currentVoteItem(sessionId);
     const row = await this.readyVote(sessionId, item.id);
-    if (row.kind === 'team_sort') throw errors.badRequest('A team sort forms teams; confirm them instead');
-    if (row.status !== 'closed') throw errors.conflict('Close the vote before carrying options forward');
+    if (row.kind === 'team_sort') throw errors.badRequest('A team sort forms teams; confirm them instead', because('team_sort_confirm'));
+    if (row.status !== 'closed') throw errors.conflict('Close the vote before carrying options forward', because('close_vote_first'));
     const results = await this.tally.resultsOf(row, item.title, VoteTally.online(await this.presence.participants(sessionId)));
-    if (results.kind === 'team_sort') throw errors.badRequest('A team sort forms teams; confirm them instead');
+    if (results.kind === 'team_sort') throw errors.badRequest('A team sort forms teams; confirm them instead', because('team_sort_confirm'));
     const { selected, tiedAtCutoff } = results.top;
     const n = row.rules.topN;
-    if (new Set(optionIds).size !== optionIds.length) throw errors.badRequest('Pick each option once');
-    if (optionIds.length !== Math.min(n, row.options.length)) throw errors.badRequest(`Pick ${n} options`);
-    if (!selected.every((id) => optionIds.includes(id))) throw errors.badRequest('Keep every option ranked inside the top N');
+    if (new Set(optionIds).size !== optionIds.length) throw errors.badRequest('Pick each option once', because('pick_each_once'));
+    if (optionIds.length !== Math.min(n, row.options.length)) throw errors.badRequest(`Pick ${n} options`, because('pick_n_options', { n }));
+    if (!selected.every((id) => optionIds.includes(id))) throw errors.badRequest('Keep every option ranked inside the top N', because('keep_top_n'));
     if (!optionIds.every((id) => selected.includes(id) || tiedAtCutoff.includes(id))) {
-      throw errors.badRequest('Only options tied at the cut-off can be picked besides the top N');
+      throw errors.badRequest('Only options tied at the cut-off can be picked besides the top N', because('only_ties_extra'));
     }
     const saved = await this.ctx.db.writeTx(async (transaction) => {
       this.ledgers.forget();
       const fresh = await this.ctx.db.models.Vote.findByPk(row.id, { transaction });
-      if (!fresh) throw errors.notFound('That vote');
-      if (fresh.status !== 'closed') throw errors.conflict('Close the vote before carrying options forward');
+      if (!fresh) throw errors.notFound('vote');
+      if (fresh.status !== 'closed') throw errors.conflict('Close the vote before carrying options forward', because('close_vote_first'));
       // In the order of the ranking, so later activities list the winners first.
       const order = [...selected, ...tiedAtCutoff];
       setJson(fresh, 'chosen', [...optionIds].sort((a, b) => order.indexOf(a) - order.indexOf(b)));
@@ -320,18 +320,18 @@ export class VotingService {
     const { VoteRanking, Vote } = this.ctx.db.models;
     const item = await this.currentVoteItem(sessionId);
     const row = await this.readyVote(sessionId, item.id);
-    if (row.kind !== 'team_sort') throw errors.badRequest('Only a team sort forms teams');
+    if (row.kind !== 'team_sort') throw errors.badRequest('Only a team sort forms teams', because('only_team_sort'));
     const [rankings, people] = await Promise.all([
       VoteRanking.findAll({ where: { voteId: row.id } }),
       this.presence.participants(sessionId),
     ]);
     const rankingOf = new Map(rankings.map((r) => [r.participantId, r.ranking]));
     const placed = people.filter((p) => p.online || rankingOf.has(p.id));
-    if (placed.length === 0) throw errors.conflict('Nobody is in the room to sort into teams yet');
+    if (placed.length === 0) throw errors.conflict('Nobody is in the room to sort into teams yet', because('nobody_to_sort'));
     const optionIds = row.options.map((o) => o.id);
     const { maxTeamSize } = given;
     if (maxTeamSize !== undefined && maxTeamSize * optionIds.length < placed.length) {
-      throw errors.badRequest(`${placed.length} people do not fit in ${optionIds.length} teams of at most ${maxTeamSize}`);
+      throw errors.badRequest(`${placed.length} people do not fit in ${optionIds.length} teams of at most ${maxTeamSize}`, because('teams_too_small', { people: placed.length, teams: optionIds.length, size: maxTeamSize }));
     }
     const result = sortIntoTeams(
       placed.map((p) => ({ id: p.id, ranking: rankingOf.get(p.id) ?? [] })),
@@ -353,7 +353,7 @@ export class VotingService {
     await this.ctx.db.writeTx(async (transaction) => {
       this.ledgers.forget();
       const fresh = await Vote.findByPk(row.id, { transaction });
-      if (!fresh) throw errors.notFound('That vote');
+      if (!fresh) throw errors.notFound('vote');
       setJson(fresh, 'proposal', proposal);
       await fresh.save({ transaction });
     });
@@ -369,12 +369,12 @@ export class VotingService {
     if (!this.teamSetter) throw new Error('confirmTeams needs useTeams first');
     const item = await this.currentVoteItem(sessionId);
     const row = await this.readyVote(sessionId, item.id);
-    if (row.kind !== 'team_sort') throw errors.badRequest('Only a team sort confirms teams');
+    if (row.kind !== 'team_sort') throw errors.badRequest('Only a team sort confirms teams', because('only_team_sort'));
     const teams = await this.teamSetter.set(sessionId, payload);
     const saved = await this.ctx.db.writeTx(async (transaction) => {
       this.ledgers.forget();
       const fresh = await this.ctx.db.models.Vote.findByPk(row.id, { transaction });
-      if (!fresh) throw errors.notFound('That vote');
+      if (!fresh) throw errors.notFound('vote');
       fresh.status = 'closed';
       setJson(fresh, 'chosen', fresh.options.map((o) => o.id));
       await fresh.save({ transaction });
@@ -415,23 +415,23 @@ export class VotingService {
   private async currentVoteItem(sessionId: string): Promise<VoteItem> {
     const state = await this.live.state(sessionId);
     const item = state.item;
-    if (!item || !VoteKind.safeParse(item.type).success) throw errors.conflict('The current activity is not a vote');
+    if (!item || !VoteKind.safeParse(item.type).success) throw errors.conflict('The current activity is not a vote', because('not_a_vote'));
     return item as VoteItem;
   }
 
   /** The vote of an item once set up. */
   private async readyVote(sessionId: string, itemId: string): Promise<VoteRow> {
     const row = await this.ctx.db.models.Vote.findOne({ where: { sessionId, itemId } });
-    if (!row) throw errors.conflict('Set the vote up first: choose its options');
+    if (!row) throw errors.conflict('Set the vote up first: choose its options', because('vote_needs_options'));
     return row;
   }
 
   /** Inside a write: the session is live and the item is still the one running, so nobody votes on an activity the room has left. */
   private async checkStillCurrent(sessionId: string, itemId: string, transaction: Transaction): Promise<LiveSessionRow> {
     const s = await this.ctx.db.models.LiveSession.findByPk(sessionId, { transaction });
-    if (!s) throw errors.notFound('That live session');
+    if (!s) throw errors.notFound('live_session');
     if (s.status === 'ended') throw errors.sessionEnded();
-    if (runningItemId(s.runs) !== itemId) throw errors.conflict('That activity is not the current one any more; nothing was changed');
+    if (runningItemId(s.runs) !== itemId) throw errors.conflict('That activity is not the current one any more; nothing was changed', because('activity_moved_on'));
     return s;
   }
 
@@ -441,9 +441,9 @@ export class VotingService {
       this.ledgers.forget();
       await this.checkStillCurrent(sessionId, item.id, transaction);
       const vote = await this.ctx.db.models.Vote.findOne({ where: { sessionId, itemId: item.id }, transaction });
-      if (!vote) throw errors.conflict('Set the vote up first: choose its options');
+      if (!vote) throw errors.conflict('Set the vote up first: choose its options', because('vote_needs_options'));
       if (vote.status === status) return { row: vote, changed: false };
-      if (status === 'closed' && vote.status === 'draft') throw errors.conflict('The vote has not opened yet');
+      if (status === 'closed' && vote.status === 'draft') throw errors.conflict('The vote has not opened yet', because('vote_not_opened'));
       vote.status = status;
       // Reopening makes the carried-forward choice stale: the votes may still move.
       if (status === 'open') setJson(vote, 'chosen', null);
