@@ -4,6 +4,9 @@ import { quasar, transformAssetUrls } from '@quasar/vite-plugin';
 import { compression } from 'vite-plugin-compression2';
 import { VitePWA } from 'vite-plugin-pwa';
 import { baseCompile } from '@intlify/message-compiler';
+import fs from 'node:fs';
+import path from 'node:path';
+import zlib from 'node:zlib';
 import type { Plugin } from 'vite';
 import { LIGHT, cssVariables } from './src/theme/palette';
 
@@ -40,6 +43,60 @@ function paletteInHtml(): Plugin {
         if (!colour) throw new Error(`index.html names ${token}, which is not in src/theme/palette.ts`);
         return colour;
       }),
+  };
+}
+
+/**
+ * Writes an HTML shell of its own for each phone route (`route-shells/<name>.html`): the shell with
+ * `modulepreload` links for the route's page and every file it imports beyond the first script (and
+ * `preload` links for their styles), so a phone fetches them beside the first script instead of after
+ * that script has run: one round trip and one script's run less before the first screen. The server
+ * sends them for the routes' paths (server/common/client-assets.ts); every other path gets index.html.
+ */
+function routeShells(pages: Record<string, string>): Plugin {
+  return {
+    name: 'cairn-route-shells',
+    apply: 'build',
+    generateBundle: {
+      // After Vite has put index.html in the bundle.
+      order: 'post',
+      handler(_options, bundle) {
+        const html = bundle['index.html'];
+        const chunks = Object.values(bundle).flatMap((c) => (c.type === 'chunk' ? [c] : []));
+        const entry = chunks.find((c) => c.isEntry);
+        if (html?.type !== 'asset' || !entry) return this.error('cairn-route-shells: no index.html or entry chunk in the bundle');
+        const inEntry = new Set([entry.fileName, ...entry.imports]);
+        for (const [name, page] of Object.entries(pages)) {
+          const chunk = chunks.find((c) => c.facadeModuleId?.endsWith(page));
+          if (!chunk) return this.error(`cairn-route-shells: no chunk for ${page}`);
+          const scripts = new Set<string>();
+          const styles = new Set<string>();
+          const walk = (file: string): void => {
+            const c = bundle[file];
+            if (inEntry.has(file) || scripts.has(file) || c?.type !== 'chunk') return;
+            scripts.add(file);
+            c.viteMetadata?.importedCss.forEach((f) => styles.add(f));
+            c.imports.forEach(walk);
+          };
+          walk(chunk.fileName);
+          const links = [
+            ...[...scripts].map((f) => `<link rel="modulepreload" crossorigin href="/${f}">`),
+            ...[...styles].map((f) => `<link rel="preload" as="style" href="/${f}">`),
+          ].join('\n    ');
+          const source = String(html.source).replace('</head>', `  ${links}\n  </head>`);
+          this.emitFile({ type: 'asset', fileName: `route-shells/${name}.html`, source });
+        }
+      },
+    },
+    // The compression plugin has read the bundle before these were added: their brotli and gzip copies are made here.
+    writeBundle(options, bundle) {
+      for (const file of Object.keys(bundle).filter((f) => f.startsWith('route-shells/'))) {
+        const full = path.join(options.dir!, file);
+        const text = fs.readFileSync(full);
+        fs.writeFileSync(`${full}.br`, zlib.brotliCompressSync(text));
+        fs.writeFileSync(`${full}.gz`, zlib.gzipSync(text, { level: 9 }));
+      }
+    },
   };
 }
 
@@ -128,6 +185,7 @@ export default defineConfig({
     }),
     // The regular weight sets every screen's body text, the phone's prompt and the join form included.
     preloadFont(/source-sans-3-latin-400-normal-[^/]*\.woff2$/),
+    routeShells({ join: '/src/pages/join.vue', phone: '/src/pages/phone.vue' }),
     // Brotli and gzip copies beside each text asset, served as they are by express-static-gzip (server/app.ts).
     compression({ algorithms: ['brotliCompress', 'gzip'], include: /\.(js|mjs|css|html|svg|json|webmanifest|txt)$/, threshold: 512 }),
   ],

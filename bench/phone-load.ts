@@ -31,6 +31,8 @@ const JSON_FILE = arg('json', path.join('bench', 'results', 'phone-load.json'));
 const RUNS = Number(arg('runs', '3'));
 const WITH_LIGHTHOUSE = !args.includes('--no-lighthouse');
 const WITH_LAST_SEEN = !args.includes('--no-last-seen');
+/** `--lhr DIR`: also keep each route's whole Lighthouse report there (what ran on the main thread, the request chains). */
+const LHR_DIR = arg('lhr', '');
 const CHROME = process.env.CHROME_PATH ?? '/usr/bin/chromium';
 /** Lighthouse's mobile preset (lighthouse core/config/constants.js, `throttling.mobileSlow4G`): 150 ms, 1,638.4 kbit/s, 4× CPU. */
 const PHONE = { rttMs: 150, downKbps: 1638.4, upKbps: 750, cpuSlowdown: 4 };
@@ -109,7 +111,7 @@ function lcpElementOf(details: unknown): string {
 }
 
 /** Lighthouse's mobile run on `url` (its default config), with `storage` put in localStorage first. */
-async function audit(url: string, storage: Record<string, string>) {
+async function audit(url: string, storage: Record<string, string>, name: string) {
   const chrome = await chromeLauncher.launch({ chromePath: CHROME, chromeFlags: CHROMIUM_FLAGS });
   try {
     // Lighthouse resets storage before it loads a page; the joined phone needs its token, so the
@@ -133,6 +135,10 @@ async function audit(url: string, storage: Record<string, string>) {
       onlyCategories: ['performance', 'accessibility', 'best-practices'],
     });
     const lhr = result!.lhr;
+    if (LHR_DIR) {
+      fs.mkdirSync(LHR_DIR, { recursive: true });
+      fs.writeFileSync(path.join(LHR_DIR, `${name.replace(/[^a-z0-9]+/gi, '-').replace(/^-|-$/g, '')}.json`), JSON.stringify(lhr));
+    }
     const failing = (cat: string) =>
       lhr.categories[cat]!.auditRefs
         .filter((r) => r.weight > 0 && (lhr.audits[r.id]!.score ?? 1) < 1)
@@ -222,7 +228,7 @@ async function main(): Promise<void> {
       for (let i = 0; i < RUNS; i++) loads.push(await loadOnce(browser, route.url, route.ready, route.storage));
       const last = loads[loads.length - 1]!;
       const lh = WITH_LIGHTHOUSE && (route.name === '/join' || route.name === 'phone (welcome)' || route.name === 'phone (dot vote)')
-        ? await audit(route.url, route.storage)
+        ? await audit(route.url, route.storage, route.name)
         : null;
       const row = {
         route: route.name,

@@ -1,3 +1,4 @@
+import fs from 'node:fs';
 import path from 'node:path';
 import type express from 'express';
 import expressStaticGzip from 'express-static-gzip';
@@ -48,16 +49,35 @@ export function hashedAssets(distDir: string): express.RequestHandler {
 }
 
 /**
+ * The phone routes' own HTML shells (written by the build's `routeShells` in vite.config.ts): the shell
+ * with the route's page and its files preloaded. `/phone/<session>/my-data` and every other path get index.html.
+ */
+const ROUTE_SHELLS: readonly { path: RegExp; file: string }[] = [
+  { path: /^\/join(?:\/[^/]+)?\/?$/, file: 'route-shells/join.html' },
+  { path: /^\/phone\/[^/]+\/?$/, file: 'route-shells/phone.html' },
+];
+
+/**
+ * The HTML shell for a path: a phone route's own shell when the build wrote it, else index.html.
+ * @example shellFor('/phone/3f2a…', ['route-shells/phone.html']) // '/route-shells/phone.html'
+ */
+export function shellFor(pathname: string, built: readonly string[]): string {
+  const shell = ROUTE_SHELLS.find((s) => s.path.test(pathname) && built.includes(s.file));
+  return `/${shell?.file ?? 'index.html'}`;
+}
+
+/**
  * Serves the rest of the built client from `distDir` with {@link cacheControlOf}'s caching, and the
  * HTML shell for every other path outside `/api`, `/socket.io` and `/assets` (the router is the client's).
  */
 export function serveClient(app: express.Express, distDir: string): void {
   const files = clientFiles(distDir);
+  const built = ROUTE_SHELLS.map((s) => s.file).filter((f) => fs.existsSync(path.join(distDir, f)));
   app.use(files);
   // A missing hashed file stays a 404: answering it with the shell would hand a page HTML for a script.
   app.get(/^\/(?!api\/|socket\.io\/|assets\/).*/, (req, res, next) => {
     // The shell goes through the same middleware, so it too is sent pre-compressed.
-    req.url = '/index.html';
+    req.url = shellFor(req.path, built);
     files(req, res, next);
   });
 }

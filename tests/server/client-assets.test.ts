@@ -5,10 +5,11 @@ import zlib from 'node:zlib';
 import express from 'express';
 import supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { cacheControlOf, hashedAssets, serveClient } from '../../server/common/client-assets';
+import { cacheControlOf, hashedAssets, serveClient, shellFor } from '../../server/common/client-assets';
 import { startTestApp, type TestApp } from './helpers';
 
 const SHELL = '<!doctype html><title>Cairn</title><div id="app"></div>' + ' '.repeat(600);
+const PHONE_SHELL = SHELL.replace('</title>', '</title><link rel="modulepreload" href="/assets/phone-Xy.js">');
 const SCRIPT = `console.log(${JSON.stringify('a phone script '.repeat(100))});`;
 let dist: string;
 let agent: supertest.Agent;
@@ -17,7 +18,9 @@ beforeAll(async () => {
   // A built client as vite-plugin-compression2 leaves it: each file with its .br and .gz beside it.
   dist = await fs.mkdtemp(path.join(os.tmpdir(), 'cairn-dist-'));
   await fs.mkdir(path.join(dist, 'assets'));
-  for (const [name, text] of [['index.html', SHELL], ['assets/index-AbC123.js', SCRIPT]] as const) {
+  await fs.mkdir(path.join(dist, 'route-shells'));
+  // The phone page's own shell; this build has none for /join, which then gets index.html.
+  for (const [name, text] of [['index.html', SHELL], ['assets/index-AbC123.js', SCRIPT], ['route-shells/phone.html', PHONE_SHELL]] as const) {
     await fs.writeFile(path.join(dist, name), text);
     await fs.writeFile(path.join(dist, `${name}.br`), zlib.brotliCompressSync(text));
     await fs.writeFile(path.join(dist, `${name}.gz`), zlib.gzipSync(text));
@@ -55,6 +58,17 @@ describe('the built client', () => {
     expect(shell.headers['content-encoding']).toBe('br');
     expect(shell.headers['cache-control']).toBe('no-cache');
     expect(cacheControlOf('sw.js')).toBe('no-cache');
+  });
+
+  it("sends the phone page its own shell (its files preloaded), and index.html to every other path and to a route whose shell was not built", async () => {
+    for (const url of ['/phone/5b0c', '/phone/5b0c/', '/phone/5b0c?here=1']) expect((await agent.get(url)).text, url).toBe(PHONE_SHELL);
+    for (const url of ['/phone/5b0c/my-data', '/join/ABC123', '/join', '/workshops', '/']) expect((await agent.get(url)).text, url).toBe(SHELL);
+    const br = await agent.get('/phone/5b0c').set('Accept-Encoding', 'br');
+    expect(br.headers['content-encoding']).toBe('br');
+    expect(br.headers['cache-control']).toBe('no-cache');
+    expect(shellFor('/join/ABC123', ['route-shells/join.html'])).toBe('/route-shells/join.html');
+    expect(shellFor('/join', ['route-shells/join.html'])).toBe('/route-shells/join.html');
+    expect(shellFor('/joined', ['route-shells/join.html'])).toBe('/index.html');
   });
 
   it('leaves the API, socket.io and missing assets alone instead of answering them with the shell', async () => {
