@@ -353,6 +353,9 @@ test('every screen fits the longest content at every device size: projector, con
         return out;
       };
       const top = await onScreen();
+      // The drift line reads as words: "12 min behind plan · projected end 15:07", no word run into the dot.
+      const drift = consolePage.getByTestId('drift').first();
+      if ((await drift.count()) && /\S·/.test(await drift.innerText())) fail.push(`${name}: words run together in the drift line: ${await drift.innerText()}`);
       await snap(consolePage, name);
       await consolePage.evaluate(() => window.scrollTo(0, document.documentElement.scrollHeight));
       await settle(consolePage);
@@ -513,6 +516,14 @@ test('every screen fits the longest content at every device size: projector, con
       const vote = await cmd<{ options: { id: string }[] }>(ownerSock, 'vote:setup', { options, rules });
       await cmd(ownerSock, 'vote:open');
       await checkPhone(`${t}-ballot`);
+      // An option reads at the same size on both ballots, not in the phone's smaller body text.
+      const optionPx = await phone.evaluate((item) => {
+        const sizes = [...document.querySelectorAll(`[data-test="${item}"] *`)]
+          .filter((e) => [...e.childNodes].some((n) => n.nodeType === Node.TEXT_NODE && (n.textContent ?? '').includes('Option')))
+          .map((e) => parseFloat(getComputedStyle(e).fontSize));
+        return sizes.length ? Math.min(...sizes) : 0;
+      }, t === 'dot_vote' ? 'dot-option' : 'rank-item');
+      if (optionPx < 16) fail.push(`phone ${t}: options in ${optionPx} px text (at least 16)`);
       if (t === 'dot_vote') {
         // The dots-left counter stays in view while the ballot scrolls.
         await phone.setViewportSize(PHONES[0]!);
