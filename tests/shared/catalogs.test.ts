@@ -101,12 +101,15 @@ describe('languages', () => {
   it('writes the participant e-mail in their language, with the date as that language writes it', () => {
     const mail = participantMail('de', { title: 'Erste Fahrt', date: '2027-04-15', retentionDays: 30 }, null);
     // German long date format (CLDR de, dateFormats long): "15. April 2027".
-    expect(mail.subject).toBe('Bericht zum Workshop “Erste Fahrt” (15. April 2027)');
+    // German quotation marks open low and close high (Duden, Anführungszeichen): „…“.
+    expect(mail.subject).toBe('Bericht zum Workshop „Erste Fahrt“ (15. April 2027)');
     expect(mail.text).toMatch(/^Hallo,\n/);
     expect(mail.text).toContain('30 Tage nach dem Workshop gelöscht');
     const es = participantMail('es', { title: 'Primer viaje', date: '2027-04-15', retentionDays: null }, { from: 'Mira', text: 'Gracias.' });
     // Spanish long date format (CLDR es, dateFormats long): "15 de abril de 2027".
     expect(es.subject).toContain('15 de abril de 2027');
+    // Spanish prefers angle quotation marks (RAE, Ortografía 2010, comillas): «…».
+    expect(es.subject).toBe('Informe del taller «Primer viaje» (15 de abril de 2027)');
     expect(es.text).toContain('Mira añade:\n\nGracias.');
     expect(participantMail('en', { title: 'First ride', date: '2027-04-15', retentionDays: 0 }, null).text).toMatch(/^Hello,\n\nYou asked/);
   });

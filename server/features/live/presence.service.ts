@@ -224,7 +224,7 @@ export class PresenceService {
     // A prepared read: every phone of a room looks its code up once or twice within a minute.
     const [row] = await this.ctx.db.read<{ id: string; workshopId: string; status: string }>('SELECT id, workshopId, status FROM live_sessions WHERE joinCode = ?', [code]);
     if (!row) {
-      throw new AppError(404, 'not_found', `No live session has the code ${code}; check the code on the projector`, undefined, { reason: 'join_code_unknown', params: { code } });
+      throw new AppError(404, 'not_found', `No live session has the code ${code}; check the code on the room’s screen`, undefined, { reason: 'join_code_unknown', params: { code } });
     }
     if (row.status !== 'live') throw new AppError(404, 'not_found', 'That live session has ended', undefined, { reason: 'join_ended' });
     return row;

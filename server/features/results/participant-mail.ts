@@ -7,6 +7,7 @@ import type { Locale } from '../../../shared/locales';
 export const PARTICIPANT_MAIL: Readonly<Record<Locale, Readonly<Record<string, string>>>> = {
   en: {
     subject: 'Report of the workshop {title}',
+    quoted: '“{title}” ({date})',
     greeting: 'Hello,',
     attached: 'You asked for the report of the workshop {title}. It is attached as a PDF, without the names of participants.',
     adds: '{name} adds:',
@@ -17,6 +18,7 @@ export const PARTICIPANT_MAIL: Readonly<Record<Locale, Readonly<Record<string, s
   },
   de: {
     subject: 'Bericht zum Workshop {title}',
+    quoted: '„{title}“ ({date})',
     greeting: 'Hallo,',
     attached: 'Sie wollten den Bericht zum Workshop {title} haben. Er hängt als PDF an, ohne die Namen der Teilnehmenden.',
     adds: '{name} schreibt dazu:',
@@ -27,6 +29,7 @@ export const PARTICIPANT_MAIL: Readonly<Record<Locale, Readonly<Record<string, s
   },
   es: {
     subject: 'Informe del taller {title}',
+    quoted: '«{title}» ({date})',
     greeting: 'Hola:',
     attached: 'Pediste el informe del taller {title}. Va adjunto en PDF, sin los nombres de las personas participantes.',
     adds: '{name} añade:',
@@ -56,7 +59,8 @@ export function participantMail(
   const day = /^\d{4}-\d{2}-\d{2}$/.test(workshop.date)
     ? new Intl.DateTimeFormat(locale, { dateStyle: 'long', timeZone: 'UTC' }).format(new Date(`${workshop.date}T00:00:00Z`))
     : workshop.date;
-  const title = `“${workshop.title}” (${day})`;
+  // Each language quotes a title its own way: “…” in English, „…“ in German, «…» in Spanish.
+  const title = fill(words.quoted!, { title: workshop.title, date: day });
   const days = workshop.retentionDays;
   const promise = days === null ? words.keep! : days === 0 ? words.deleteSoon! : fill(words.deleteAfter!, { days: new Intl.NumberFormat(locale).format(days) });
   const lines = [words.greeting!, '', fill(words.attached!, { title }), ''];
