@@ -273,6 +273,9 @@ test('every screen fits the longest content at every device size: projector, con
         }),
       );
       if (new Set(edges).size !== 1) fail.push(`${name}: the buttons do not line up with the fields (${edges.join(', ')})`);
+      // The join form fits every phone: a short screen does not scroll.
+      const tall = await phone.evaluate(() => document.documentElement.scrollHeight);
+      if (tall > size.height + 1) fail.push(`${name}: the join form scrolls (${tall} px tall)`);
       await snap(phone, name);
     }
   };
