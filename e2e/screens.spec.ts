@@ -563,6 +563,14 @@ test('every screen fits the longest content at every device size: projector, con
       await cmd(ownerSock, 'session:reveal', { revealed: true });
       if (t === 'dot_vote' || t === 'preference_vote') await expect(projector.getByTestId('projector-results')).toBeVisible();
       await checkProjector(`${t}-results`);
+      if (t === 'preference_vote') {
+        // A shared first place of long options is counted, not quoted in full ahead of the ranking.
+        const shared = projector.getByTestId('shared-first');
+        if (await shared.count()) {
+          const text = (await shared.first().textContent()) ?? '';
+          if (text.length > 200) fail.push(`projector: the shared-first sentence runs to ${text.length} characters`);
+        }
+      }
       if (t === 'insights') await stepPages();
       await cmd(ownerSock, 'session:reveal', { revealed: false });
     }
