@@ -88,6 +88,8 @@ export default tseslint.config(
       'src/components/activities/RoundsPanel.vue',
       'src/components/activities/TeamsPanel.vue',
       'src/components/activities/TeamSizeWarnings.vue',
+      'src/components/plan/NewWorkshopDialog.vue',
+      'src/components/plan/DateField.vue',
       'src/components/voting/VoteConsole.vue',
       'src/components/voting/VoteSetup.vue',
       'src/components/voting/CarryForward.vue',

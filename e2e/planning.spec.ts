@@ -16,8 +16,8 @@ test('planning a client afternoon: template times, fields aligned, activities ad
   // The New workshop dialog: both templates say their clock times; the date field lines up with the title field.
   await page.getByTestId('new-workshop').click();
   const dialog = page.getByRole('dialog', { name: 'New workshop' });
-  await expect(dialog.getByRole('radio', { name: /full day \(10:00–16:00\)/ })).toBeVisible();
-  await expect(dialog.getByRole('radio', { name: /half day \(13:00–17:00\)/ })).toBeVisible();
+  await expect(dialog.getByRole('radio', { name: /full-day template \(10:00–16:00\)/ })).toBeVisible();
+  await expect(dialog.getByRole('radio', { name: /half-day template \(13:00–17:00\)/ })).toBeVisible();
   // Polled: the dialog slides in, and every box moves until it has. The date field's outline and the template
   // radios' circles line up with the title field's outline.
   const leftEdges = async () =>
@@ -31,7 +31,7 @@ test('planning a client afternoon: template times, fields aligned, activities ad
   await shot(page, 'planning-new-workshop-1280x800');
   await page.getByLabel('Title').fill(TITLE);
   await page.getByLabel('Objective: what should the organisation learn or improve?').fill('Find out what keeps members from fixing their own bikes.');
-  await dialog.getByRole('radio', { name: /half day/ }).click();
+  await dialog.getByRole('radio', { name: /half-day template/ }).click();
   await page.getByTestId('create-workshop').click();
   await expect(page.getByTestId('workshop-title')).toHaveText(TITLE);
   await expect(page.getByTestId('agenda-item').first().getByTestId('item-time')).toContainText('13:00');
