@@ -131,6 +131,9 @@ test('the live console, projector and phone through a vote, and the results, pas
   await setup.getByLabel('Carry forward (top N)').fill('2');
   await scan(page, 'console-vote-setup');
   await setup.getByTestId('save-vote').click();
+  // The save ends in the vote's controls or in a problem said beside the button; name which, rather than wait out the test.
+  await expect(page.getByTestId('open-vote').or(setup.getByTestId('save-vote-problem'))).toBeVisible({ timeout: 30_000 });
+  await expect(setup.getByTestId('save-vote-problem'), 'the vote was not saved').toHaveCount(0);
   await page.getByTestId('open-vote').click();
   await expect(phone.getByTestId('dot-option')).toHaveCount(3);
   await phone.getByTestId('dot-option').filter({ hasText: OPTIONS[1]! }).getByTestId('dot-add').click();
