@@ -95,13 +95,20 @@ export async function rehearseOwnWorkshop(request: APIRequestContext, baseURL: s
   return { auth, workshopId, live, facilitator };
 }
 
-/** A small PNG made here: a sketch sheet of eight boxes on white. */
-export function sketchPng(): Buffer {
-  const png = new PNG({ width: 160, height: 80 });
-  for (let y = 0; y < 80; y++) {
-    for (let x = 0; x < 160; x++) {
-      const line = x % 40 < 2 || y % 40 < 2;
-      const i = (y * 160 + x) * 4;
+/**
+ * A small PNG made here: a sketch sheet of eight boxes on white, `scale` times the 160×80 sheet (its box
+ * lines 2 px wide at scale 1, 3 px at scale 2).
+ */
+export function sketchPng(scale = 1): Buffer {
+  const width = 160 * scale;
+  const height = 80 * scale;
+  const box = 40 * scale;
+  const lineWidth = scale === 1 ? 2 : 3;
+  const png = new PNG({ width, height });
+  for (let y = 0; y < height; y++) {
+    for (let x = 0; x < width; x++) {
+      const line = x % box < lineWidth || y % box < lineWidth;
+      const i = (y * width + x) * 4;
       png.data[i] = png.data[i + 1] = png.data[i + 2] = line ? 30 : 250;
       png.data[i + 3] = 255;
     }

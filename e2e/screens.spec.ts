@@ -1,9 +1,8 @@
 import { test, expect, type APIRequestContext, type Page } from '@playwright/test';
 import { io, type Socket } from 'socket.io-client';
-import { PNG } from 'pngjs';
 import fs from 'node:fs';
 import path from 'node:path';
-import { DEMO } from './fixtures';
+import { DEMO, sketchPng } from './fixtures';
 
 /*
  * Every screen of the room with the longest content Cairn accepts, at the sizes a real room
@@ -69,19 +68,6 @@ function connect(baseURL: string, token: string): Promise<Sock> {
   });
 }
 
-/** A small PNG made here: a sketch sheet of eight boxes on white. */
-function sketchPng(): Buffer {
-  const png = new PNG({ width: 320, height: 160 });
-  for (let y = 0; y < 160; y++) {
-    for (let x = 0; x < 320; x++) {
-      const line = x % 80 < 3 || y % 80 < 3;
-      const i = (y * 320 + x) * 4;
-      png.data[i] = png.data[i + 1] = png.data[i + 2] = line ? 30 : 250;
-      png.data[i + 3] = 255;
-    }
-  }
-  return PNG.sync.write(png);
-}
 
 interface Problems {
   crossing: string[];
@@ -500,7 +486,7 @@ test('every screen fits the longest content at every device size: projector, con
         const res = await request.post('/api/live/photos', {
           headers: { Authorization: `Bearer ${phones[k]!.token}` },
           multipart: {
-            photo: { name: 'sketch.png', mimeType: 'image/png', buffer: sketchPng() },
+            photo: { name: 'sketch.png', mimeType: 'image/png', buffer: sketchPng(2) },
             itemId: item.id,
             clientId: `screens-photo-${k}-${Date.now()}`,
             caption: fill('Eight ideas for finding a free dock, sketched in eight minutes by the harbour team', 140),
