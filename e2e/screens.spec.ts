@@ -134,11 +134,15 @@ async function problems(page: Page, screen: 'projector' | 'console' | 'phone', m
           if (sideways || vertical) out.crossing.push(`${name(el)} at ${Math.round(r.left)},${Math.round(r.top)}–${Math.round(r.right)},${Math.round(r.bottom)}`);
         }
         const hasText = Array.from(el.childNodes).some((n) => n.nodeType === Node.TEXT_NODE && (n.textContent ?? '').trim());
-        if (hasText) {
+        // Text shortened on purpose (an ellipsis) that keeps its whole self in its title is not cut.
+        const whole = el.getAttribute('title') === (el.textContent ?? '').trim();
+        if (hasText && !whole) {
           const he = el as HTMLElement;
           const cuts = cs.overflowX !== 'visible' || cs.textOverflow === 'ellipsis';
           if (cuts && he.scrollWidth > he.clientWidth + 1) out.clipped.push(`${name(el)} ${he.scrollWidth} > ${he.clientWidth}`);
           if ((cs.overflowY === 'hidden' || cs.overflowY === 'clip') && he.scrollHeight > he.clientHeight + 2) out.clipped.push(`${name(el)} height ${he.scrollHeight} > ${he.clientHeight}`);
+        }
+        if (hasText) {
           const size = parseFloat(cs.fontSize);
           out.minTextPx = Math.min(out.minTextPx, size);
           if (size + 0.01 < minTextPx) out.smallText.push(`${name(el)} ${size.toFixed(1)} px`);
@@ -157,6 +161,32 @@ async function problems(page: Page, screen: 'projector' | 'console' | 'phone', m
     },
     { screen, minTextPx, minTarget: MIN_TARGET },
   );
+}
+
+/**
+ * Where a dot vote's criteria legend does not read as the key to the results: it leaves the screen, overlaps the
+ * results (the rows of marks, what is carried forward), or sits anywhere but above all of them that are on the
+ * screen. Each as a line of words, none when it reads clearly.
+ */
+async function legendProblems(page: Page): Promise<string[]> {
+  return page.evaluate(() => {
+    const legend = document.querySelector('[data-test="criteria-legend"]');
+    if (!legend) return ['no criteria legend'];
+    const l = legend.getBoundingClientRect();
+    const out: string[] = [];
+    if (l.top < -1 || l.left < -1 || l.bottom > window.innerHeight + 1 || l.right > document.documentElement.clientWidth + 1) out.push('the legend leaves the screen');
+    for (const el of document.querySelectorAll('[data-test="dot-row"], [data-test="projector-chosen"] li, [data-test="tally-row"]')) {
+      for (const r of Array.from(el.getClientRects())) {
+        const what = `"${(el.textContent ?? '').trim().slice(0, 30)}"`;
+        const overlaps = r.left < l.right - 1 && l.left < r.right - 1 && r.top < l.bottom - 1 && l.top < r.bottom - 1;
+        // The projector's other pages lie beside the one shown: only what is on the screen counts.
+        const shown = r.width > 2 && r.right > 0 && r.left < document.documentElement.clientWidth;
+        if (overlaps) out.push(`the legend overlaps ${what}`);
+        else if (shown && r.top < l.bottom - 1) out.push(`the legend is not above ${what}`);
+      }
+    }
+    return out;
+  });
 }
 
 /**
@@ -272,10 +302,31 @@ test('every screen fits the longest content at every device size: projector, con
   await expect(phone.getByTestId('join-title')).toBeVisible();
   await checkJoin('join-name');
   await phone.setViewportSize(PHONES[0]!);
-  await phone.getByLabel('Your name for today').fill('Gus, who sits at the back of the room');
+  // The longest name Cairn takes (40 characters, shared/schemas/live.ts).
+  const GUS = 'Gus Marchetti-Oyelaran, harbour mechanic';
+  await phone.getByLabel('Your name for today').fill(GUS);
   await phone.getByTestId('consent-yes').click();
   await phone.getByTestId('join').click();
   await expect(phone.getByTestId('connection')).toHaveText('Connected');
+  // The phone's top line keeps the longest name to two lines at most, in every language, even on the smallest phone;
+  // the whole name stays in its title.
+  for (const locale of ['de', 'es', 'en']) {
+    await phone.getByTestId('language').selectOption(locale);
+    await expect(phone.locator('html')).toHaveAttribute('lang', locale);
+    for (const size of [{ width: 320, height: 568 }, PHONES[0]!]) {
+      await phone.setViewportSize(size);
+      await settle(phone);
+      const nameBox = await phone.getByTestId('me-name').evaluate((e) => ({ height: e.getBoundingClientRect().height, line: parseFloat(getComputedStyle(e).lineHeight), title: e.getAttribute('title') }));
+      const shot = `phone-header-${locale}-${size.width}x${size.height}`;
+      if (nameBox.height > 2 * nameBox.line + 1) fail.push(`${shot}: the name takes ${Math.round(nameBox.height / nameBox.line)} lines`);
+      if (nameBox.title !== GUS) fail.push(`${shot}: the name's title is "${nameBox.title}"`);
+      const p = await problems(phone, 'phone');
+      for (const [k, list] of Object.entries({ crossing: p.crossing, clipped: p.clipped, smallTargets: p.smallTargets })) {
+        if (list.length) fail.push(`${shot} ${k}: ${list.slice(0, 4).join(' | ')}`);
+      }
+      await snap(phone, shot);
+    }
+  }
 
   const teams = (await cmd<{ id: string; name: string }[]>(ownerSock, 'teams:set', {
     teams: [0, 1, 2].map((t) => ({
@@ -320,6 +371,8 @@ test('every screen fits the longest content at every device size: projector, con
       if (!codeOnScreen) fail.push(`${name}: the join code is off screen`);
       // While results show, the join panel is a corner: the code stays, the big QR code goes and leaves the room to the results.
       if (label.endsWith('-results') && (await projector.getByTestId('projector-qr').count())) fail.push(`${name}: the QR code still takes room over the results`);
+      // A dot vote's criteria legend is in view with the results, over none of them.
+      if (label === 'dot_vote-results') for (const problem of await legendProblems(projector)) fail.push(`${name}: ${problem}`);
       for (const [k, list] of Object.entries({ crossing: p.crossing, clipped: p.clipped, smallText: p.smallText })) {
         if (list.length) fail.push(`${name} ${k}: ${list.slice(0, 4).join(' | ')}${list.length > 4 ? ` (+${list.length - 4})` : ''}`);
       }
@@ -345,6 +398,11 @@ test('every screen fits the longest content at every device size: projector, con
       // The drift line reads as words: "12 min behind plan · projected end 15:07", no word run into the dot.
       const drift = consolePage.getByTestId('drift').first();
       if ((await drift.count()) && /\S·/.test(await drift.innerText())) fail.push(`${name}: words run together in the drift line: ${await drift.innerText()}`);
+      if (label === 'dot_vote') {
+        await consolePage.getByTestId('criteria-legend').scrollIntoViewIfNeeded();
+        for (const problem of await legendProblems(consolePage)) fail.push(`${name}: ${problem}`);
+        await consolePage.evaluate(() => window.scrollTo(0, 0));
+      }
       await snap(consolePage, name);
       await consolePage.evaluate(() => window.scrollTo(0, document.documentElement.scrollHeight));
       await settle(consolePage);
