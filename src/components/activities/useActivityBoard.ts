@@ -1,4 +1,5 @@
 import { problemText } from '../../i18n/problems';
+import { i18n } from '../../i18n';
 import { ref, watch, type Ref } from 'vue';
 import type { ActivityBoard, NoteView } from '../../../shared/schemas/activities';
 import type { LiveItem } from '../../../shared/schemas/live';
@@ -37,7 +38,7 @@ export function useActivityBoard(channel: ActivityChannel, item: () => LiveItem,
         error.value = null;
       }
     } catch (err) {
-      if (mine === asked) error.value = problemText(err, 'The activity could not be loaded');
+      if (mine === asked) error.value = problemText(err, i18n.global.t('liveActivity.loadFailed'));
     }
   }
   const soon = () => {
