@@ -8,6 +8,16 @@ import { borda, schulze } from '../../../shared/preference';
 import { rankedRows } from '../../../shared/votes';
 import type { DotVoteResults, Participation, PreferenceResults, TeamSortResults, VoteResults } from '../../../shared/schemas/voting';
 
+/** What a tally needs of a vote: a stored vote row, or the same columns read without the model layer. */
+export type TalliedVote = Pick<VoteRow, 'id' | 'itemId' | 'kind' | 'status' | 'options' | 'rules' | 'chosen'>;
+
+/**
+ * A vote's columns for its tally, by a prepared statement on the reading connection: the model layer's
+ * read (a table check and a captured stack every query) ran with every push, a few times a second
+ * while a room votes. The JSON columns are stored as Sequelize writes them (JSON text).
+ */
+const VOTE_FOR_TALLY = 'SELECT id, itemId, kind, status, options, rules, chosen FROM votes WHERE sessionId = ? AND itemId = ?';
+
 /** Tallies pushed to a room at most this often: live enough for the console, cheap when a room of phones votes at once. */
 export const TALLY_INTERVAL_MS = 300;
 
@@ -32,7 +42,7 @@ export class VoteTally {
    * everyone online now (`online`: their participant ids) plus everyone who voted, so a voter whose
    * phone dropped still counts.
    */
-  async resultsOf(row: VoteRow, itemTitle: string, online: readonly string[]): Promise<VoteResults> {
+  async resultsOf(row: TalliedVote, itemTitle: string, online: readonly string[]): Promise<VoteResults> {
     const { VoteRanking } = this.ctx.db.models;
     const optionIds = row.options.map((o) => o.id);
     const base = { itemId: row.itemId, itemTitle, status: row.status, options: row.options, rules: row.rules, chosen: row.chosen };
@@ -105,6 +115,24 @@ export class VoteTally {
     this.ctx.announcer.soon(`tally:${sessionId}`, () => this.pushTally(sessionId, itemId), { everyMs: TALLY_INTERVAL_MS, what: 'the tallies' });
   }
 
+  /** The stored vote of an item, as its tally needs it (read afresh: it may have changed in another process). */
+  private async voteOf(sessionId: string, itemId: string): Promise<TalliedVote | null> {
+    const [r] = await this.ctx.db.read<{ id: string; itemId: string; kind: VoteRow['kind']; status: VoteRow['status']; options: string; rules: string; chosen: string | null }>(
+      VOTE_FOR_TALLY,
+      [sessionId, itemId],
+    );
+    if (!r) return null;
+    return {
+      id: r.id,
+      itemId: r.itemId,
+      kind: r.kind,
+      status: r.status,
+      options: JSON.parse(r.options) as VoteRow['options'],
+      rules: JSON.parse(r.rules) as VoteRow['rules'],
+      chosen: r.chosen === null ? null : (JSON.parse(r.chosen) as VoteRow['chosen']),
+    };
+  }
+
   /** Sends the current vote's tallies to the facilitators, or to the whole session once revealed. */
   private async pushTally(sessionId: string, itemId: string): Promise<void> {
     const { announcer } = this.ctx;
@@ -113,7 +141,7 @@ export class VoteTally {
     const room = state.revealed ? liveRooms.session(sessionId) : liveRooms.facilitators(sessionId);
     // Nobody to tell (in this process, and no other process shares the broadcasts): the tally is not worked out.
     if (!announcer.listening(room)) return;
-    const row = await this.ctx.db.models.Vote.findOne({ where: { sessionId, itemId } });
+    const row = await this.voteOf(sessionId, itemId);
     if (!row || announcer.isClosed) return;
     // Who is online comes from memory: the room's list is not read a few times a second for it.
     const results = await this.resultsOf(row, state.item.title, this.presence.onlineIds(sessionId));
