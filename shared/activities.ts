@@ -1,6 +1,7 @@
 import type { ActivitySettings, ActivityType, AgendaItem, Criterion, Phase } from './schemas/agenda-item';
 import type { SubmissionInput } from './schemas/live';
 import { atLeast } from './numbers';
+import type { MessageTable } from './wording';
 import { CLOSING_PARTS, EMPATHY_MAP_PARTS, FEEDBACK_GRID_PARTS, INTERVIEW_PARTS, PAINS_AND_GAINS_PARTS, type NotePart } from './notes';
 
 /** The kinds of vote Cairn runs; each is the activity type of the same name (the library's `vote` trait). */
@@ -26,11 +27,8 @@ export const MATERIAL_KEYS = [
 /** A material's key, e.g. `'dot_stickers'`. */
 export type MaterialKey = (typeof MATERIAL_KEYS)[number];
 
-/** How a material appears on the packing list and how it adds up over the agenda. */
+/** How a material adds up over the agenda. */
 export interface MaterialDefinition {
-  label: string;
-  /** The unit as a singular noun; `countOf` makes its plural. */
-  unit: string;
   /**
    * Used up by each activity (sticky notes, paper, snacks): the quantities of the items are added.
    * Otherwise the thing is picked up again for the next activity (markers, tape, a projector):
@@ -39,33 +37,36 @@ export interface MaterialDefinition {
   consumable: boolean;
 }
 
-/** Plain names of the phases, for messages and headings. */
-export const PHASE_LABELS: Record<Phase, string> = {
-  opening: 'Opening',
-  empathize: 'Empathize',
-  define: 'Define',
-  ideate: 'Ideate',
-  prototype: 'Prototype',
-  test: 'Test',
-  closing: 'Closing',
-  break: 'Break',
+/** How each material adds up over the agenda (its name and unit are the catalogs': `material.<key>.name`, `.amount`). */
+export const MATERIALS: Record<MaterialKey, MaterialDefinition> = {
+  sticky_notes: { consumable: true },
+  markers: { consumable: false },
+  paper_a4: { consumable: true },
+  paper_a3: { consumable: true },
+  dot_stickers: { consumable: true },
+  tape: { consumable: false },
+  whiteboard: { consumable: false },
+  projector: { consumable: false },
+  tablet: { consumable: false },
+  timer: { consumable: false },
+  snacks: { consumable: true },
+  water: { consumable: true },
 };
 
-/** Labels, units and adding-up rule of every material. */
-export const MATERIALS: Record<MaterialKey, MaterialDefinition> = {
-  sticky_notes: { label: 'Sticky notes', unit: 'note', consumable: true },
-  markers: { label: 'Markers', unit: 'marker', consumable: false },
-  paper_a4: { label: 'A4 paper', unit: 'sheet', consumable: true },
-  paper_a3: { label: 'A3 paper', unit: 'sheet', consumable: true },
-  dot_stickers: { label: 'Dot stickers', unit: 'dot', consumable: true },
-  tape: { label: 'Masking tape', unit: 'roll', consumable: false },
-  whiteboard: { label: 'Whiteboard or wall space', unit: 'board', consumable: false },
-  projector: { label: 'Projector and screen', unit: 'set', consumable: false },
-  tablet: { label: "Facilitator's tablet", unit: 'tablet', consumable: false },
-  timer: { label: 'Spare timer', unit: 'timer', consumable: false },
-  snacks: { label: 'Healthy snacks', unit: 'serving', consumable: true },
-  water: { label: 'Water', unit: 'cup', consumable: true },
-};
+/**
+ * Why an item needs as many of a material as it does, in Cairn's own words: the packing list says
+ * `packingWhy.<why>` from the facilitator catalogs, with the rule's quantity as `n` where the words name it.
+ * The origins of the numbers stay in the rules' `source`.
+ */
+export const MATERIAL_WHYS = {
+  screen_room: {}, tablet: {}, timer_rounds: {}, sheet_interview: {}, marker_each: {}, canvas_team_map: {},
+  notes_team_map: { n: 'number' }, tape_team_map: {}, notes_insights: { n: 'number' }, wall: {}, drafts: {},
+  questions: { n: 'number' }, dots_spare: {}, sketch_sheets: {}, storyboard_sheets: {}, storyboard_notes: {},
+  tape_team: {}, grid_sheet: {}, grid_notes: {}, snack_break: {}, water_break: {}, snack_lunch: {}, water_lunch: {},
+  reflections: {},
+} as const satisfies MessageTable;
+/** A reason for a quantity, e.g. `'dots_spare'`. */
+export type MaterialWhy = keyof typeof MATERIAL_WHYS;
 
 /**
  * What one agenda item needs of one material.
@@ -81,15 +82,16 @@ export interface MaterialRule {
   quantity: number;
   /** Where the quantity comes from: a published guide, or "common practice". For code and tests, never shown. */
   source: string;
-  /** Why this many, in Cairn's own words, as the packing list shows it ("every voter’s dots and half again spare"). */
-  why: string;
+  /** Why this many, in Cairn's own words: the packing list says `packingWhy.<why>` ("every voter’s dots and half again spare"). */
+  why: MaterialWhy;
   /** The rule applies only when this setting of the item is true (snacks and water at a break). */
   onlyIfSetting?: 'snacks';
 }
 
-/** One activity type: its plain name, default phase and timebox, prompt, settings and materials. */
+/** One activity type: its default title, default phase and timebox, prompt, settings and materials. */
 export interface ActivityDefinition {
   type: ActivityType;
+  /** The title a new item of the type starts with, in English (the screens name the type from the catalogs: `activityType.<type>.name`). */
   label: string;
   phase: Phase;
   defaultTimeboxMin: number;
@@ -125,7 +127,6 @@ export interface ActivityDefinition {
   /** Parts added to `noteParts` while a setting of the item is on (the empathy map's pains and gains). */
   extraParts: { setting: 'painsAndGains'; parts: readonly NotePart[] } | null;
   materials: MaterialRule[];
-  description: string;
 }
 
 /** The usual pair of dot-vote criteria, for the planner to add (common practice: impact / effort matrix). */
@@ -154,27 +155,27 @@ const marker: MaterialRule = {
   item: 'markers',
   per: 'person',
   quantity: 1,
-  source: PRACTICE, why: 'one marker each, so everyone writes their own notes',
+  source: PRACTICE, why: 'marker_each',
 };
 const screen: MaterialRule = {
   item: 'projector',
   per: 'fixed',
   quantity: 1,
-  source: PRACTICE, why: 'one screen the whole room can read',
+  source: PRACTICE, why: 'screen_room',
 };
 const facilitatorTablet: MaterialRule = {
   item: 'tablet',
   per: 'fixed',
   quantity: 1,
-  source: PRACTICE, why: 'the facilitator runs the day from one tablet',
+  source: PRACTICE, why: 'tablet',
 };
 const wall: MaterialRule = {
   item: 'whiteboard',
   per: 'fixed',
   quantity: 1,
-  source: PRACTICE, why: 'one shared wall or whiteboard to cluster and vote on',
+  source: PRACTICE, why: 'wall',
 };
-const refreshments = (snackWhy: string, waterWhy: string): MaterialRule[] => [
+const refreshments = (snackWhy: MaterialWhy, waterWhy: MaterialWhy): MaterialRule[] => [
   { item: 'snacks', per: 'person', quantity: 1, source: PRACTICE, why: snackWhy, onlyIfSetting: 'snacks' },
   { item: 'water', per: 'person', quantity: 1, source: PRACTICE, why: waterWhy, onlyIfSetting: 'snacks' },
 ];
@@ -217,7 +218,6 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
     defaultSettings: {},
     talkOnly: true,
     materials: [screen, facilitatorTablet],
-    description: 'Greet the room, show the plan for the day and the data policy while people join.',
   }),
   icebreaker: activity({
     type: 'icebreaker',
@@ -232,9 +232,8 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
     defaultSettings: { rounds: 3, roundMinutes: 3, movement: true },
     movement: true,
     materials: [
-      { item: 'timer', per: 'fixed', quantity: 1, source: PRACTICE, why: 'a spare timer for timed rounds' },
+      { item: 'timer', per: 'fixed', quantity: 1, source: PRACTICE, why: 'timer_rounds' },
     ],
-    description: 'Short rounds in rotating pairs so people meet someone new before the real work.',
   }),
   interview: activity({
     type: 'interview',
@@ -252,11 +251,10 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
     // ask why and note what was heard (common practice).
     defaultSettings: { rounds: 2, roundMinutes: 10 },
     materials: [
-      { item: 'paper_a4', per: 'person', quantity: 1, source: PRACTICE, why: 'one sheet each to note what the partner tells' },
+      { item: 'paper_a4', per: 'person', quantity: 1, source: PRACTICE, why: 'sheet_interview' },
       marker,
-      { item: 'timer', per: 'fixed', quantity: 1, source: PRACTICE, why: 'a spare timer for timed rounds' },
+      { item: 'timer', per: 'fixed', quantity: 1, source: PRACTICE, why: 'timer_rounds' },
     ],
-    description: 'Pairs take turns: one asks about a real experience and keeps asking why, the other tells; each notes what their partner says, thinks, does and feels.',
   }),
   empathy_map: activity({
     type: 'empathy_map',
@@ -271,12 +269,11 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
     defaultPrompt: 'Add what you heard to your team’s map: what they see, hear, say and do, think and feel.',
     defaultSettings: { painsAndGains: false },
     materials: [
-      { item: 'paper_a3', per: 'team', quantity: 1, source: PRACTICE, why: 'one large canvas for each team’s map' },
-      { item: 'sticky_notes', per: 'person', quantity: 15, source: PRACTICE, why: 'about 15 notes each for a team map' },
-      { item: 'tape', per: 'team', quantity: 1, source: PRACTICE, why: 'one roll for each team to hang its map' },
+      { item: 'paper_a3', per: 'team', quantity: 1, source: PRACTICE, why: 'canvas_team_map' },
+      { item: 'sticky_notes', per: 'person', quantity: 15, source: PRACTICE, why: 'notes_team_map' },
+      { item: 'tape', per: 'team', quantity: 1, source: PRACTICE, why: 'tape_team_map' },
       marker,
     ],
-    description: 'Each team files what it heard in the interviews under the parts of a shared map.',
   }),
   insights: activity({
     type: 'insights',
@@ -291,12 +288,11 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
         item: 'sticky_notes',
         per: 'person',
         quantity: 10,
-        source: PRACTICE, why: 'about 10 notes each, one insight per note',
+        source: PRACTICE, why: 'notes_insights',
       },
       marker,
       wall,
     ],
-    description: 'Short notes of what was learned, grouped into themes on the wall.',
   }),
   point_of_view: activity({
     type: 'point_of_view',
@@ -307,9 +303,8 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
     defaultPrompt: 'Finish the sentence: [who] needs [to do what] because [what we learned].',
     defaultSettings: {},
     materials: [
-      { item: 'sticky_notes', per: 'person', quantity: 3, source: PRACTICE, why: 'a few drafts each' },
+      { item: 'sticky_notes', per: 'person', quantity: 3, source: PRACTICE, why: 'drafts' },
     ],
-    description: 'A guided sentence that names the person, their need and the insight behind it.',
   }),
   how_might_we: activity({
     type: 'how_might_we',
@@ -320,10 +315,9 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
     defaultPrompt: 'Turn a need into a question: How might we [do something] for [whom] so that [outcome]?',
     defaultSettings: {},
     materials: [
-      { item: 'sticky_notes', per: 'person', quantity: 5, source: PRACTICE, why: 'about 5 questions each' },
+      { item: 'sticky_notes', per: 'person', quantity: 5, source: PRACTICE, why: 'questions' },
       wall,
     ],
-    description: 'Turn needs into open questions, neither too broad nor too narrow, to vote on.',
   }),
   dot_vote: activity({
     type: 'dot_vote',
@@ -335,11 +329,10 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
     // Criteria are optional: none means one overall vote; IMPACT_EFFORT_CRITERIA is the usual pair.
     defaultSettings: { dotsPerVoter: 3, topN: 3 },
     materials: [
-      { item: 'dot_stickers', per: 'voter_dot', quantity: 1.5, source: `${SPARE_DOTS}; ${DOTS_PER_VOTER}`, why: 'every voter’s dots and half again spare' },
+      { item: 'dot_stickers', per: 'voter_dot', quantity: 1.5, source: `${SPARE_DOTS}; ${DOTS_PER_VOTER}`, why: 'dots_spare' },
       wall,
       screen,
     ],
-    description: 'Everyone spends a small budget of dots; the room sees the tally only when you show results.',
   }),
   preference_vote: activity({
     type: 'preference_vote',
@@ -350,7 +343,6 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
     defaultPrompt: 'Put the options in the order you prefer them, favourite first.',
     defaultSettings: { topN: 3 },
     materials: [screen],
-    description: 'Everyone ranks the options on their phone; Cairn counts the result.',
   }),
   team_sort: activity({
     type: 'team_sort',
@@ -361,7 +353,6 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
     defaultPrompt: 'Rank the challenges you would most like to work on. Cairn will form even teams.',
     defaultSettings: { teamCount: 3 },
     materials: [screen],
-    description: 'Participants rank the winning challenges; Cairn forms balanced teams, one challenge each.',
   }),
   sketch: activity({
     type: 'sketch',
@@ -380,11 +371,10 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
         per: 'person',
         quantity: 2,
         source: QUICK_SKETCHES,
-        why: 'one sheet for the boxes of sketches, and one spare',
+        why: 'sketch_sheets',
       },
       marker,
     ],
-    description: 'Quick rough sketches on paper, several ideas each, photographed with a caption and shared for feedback.',
   }),
   storyboard: activity({
     type: 'storyboard',
@@ -398,12 +388,11 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
     defaultPrompt: 'Tell the idea as a story, frame by frame: who they are, what happens, how it ends.',
     defaultSettings: { storyboardFrames: 12 },
     materials: [
-      { item: 'paper_a3', per: 'team', quantity: 2, source: PRACTICE, why: 'two large sheets for each team’s frames' },
-      { item: 'sticky_notes', per: 'team', quantity: 20, source: STORYBOARD_STEPS, why: 'a note a frame, with spare' },
-      { item: 'tape', per: 'team', quantity: 1, source: PRACTICE, why: 'one roll for each team' },
+      { item: 'paper_a3', per: 'team', quantity: 2, source: PRACTICE, why: 'storyboard_sheets' },
+      { item: 'sticky_notes', per: 'team', quantity: 20, source: STORYBOARD_STEPS, why: 'storyboard_notes' },
+      { item: 'tape', per: 'team', quantity: 1, source: PRACTICE, why: 'tape_team' },
       marker,
     ],
-    description: "Each team lays out its idea as ordered frames, the prototype the others will test.",
   }),
   test_rounds: activity({
     type: 'test_rounds',
@@ -424,17 +413,16 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
         per: 'team',
         quantity: 1,
         source: FEEDBACK_GRID,
-        why: 'one sheet a team for the feedback grid',
+        why: 'grid_sheet',
       },
       {
         item: 'sticky_notes',
         per: 'person',
         quantity: 8,
-        source: PRACTICE, why: 'two notes for each of the grid’s four parts',
+        source: PRACTICE, why: 'grid_notes',
       },
-      { item: 'timer', per: 'fixed', quantity: 1, source: PRACTICE, why: 'a spare timer for timed rounds' },
+      { item: 'timer', per: 'fixed', quantity: 1, source: PRACTICE, why: 'timer_rounds' },
     ],
-    description: "Testers visit another team's prototype in rounds and record feedback in four parts.",
   }),
   break: activity({
     type: 'break',
@@ -447,10 +435,9 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
     defaultSettings: { snacks: true },
     isBreak: true,
     materials: refreshments(
-      'one healthy snack each a break',
-      'a cup of water each a break',
+      'snack_break',
+      'water_break',
     ),
-    description: 'A pause to rest and refuel.',
   }),
   lunch: activity({
     type: 'lunch',
@@ -463,10 +450,9 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
     defaultSettings: { snacks: true },
     isBreak: true,
     materials: refreshments(
-      'a healthy option each at lunch, besides the meal',
-      'a cup of water each at lunch',
+      'snack_lunch',
+      'water_lunch',
     ),
-    description: 'A proper lunch break away from the work.',
   }),
   talk: activity({
     type: 'talk',
@@ -477,7 +463,6 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
     defaultSettings: {},
     talkOnly: true,
     materials: [screen],
-    description: 'A short input from the front. Keep it brief: it is not an activity.',
   }),
   closing: activity({
     type: 'closing',
@@ -489,10 +474,9 @@ export const ACTIVITY_LIBRARY: Record<ActivityType, ActivityDefinition> = {
     defaultPrompt: 'Before you go: what will you take away from today, and what should happen next?',
     defaultSettings: {},
     materials: [
-      { item: 'sticky_notes', per: 'person', quantity: 3, source: PRACTICE, why: 'a few reflections each' },
+      { item: 'sticky_notes', per: 'person', quantity: 3, source: PRACTICE, why: 'reflections' },
       screen,
     ],
-    description: 'What happens next, and a short reflection from everyone.',
   }),
 };
 
@@ -544,17 +528,6 @@ export function noteRefusal(type: ActivityType, kind: SubmissionInput['kind']): 
   const kinds = ACTIVITY_LIBRARY[type].noteKinds;
   if (kinds.includes(kind)) return null;
   return kinds.length === 0 ? 'This activity takes no notes' : 'This activity takes other kinds of notes';
-}
-
-/**
- * An item's activity type and phase as a heading line says them ("Dot vote · Ideate"); said once when
- * both are the same word ("Closing", never "Closing · Closing").
- * @example typeAndPhase('closing', 'closing') // 'Closing'
- */
-export function typeAndPhase(type: ActivityType, phase: Phase): string {
-  const label = ACTIVITY_LIBRARY[type].label;
-  const phaseLabel = PHASE_LABELS[phase];
-  return label.toLowerCase() === phaseLabel.toLowerCase() ? label : `${label} · ${phaseLabel}`;
 }
 
 /**

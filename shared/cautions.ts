@@ -2,17 +2,30 @@ import { z } from 'zod';
 import { ACTIVITY_LIBRARY, PHOTO_TYPES } from './activities';
 import type { AgendaItem } from './schemas/agenda-item';
 import { whole } from './numbers';
+import type { Finding, MessageTable } from './wording';
 
 /** The usual cautions of a workshop day. */
 export const CautionCode = z.enum(['food_allergies', 'movement_access', 'room_capacity', 'photos_personal_data']);
 /** A caution's code. */
 export type CautionCode = z.infer<typeof CautionCode>;
 
-/** A caution for the plan: what to look after, and the agenda items that raise it. */
-export interface Caution {
+/**
+ * What a screen says of each caution (`caution.text.<message>` in the facilitator catalogs; its heading is
+ * `caution.title.<code>`), with the values each message fills in; `n` picks the plural form.
+ */
+export const CAUTION_MESSAGES = {
+  food_allergies: {},
+  movement_access: {},
+  room_capacity: { n: 'number' },
+  room_over_capacity: { n: 'number', capacity: 'number' },
+  photos_personal_data: {},
+} as const satisfies MessageTable;
+/** A message a caution says. */
+export type CautionMessage = keyof typeof CAUTION_MESSAGES;
+
+/** A caution for the plan: what to look after (a message and its values, worded by the screen), and the agenda items that raise it. */
+export interface Caution extends Finding<CautionMessage> {
   code: CautionCode;
-  title: string;
-  text: string;
   itemIds: string[];
 }
 
@@ -33,10 +46,8 @@ export function cautionsFor(
   if (food.length > 0) {
     cautions.push({
       code: 'food_allergies',
-      title: 'Food allergies and dietary needs',
-      text:
-        'Snacks are planned. Ask people about allergies and dietary needs before the day, ' +
-        'label what you serve, and keep water within reach.',
+      message: 'food_allergies',
+      params: {},
       itemIds: food.map((i) => i.id),
     });
   }
@@ -46,10 +57,8 @@ export function cautionsFor(
   if (moving.length > 0) {
     cautions.push({
       code: 'movement_access',
-      title: 'A way in for everyone',
-      text:
-        'Some activities ask people to move about. Offer a seated way to take part, ' +
-        'keep paths clear, and let anyone sit out without having to explain why.',
+      message: 'movement_access',
+      params: {},
       itemIds: moving.map((i) => i.id),
     });
   }
@@ -59,12 +68,8 @@ export function cautionsFor(
   const overCapacity = roomCapacity !== null && headcount > roomCapacity;
   cautions.push({
     code: 'room_capacity',
-    title: 'Room capacity and fire exits',
-    text:
-      (overCapacity
-        ? `You expect ${headcount} people, more than the ${roomCapacity} the room is noted to hold. `
-        : `Check that the room holds ${headcount} people plus facilitators. `) +
-      "Find the fire exits and keep them clear before people arrive. The venue's rules and local codes come first.",
+    message: overCapacity ? 'room_over_capacity' : 'room_capacity',
+    params: overCapacity ? { n: headcount, capacity: roomCapacity } : { n: headcount },
     itemIds: [],
   });
 
@@ -72,10 +77,8 @@ export function cautionsFor(
   if (photos.length > 0 || options.hasPhotos) {
     cautions.push({
       code: 'photos_personal_data',
-      title: 'Photos and personal data',
-      text:
-        'Photos and names are personal data. Ask before taking pictures of people, show only photos ' +
-        "of those who agreed, and follow your organisation's data-protection policy on keeping and sharing them.",
+      message: 'photos_personal_data',
+      params: {},
       itemIds: photos.map((i) => i.id),
     });
   }

@@ -1,44 +1,56 @@
-import { ACTIVITY_LIBRARY, MATERIALS, MATERIAL_KEYS, type MaterialKey, type MaterialRule } from './activities';
+import { ACTIVITY_LIBRARY, MATERIALS, MATERIAL_KEYS, MATERIAL_WHYS, type MaterialKey, type MaterialRule, type MaterialWhy } from './activities';
 import type { AgendaItem } from './schemas/agenda-item';
 import { whole } from './numbers';
-import { countOf } from './words';
+import type { Finding, MessageTable } from './wording';
 
-/** One line of the packing list. */
+/**
+ * How one item's share of a material is made, so it can be checked by hand: the packing list says
+ * `packingHow.<per>` from the facilitator catalogs with these values (counts with their nouns, e.g. "24 people").
+ */
+export const PACKING_HOW = {
+  person: { factor: 'number', people: 'people', total: 'number' },
+  team: { factor: 'number', teams: 'teams', total: 'number' },
+  fixed: { n: 'number' },
+  voter_dot: { dots: 'dots', criteria: 'criteria', people: 'people', factor: 'number', total: 'number' },
+} as const satisfies MessageTable;
+
+/** One line of the packing list: the material (named by the catalogs, `material.<key>`) and how many. */
 export interface PackingLine {
   key: MaterialKey;
-  label: string;
   quantity: number;
-  unit: string;
-  /** The quantity with its unit in the right number: "1 board", "2 boards". */
-  amount: string;
   /** The agenda items that need it, in agenda order. */
   usedBy: string[];
-  /** How the quantity is made: each activity's share, in words and numbers, so it can be checked by hand. */
-  shares: { itemId: string; title: string; quantity: number; how: string; why: string }[];
+  /** How the quantity is made: each activity's share, its sum and its reason, for the screen to word. */
+  shares: { itemId: string; title: string; quantity: number; how: Finding<MaterialRule['per']>; why: Finding<MaterialWhy> }[];
   /** Added up over the activities (used up), or the most any one activity needs (used again). */
   adds: 'sum' | 'max';
   /** Dot stickers when the votes run on the phones: a paper fallback, not a requirement. */
   fallback: boolean;
 }
 
-// A factor as the packing list writes it: 1.5 stays 1.5, 2 stays 2.
-const num = (n: number) => String(Math.round(n * 100) / 100);
+// A factor as the packing list gives it: 1.5 stays 1.5, 2 stays 2.
+const num = (n: number) => Math.round(n * 100) / 100;
 
-// How one item's share of a material is made, in Cairn's words.
-function shareWords(rule: MaterialRule, item: AgendaItem, headcount: number, teamCount: number, quantity: number): string {
+// How one item's share of a material is made, as values for the screen's words.
+function shareHow(rule: MaterialRule, item: AgendaItem, headcount: number, teamCount: number, quantity: number): Finding<MaterialRule['per']> {
   switch (rule.per) {
     case 'person':
-      return `${num(rule.quantity)} × ${countOf(headcount, 'person')} = ${num(quantity)}`;
+      return { message: 'person', params: { factor: num(rule.quantity), people: headcount, total: num(quantity) } };
     case 'team':
-      return `${num(rule.quantity)} × ${countOf(teamCount, 'team')} = ${num(quantity)}`;
+      return { message: 'team', params: { factor: num(rule.quantity), teams: teamCount, total: num(quantity) } };
     case 'fixed':
-      return `${num(quantity)} for the room`;
+      return { message: 'fixed', params: { n: num(quantity) } };
     case 'voter_dot': {
       const dots = item.settings.dotsPerVoter ?? ACTIVITY_LIBRARY[item.type].defaultSettings.dotsPerVoter ?? 1;
       const criteria = Math.max(1, item.settings.criteria?.length ?? 0);
-      return `${countOf(dots, 'dot')} × ${countOf(criteria, 'criterion')} × ${countOf(headcount, 'person')} × ${num(rule.quantity)} (with spares) = ${num(quantity)}`;
+      return { message: 'voter_dot', params: { dots, criteria, people: headcount, factor: num(rule.quantity), total: num(quantity) } };
     }
   }
+}
+
+// Why one rule asks for what it does, with its quantity where the words name it ("about 15 notes each").
+function shareWhy(rule: MaterialRule): Finding<MaterialWhy> {
+  return { message: rule.why, params: 'n' in MATERIAL_WHYS[rule.why] ? { n: rule.quantity } : {} };
 }
 
 // How much of a material one item asks for under one rule.
@@ -81,7 +93,7 @@ export function packingList(items: AgendaItem[], headcount: number, teamCount: n
       }
       line.quantity = MATERIALS[rule.item].consumable ? line.quantity + quantity : Math.max(line.quantity, quantity);
       line.usedBy.add(item.id);
-      line.shares.push({ itemId: item.id, title: item.title, quantity, how: shareWords(rule, item, headcount, teamCount, quantity), why: rule.why });
+      line.shares.push({ itemId: item.id, title: item.title, quantity, how: shareHow(rule, item, headcount, teamCount, quantity), why: shareWhy(rule) });
     }
   }
   // Lines in the catalogue's order, so the list reads the same every time.
@@ -93,10 +105,7 @@ export function packingList(items: AgendaItem[], headcount: number, teamCount: n
     return [
       {
         key,
-        label: MATERIALS[key].label,
         quantity,
-        unit: MATERIALS[key].unit,
-        amount: countOf(quantity, MATERIALS[key].unit),
         usedBy: [...line.usedBy],
         shares: line.shares,
         adds: MATERIALS[key].consumable ? ('sum' as const) : ('max' as const),

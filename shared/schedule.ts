@@ -1,8 +1,8 @@
 import { z } from 'zod';
-import { ACTIVITY_LIBRARY, PHASE_LABELS, isBreakItem } from './activities';
+import { ACTIVITY_LIBRARY, isBreakItem } from './activities';
 import { Phase, type AgendaItem } from './schemas/agenda-item';
 import type { DayWindow, RuleSettings } from './schemas/day-window';
-import { percentText } from './words';
+import type { Finding, MessageTable } from './wording';
 import { atLeast, finite } from './numbers';
 
 /** The rules of the trade a plan can break. */
@@ -21,14 +21,33 @@ export const ScheduleWarningCode = z.enum([
 /** A schedule warning's code. */
 export type ScheduleWarningCode = z.infer<typeof ScheduleWarningCode>;
 
-/** One broken rule: which items, a plain explanation, and where the rule comes from. */
-export interface ScheduleWarning {
+/**
+ * What a screen says of each broken rule (`scheduleWarning.<message>` in the facilitator catalogs), with the
+ * values each message fills in and how they are written; `n` picks the plural form.
+ */
+export const SCHEDULE_MESSAGES = {
+  load_above_ceiling: { pct: 'percent', ceiling: 'percent' },
+  phases_out_of_order: { item: 'text', phase: 'phase', before: 'text', beforePhase: 'phase' },
+  pinned_before_start: { item: 'text', at: 'clock', start: 'clock' },
+  pinned_overlap: { item: 'text', at: 'clock', until: 'clock', n: 'number' },
+  no_break_stretch: { n: 'number', from: 'clock', max: 'number', after: 'text', ends: 'clock' },
+  no_lunch: { min: 'number' },
+  short_lunch: { min: 'number' },
+  lunch_off_midday: { item: 'text', at: 'clock', from: 'clock', to: 'clock' },
+  talk_too_long: { item: 'text', n: 'number', max: 'number' },
+  overruns_window: { end: 'clock', n: 'number', windowEnd: 'clock' },
+  idle_end: { end: 'clock', n: 'number', windowEnd: 'clock' },
+  day_too_short: { n: 'number', needed: 'number' },
+} as const satisfies MessageTable;
+/** A message a schedule warning says. */
+export type ScheduleMessage = keyof typeof SCHEDULE_MESSAGES;
+
+/** One broken rule: which items, and what the plan does (a message and its values, worded by the screen). */
+export interface ScheduleWarning extends Finding<ScheduleMessage> {
   code: ScheduleWarningCode;
   itemIds: string[];
   /** The one item beside which the agenda says the message (the others are only marked). */
   atItemId?: string;
-  message: string;
-  origin: string;
 }
 
 /** When one agenda item runs, in minutes since midnight and as clock times. */
@@ -66,29 +85,36 @@ export const LUNCH_FROM = '11:30';
 export const LUNCH_TO = '14:00';
 
 /**
- * Why each rule matters, in Cairn's own words, shown beside the warning. Where the numbers come from
- * stays here, in comments, and in the tests: never on screen.
+ * Why each rule matters, in Cairn's own words (`scheduleRule.<code>` in the facilitator catalogs), shown beside
+ * the warning, with the values each fills in. Where the numbers come from stays here, in comments, and in the
+ * tests: never on screen.
+ * - load_above_ceiling: common practice, planned time at most 85 % of the window;
+ * - phases_out_of_order: the design-thinking process runs empathize, define, ideate, prototype, test in order;
+ * - no_break_stretch: published workshop-planning guides, never more than 60–90 min without a break;
+ * - short_lunch: published workshop-planning guides, on a full day lunch of at least 45 min;
+ * - talk_too_long: common practice, keep talks short, people learn by doing;
+ * - day_too_short: common practice, each phase the day covers needs at least one activity, at its shortest;
+ * - idle_end: common practice, about an hour of slack at the end;
+ * - lunch_off_midday: common practice, lunch around midday on a full day.
  */
-export const RULE_ORIGINS: Record<ScheduleWarningCode, string> = {
-  // Common practice: planned time at most 85 % of the window.
-  load_above_ceiling: 'leave slack in the plan: a day always runs over somewhere',
-  // The design-thinking process runs empathize, define, ideate, prototype, test in order.
-  phases_out_of_order: 'each phase builds on what the one before it found, so the day runs them in order',
-  // Published workshop-planning guides: never more than 60–90 min without a break.
-  no_break_stretch: 'people stop listening well after an hour or so without a pause',
-  // Published workshop-planning guides: on a full day, lunch of at least 45 min.
-  short_lunch: 'a full day needs a real meal away from the work, not a quick bite',
-  // Common practice: keep talks short, people learn by doing.
-  talk_too_long: 'people learn by doing: keep talk from the front short',
-  overruns_window: 'the day window set in the brief',
-  // Common practice: each phase the day covers needs at least one activity, at its shortest.
-  day_too_short: 'each phase the day covers needs at least one activity, even at its shortest',
-  pinned_overlap: 'the clock time the item is pinned to (e.g. when the catering arrives)',
-  // Common practice: about an hour of slack at the end.
-  idle_end: `about an hour of slack at the end is enough; more than ${IDLE_END_MIN} min leaves the room waiting`,
-  // Common practice: lunch around midday on a full day.
-  lunch_off_midday: `people get hungry around midday: on a full day lunch starts between ${LUNCH_FROM} and ${LUNCH_TO}`,
-};
+export const RULE_MESSAGES = {
+  load_above_ceiling: {},
+  phases_out_of_order: {},
+  no_break_stretch: {},
+  short_lunch: {},
+  talk_too_long: {},
+  overruns_window: {},
+  day_too_short: {},
+  pinned_overlap: {},
+  idle_end: { n: 'number' },
+  lunch_off_midday: { from: 'clock', to: 'clock' },
+} as const satisfies Record<ScheduleWarningCode, MessageTable[string]>;
+
+/** Why a rule matters, as a finding for the screen to word (`scheduleRule.<code>`). */
+export function ruleWhy(code: ScheduleWarningCode): Finding<ScheduleWarningCode> {
+  const params: Record<string, string | number> = code === 'idle_end' ? { n: IDLE_END_MIN } : code === 'lunch_off_midday' ? { from: LUNCH_FROM, to: LUNCH_TO } : {};
+  return { message: code, params };
+}
 
 /** The phases a design day needs when the agenda is still empty. */
 export const CORE_PHASES: readonly Phase[] = ['empathize', 'define', 'ideate', 'prototype', 'test'];
@@ -201,16 +227,11 @@ export function computeSchedule(items: AgendaItem[], window: DayWindow, rules: R
   const fullDay = windowMin >= rules.fullDayMin;
 
   const warnings: ScheduleWarning[] = [];
-  const warn = (code: ScheduleWarningCode, itemIds: string[], message: string) =>
-    warnings.push({ code, itemIds, message, origin: RULE_ORIGINS[code] });
+  const warn = <M extends ScheduleMessage>(code: ScheduleWarningCode, itemIds: string[], message: M, params: Record<keyof (typeof SCHEDULE_MESSAGES)[M], string | number>) =>
+    warnings.push({ code, itemIds, message, params });
 
   if (loadPct > rules.loadCeilingPct) {
-    warn(
-      'load_above_ceiling',
-      [],
-      `The plan fills ${percentText(loadPct, 1)} of the day, above the ${percentText(rules.loadCeilingPct)} ceiling. ` +
-        'Leave some slack: agendas always run over.',
-    );
+    warn('load_above_ceiling', [], 'load_above_ceiling', { pct: Math.round(loadPct * 10) / 10, ceiling: rules.loadCeilingPct });
   }
 
   // Phases: every activity must come at or after the latest phase seen so far.
@@ -218,27 +239,20 @@ export function computeSchedule(items: AgendaItem[], window: DayWindow, rules: R
   for (const item of items) {
     if (isBreakItem(item)) continue;
     if (latest && PHASE_ORDER.indexOf(item.phase) < PHASE_ORDER.indexOf(latest.phase)) {
-      warn(
-        'phases_out_of_order',
-        [item.id, latest.id],
-        `“${item.title}” (${PHASE_LABELS[item.phase]}) comes after “${latest.title}” ` +
-          `(${PHASE_LABELS[latest.phase]}). ` +
-          'Run the phases in order.',
-      );
+      warn('phases_out_of_order', [item.id, latest.id], 'phases_out_of_order', {
+        item: item.title,
+        phase: item.phase,
+        before: latest.title,
+        beforePhase: latest.phase,
+      });
     } else {
       latest = item;
     }
   }
 
   for (const o of overlaps) {
-    warn(
-      'pinned_overlap',
-      [o.item.id],
-      o.first
-        ? `“${o.item.title}” is pinned at ${toClock(o.pinnedMin)}, before the workshop starts at ${window.start}.`
-        : `“${o.item.title}” is pinned at ${toClock(o.pinnedMin)}, but the items before it run until ${toClock(o.runsUntil)}: ` +
-            `${o.runsUntil - o.pinnedMin} min overlap. Shorten or move an item before it.`,
-    );
+    if (o.first) warn('pinned_overlap', [o.item.id], 'pinned_before_start', { item: o.item.title, at: toClock(o.pinnedMin), start: window.start });
+    else warn('pinned_overlap', [o.item.id], 'pinned_overlap', { item: o.item.title, at: toClock(o.pinnedMin), until: toClock(o.runsUntil), n: o.runsUntil - o.pinnedMin });
   }
 
   // Stretches of activities between breaks.
@@ -260,10 +274,8 @@ export function computeSchedule(items: AgendaItem[], window: DayWindow, rules: R
         code: 'no_break_stretch',
         itemIds: stretch.map((i) => i.id),
         atItemId: fit.id,
-        message:
-          `${stretchMin} min without a break from ${from.start}, longer than ${rules.maxStretchMin} min. ` +
-          `A break would fit after “${fit.title}” (ends ${at.end}).`,
-        origin: RULE_ORIGINS.no_break_stretch,
+        message: 'no_break_stretch',
+        params: { n: stretchMin, from: from.start, max: rules.maxStretchMin, after: fit.title, ends: at.end },
       });
     }
     stretch = [];
@@ -282,13 +294,9 @@ export function computeSchedule(items: AgendaItem[], window: DayWindow, rules: R
   if (fullDay) {
     const lunches = items.filter((i) => i.type === 'lunch');
     if (lunches.length === 0) {
-      warn('short_lunch', [], `A full day needs a lunch break of at least ${rules.minLunchMin} min.`);
+      warn('short_lunch', [], 'no_lunch', { min: rules.minLunchMin });
     } else if (!lunches.some((l) => l.timeboxMin >= rules.minLunchMin)) {
-      warn(
-        'short_lunch',
-        lunches.map((l) => l.id),
-        `Lunch is shorter than ${rules.minLunchMin} min. On a full day people need a proper break.`,
-      );
+      warn('short_lunch', lunches.map((l) => l.id), 'short_lunch', { min: rules.minLunchMin });
     }
   }
 
@@ -298,51 +306,32 @@ export function computeSchedule(items: AgendaItem[], window: DayWindow, rules: R
       if (item.type !== 'lunch') continue;
       const at = scheduled[i]!;
       if (at.startMin < from || at.startMin > to) {
-        warn(
-          'lunch_off_midday',
-          [item.id],
-          `“${item.title}” starts at ${at.start}, outside ${LUNCH_FROM}–${LUNCH_TO}. Pin it to a time around midday.`,
-        );
+        warn('lunch_off_midday', [item.id], 'lunch_off_midday', { item: item.title, at: at.start, from: LUNCH_FROM, to: LUNCH_TO });
       }
     }
   }
 
   for (const item of items) {
     if (ACTIVITY_LIBRARY[item.type].talkOnly && item.timeboxMin > rules.maxTalkMin) {
-      warn(
-        'talk_too_long',
-        [item.id],
-        `“${item.title}” is ${item.timeboxMin} min of talk, over ${rules.maxTalkMin} min. ` +
-          'Shorten it or turn part of it into an activity.',
-      );
+      warn('talk_too_long', [item.id], 'talk_too_long', { item: item.title, n: item.timeboxMin, max: rules.maxTalkMin });
     }
   }
 
   if (t > endMin) {
-    warn(
-      'overruns_window',
-      scheduled.filter((s) => s.endMin > endMin).map((s) => s.id),
-      `The plan ends at ${toClock(t)}, ${t - endMin} min after the workshop should end at ${window.end}.`,
-    );
+    warn('overruns_window', scheduled.filter((s) => s.endMin > endMin).map((s) => s.id), 'overruns_window', {
+      end: toClock(t),
+      n: t - endMin,
+      windowEnd: window.end,
+    });
   }
 
   if (items.length > 0 && endMin - t > IDLE_END_MIN) {
-    warn(
-      'idle_end',
-      [],
-      `The plan ends at ${toClock(t)}, ${endMin - t} min before the workshop ends at ${window.end}. ` +
-        'Plan more, or end the day earlier.',
-    );
+    warn('idle_end', [], 'idle_end', { end: toClock(t), n: endMin - t, windowEnd: window.end });
   }
 
   const neededMin = shortestDayMin(items);
   if (windowMin < neededMin) {
-    warn(
-      'day_too_short',
-      [],
-      `The day is ${windowMin} min long, but one activity of each phase needs at least ${neededMin} min. ` +
-        'Lengthen the day or cover fewer phases.',
-    );
+    warn('day_too_short', [], 'day_too_short', { n: windowMin, needed: neededMin });
   }
 
   return {

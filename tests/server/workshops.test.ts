@@ -306,7 +306,8 @@ describe('the packing list', () => {
     expect(votes.length).toBeGreaterThan(0);
     const raw = votes.reduce((sum, v) => sum + (v.settings.dotsPerVoter ?? 1) * Math.max(1, v.settings.criteria?.length ?? 0) * 18 * 1.5, 0);
     expect(dots.quantity).toBe(Math.ceil(raw));
-    expect(dots.shares[0].why).toBe('every voter’s dots and half again spare');
+    // Cairn's reason as a message id, worded by the screen: `packingWhy.dots_spare` ("every voter’s dots and half again spare").
+    expect(dots.shares[0].why).toEqual({ message: 'dots_spare', params: {} });
     // Where the numbers come from stays in the code: the answer names no source.
     expect(JSON.stringify(res.body)).not.toMatch(/handbook|Global Learning|d\.school|method card|published/i);
     expect(dots.usedBy).toEqual(votes.map((v) => v.id));

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { defaultMinTimebox, newAgendaItem } from '../../shared/activities';
 import { cautionsFor } from '../../shared/cautions';
+import { cautionText } from './english';
 import { bestSample, ClockSync, formatCountdown, ntpSample, remainingMs, serverNow } from '../../shared/clock';
 import { computeDrift, cutRunTimeboxes, driftAnchor, suggestShortening, withRunTimeboxes } from '../../shared/drift';
 import { packingList } from '../../shared/materials';
@@ -110,7 +111,7 @@ describe('drift (drift.ts)', () => {
 describe('cautions (cautions.ts)', () => {
   it('refuses a NaN headcount, and takes a NaN room capacity as unknown', () => {
     expect(() => cautionsFor(agenda(), { headcount: NaN_, hasPhotos: false })).toThrow('The headcount must be a whole number');
-    const room = cautionsFor(agenda(), { headcount: 18, hasPhotos: false, roomCapacity: NaN_ }).map((c) => c.text).join(' ');
+    const room = cautionsFor(agenda(), { headcount: 18, hasPhotos: false, roomCapacity: NaN_ }).map(cautionText).join(' ');
     expect(room).not.toMatch(/NaN/);
     expect(room).toContain('Check that the room holds 18 people');
   });

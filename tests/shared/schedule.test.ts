@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { newAgendaItem } from '../../shared/activities';
 import { computeSchedule, shortestDayMin, toClock, toMinutes } from '../../shared/schedule';
+import { ruleText, warningText } from './english';
 import type { ActivityType, AgendaItem } from '../../shared/schemas/agenda-item';
 import { RuleSettings, type DayWindow } from '../../shared/schemas/day-window';
 
@@ -85,9 +86,9 @@ describe('computeSchedule', () => {
     const s = computeSchedule(items, FULL_DAY, rules);
     expect(s.loadPct).toBeCloseTo(86.11, 2);
     const w = s.warnings.find((x) => x.code === 'load_above_ceiling');
-    expect(w?.message).toMatch(/86\.1\u00a0%/);
-    expect(w?.origin).toMatch(/slack/);
-    expect(w?.origin).not.toMatch(/common practice|published|guide/);
+    expect(warningText(w!)).toMatch(/86\.1\u00a0%/);
+    expect(ruleText(w!)).toMatch(/slack/);
+    expect(ruleText(w!)).not.toMatch(/common practice|published|guide/);
     // Exactly at the ceiling is allowed: 306 / 360 = 85 %.
     const at = [item('interview', 81), item('break', 15), item('sketch', 85), item('lunch', 45), item('storyboard', 80)];
     expect(computeSchedule(at, FULL_DAY, rules).loadPct).toBe(85);
@@ -107,9 +108,9 @@ describe('computeSchedule', () => {
       const w = computeSchedule(long, HALF_DAY, rules).warnings.filter((x) => x.code === 'no_break_stretch');
       expect(w).toHaveLength(1);
       expect(w[0]!.itemIds).toEqual([a.id, b.id]);
-      expect(w[0]!.message).toMatch(/95 min without a break from 13:00/);
+      expect(warningText(w[0]!)).toMatch(/95 min without a break from 13:00/);
       // The screen gives Cairn's reason, not the guides' names.
-      expect(w[0]!.origin).toMatch(/an hour or so without a pause/);
+      expect(ruleText(w[0]!)).toMatch(/an hour or so without a pause/);
     });
 
     it('checks the last stretch of the day as well, and lunch resets the stretch', () => {
@@ -193,7 +194,7 @@ describe('computeSchedule', () => {
         [interview.id, sketch.id],
         [insights.id, sketch.id],
       ]);
-      expect(w[0]!.message).toMatch(/Empathize.*Ideate/);
+      expect(warningText(w[0]!)).toMatch(/Empathize.*Ideate/);
     });
   });
 
@@ -206,7 +207,7 @@ describe('computeSchedule', () => {
     expect(s.endsAt).toBe('17:15');
     const w = s.warnings.find((x) => x.code === 'overruns_window');
     expect(w?.itemIds).toEqual([d.id]);
-    expect(w?.message).toMatch(/15 min after/);
+    expect(warningText(w!)).toMatch(/15 min after/);
   });
 
   describe('day too short', () => {
@@ -257,8 +258,8 @@ describe('computeSchedule', () => {
       new Set(['load_above_ceiling', 'phases_out_of_order', 'no_break_stretch', 'short_lunch', 'talk_too_long', 'overruns_window', 'lunch_off_midday']),
     );
     for (const w of s.warnings) {
-      expect(w.message.length).toBeGreaterThan(10);
-      expect(w.origin.length).toBeGreaterThan(10);
+      expect(warningText(w).length).toBeGreaterThan(10);
+      expect(ruleText(w).length).toBeGreaterThan(10);
     }
   });
 });
@@ -289,7 +290,7 @@ describe('pinned items (times counted by hand)', () => {
     expect(s.items[4]).toMatchObject({ start: '12:45', end: '12:55' });
     const overlap = s.warnings.find((x) => x.code === 'pinned_overlap')!;
     expect(overlap.itemIds).toEqual([items[3]!.id]);
-    expect(overlap.message).toMatch(/run until 12:30: 30 min overlap/);
+    expect(warningText(overlap)).toMatch(/run until 12:30: 30 min overlap/);
   });
 
   it('moving the day keeps a pinned lunch at its time (the day 09:00–16:00)', () => {
@@ -299,7 +300,7 @@ describe('pinned items (times counted by hand)', () => {
     const off = computeSchedule(unpinned, w, rules);
     expect(off.items[3]!.start).toBe('11:00');
     const lunchWarning = off.warnings.find((x) => x.code === 'lunch_off_midday')!;
-    expect(lunchWarning.message).toMatch(/starts at 11:00, outside 11:30–14:00/);
+    expect(warningText(lunchWarning)).toMatch(/starts at 11:00, outside 11:30–14:00/);
     const pinned = unpinned.map((x) => (x.type === 'lunch' ? { ...x, pinnedAt: '12:00' } : x));
     const on = computeSchedule(pinned, w, rules);
     expect(on.items[3]!.start).toBe('12:00');
@@ -313,7 +314,7 @@ describe('pinned items (times counted by hand)', () => {
     const w = computeSchedule(items, FULL_DAY, rules).warnings.filter((x) => x.code === 'no_break_stretch');
     expect(w).toHaveLength(1);
     expect(w[0]!.atItemId).toBe(items[1]!.id);
-    expect(w[0]!.message).toMatch(/A break would fit after “.+” \(ends 11:10\)/);
+    expect(warningText(w[0]!)).toMatch(/A break would fit after “.+” \(ends 11:10\)/);
   });
 });
 

@@ -1,5 +1,6 @@
 import { dayText, percentText } from '../../../shared/words';
-import { typeAndPhase } from '../../../shared/activities';
+import { typeAndPhase } from '../../../shared/wording';
+import { facilitatorWording } from '../../common/catalogs';
 import { contributionsText, voteScoreLabel } from '../../../shared/schemas/results';
 import { partLabel } from '../../../shared/schemas/activities';
 import type { ActivityResult, NoteGroup, NoteResult, ResultSection, WorkshopResults } from '../../../shared/schemas/results';
@@ -123,7 +124,8 @@ function writeSection(w: PdfWriter, s: ResultSection): void {
 /** Writes one activity: its heading, prompt and sections. */
 function writeActivity(w: PdfWriter, a: ActivityResult): void {
   w.heading(`${a.position}. ${a.title}`, 2);
-  w.write(typeAndPhase(a.type, a.phase), { size: 9, color: INK.muted });
+  // The type and phase as the console names them, from the facilitator catalogs in the report's language (English).
+  w.write(typeAndPhase(facilitatorWording('en'), a.type, a.phase), { size: 9, color: INK.muted });
   if (a.prompt) w.write(a.prompt, { size: 9.5, color: INK.muted, gap: 3 });
   for (const s of a.sections) writeSection(w, s);
 }
