@@ -2,6 +2,7 @@ import { http } from './http';
 import type { CreateWorkshopBody, UpdateWorkshopBody, Workshop, WorkshopSummary } from '../../shared/schemas/workshop';
 import type { ActivityType, AgendaItem, AgendaItemInput } from '../../shared/schemas/agenda-item';
 import type { PackingLine } from '../../shared/materials';
+import { newAgendaItem } from '../../shared/activities';
 
 const w = (id: string) => `/workshops/${encodeURIComponent(id)}`;
 
@@ -13,8 +14,11 @@ export const workshopsApi = {
   create: (body: CreateWorkshopBody) => http.post<Workshop>('/workshops', body),
   update: (id: string, body: UpdateWorkshopBody) => http.patch<Workshop>(w(id), body),
   remove: (id: string) => http.delete(w(id)),
-  addItem: (id: string, type: ActivityType, position?: number) =>
-    http.post<AgendaItem>(`${w(id)}/agenda`, { type, position }),
+  /** Adds an item of a type with the library's defaults, titled with the type's name in the screen's language when given. */
+  addItem: (id: string, type: ActivityType, position?: number, title?: string) => {
+    const { id: _id, ...defaults } = newAgendaItem(type, 'new');
+    return http.post<AgendaItem>(`${w(id)}/agenda`, { type, position, ...(title ? { item: { ...defaults, title } } : {}) });
+  },
   updateItem: (id: string, itemId: string, item: AgendaItemInput) =>
     http.put<AgendaItem>(`${w(id)}/agenda/${encodeURIComponent(itemId)}`, item),
   duplicateItem: (id: string, itemId: string) =>

@@ -42,8 +42,8 @@ export const usePlanStore = defineStore('plan', () => {
   }
 
   /** Adds an activity from the library at a position (default: the end). */
-  async function addItem(type: ActivityType, position?: number): Promise<AgendaItem> {
-    const item = await workshopsApi.addItem(workshop.value!.id, type, position);
+  async function addItem(type: ActivityType, position?: number, title?: string): Promise<AgendaItem> {
+    const item = await workshopsApi.addItem(workshop.value!.id, type, position, title);
     const at = position ?? agenda.value.length;
     agenda.value = [...agenda.value.slice(0, at), item, ...agenda.value.slice(at)];
     return item;
