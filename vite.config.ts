@@ -9,6 +9,8 @@ import path from 'node:path';
 import zlib from 'node:zlib';
 import type { Plugin } from 'vite';
 import { LIGHT, cssVariables } from './src/theme/palette';
+import { phoneStylesheet } from './build/phone-stylesheet';
+import { ROUTE_SHELLS } from './server/common/client-assets';
 
 /**
  * Preloads the built font file whose name matches `match` from the HTML shell: the browser otherwise finds
@@ -52,23 +54,58 @@ function paletteInHtml(): Plugin {
  * `preload` links for their styles), so a phone fetches them beside the first script instead of after
  * that script has run: one round trip and one script's run less before the first screen. The server
  * sends them for the routes' paths (server/common/client-assets.ts); every other path gets index.html.
+ *
+ * The shells carry the phone's stylesheet in place of the whole one: the whole stylesheet (the component
+ * library's, the fonts', Cairn's own) cut to the rules that the scripts a phone's routes can load could use
+ * (build/phone-stylesheet.ts), written into the shell itself so that nothing blocks the first paint but the
+ * HTML. Its `data-cairn-whole` names the whole stylesheet, which the router adds before any screen that is
+ * not a phone's (src/theme/whole-stylesheet.ts).
  */
-function routeShells(pages: Record<string, string>): Plugin {
+function routeShells(pages: Record<string, string>, otherPhonePages: string[]): Plugin {
   return {
     name: 'cairn-route-shells',
     apply: 'build',
     generateBundle: {
       // After Vite has put index.html in the bundle.
       order: 'post',
-      handler(_options, bundle) {
+      async handler(_options, bundle) {
         const html = bundle['index.html'];
         const chunks = Object.values(bundle).flatMap((c) => (c.type === 'chunk' ? [c] : []));
         const entry = chunks.find((c) => c.isEntry);
         if (html?.type !== 'asset' || !entry) return this.error('cairn-route-shells: no index.html or entry chunk in the bundle');
+        const chunkOf = (page: string) => chunks.find((c) => c.facadeModuleId?.endsWith(page));
         const inEntry = new Set([entry.fileName, ...entry.imports]);
-        for (const [name, page] of Object.entries(pages)) {
-          const chunk = chunks.find((c) => c.facadeModuleId?.endsWith(page));
+
+        // Every script a phone's routes can run: the first script and what it imports, and each phone page with
+        // everything it imports, now or later (each activity's input).
+        const phoneCode = new Set(inEntry);
+        const reach = (file: string): void => {
+          const c = bundle[file];
+          if (phoneCode.has(file) || c?.type !== 'chunk') return;
+          phoneCode.add(file);
+          [...c.imports, ...c.dynamicImports].forEach(reach);
+        };
+        for (const page of [...Object.values(pages), ...otherPhonePages]) {
+          const chunk = chunkOf(page);
           if (!chunk) return this.error(`cairn-route-shells: no chunk for ${page}`);
+          reach(chunk.fileName);
+        }
+        const wholeCss = [...(entry.viteMetadata?.importedCss ?? [])];
+        const wholeLink = new RegExp(`<link rel="stylesheet" crossorigin href="/${wholeCss[0]?.replace(/[.]/g, '[.]')}">`);
+        const whole = wholeCss.length === 1 ? bundle[wholeCss[0]!] : undefined;
+        if (whole?.type !== 'asset' || !wholeLink.test(String(html.source))) {
+          return this.error('cairn-route-shells: expected one stylesheet for the first script, linked from index.html');
+        }
+        const phoneCss = await phoneStylesheet(
+          String(whole.source),
+          [...phoneCode].map((f) => (bundle[f] as { code: string }).code),
+        );
+        // `</style` cannot occur in a stylesheet's rules; checked so that the shell's markup stays whole.
+        if (/<\/style/i.test(phoneCss)) return this.error('cairn-route-shells: the phone stylesheet holds "</style"');
+        const phoneStyle = `<style data-cairn-whole="/${whole.fileName}">${phoneCss}</style>`;
+
+        for (const [name, page] of Object.entries(pages)) {
+          const chunk = chunkOf(page)!;
           const scripts = new Set<string>();
           const styles = new Set<string>();
           const walk = (file: string): void => {
@@ -83,7 +120,9 @@ function routeShells(pages: Record<string, string>): Plugin {
             ...[...scripts].map((f) => `<link rel="modulepreload" crossorigin href="/${f}">`),
             ...[...styles].map((f) => `<link rel="preload" as="style" href="/${f}">`),
           ].join('\n    ');
-          const source = String(html.source).replace('</head>', `  ${links}\n  </head>`);
+          const source = String(html.source)
+            .replace(wholeLink, () => phoneStyle)
+            .replace('</head>', `  ${links}\n  </head>`);
           this.emitFile({ type: 'asset', fileName: `route-shells/${name}.html`, source });
         }
       },
@@ -99,6 +138,27 @@ function routeShells(pages: Record<string, string>): Plugin {
     },
   };
 }
+
+/**
+ * The service worker's way with a phone route's page (`/join…`, `/phone/<session>`): the route's own shell
+ * from its precache, as the server would send it (with the phone's stylesheet, which index.html does not
+ * carry), or from the network while it is not cached. Workbox writes a route's `urlPattern` and `handler`
+ * into the service worker as their source text, so the server's table of shells goes in as literals.
+ */
+const shellTable = `[${ROUTE_SHELLS.map((s) => `[${String(s.path)}, ${JSON.stringify(`/${s.file}`)}]`).join(', ')}]`;
+const phoneShellRoute = {
+  urlPattern: new Function(
+    '{ request, url, sameOrigin }',
+    `return sameOrigin && request.mode === 'navigate' && ${shellTable}.some(([path]) => path.test(url.pathname));`,
+  ) as (options: { request: Request; url: URL; sameOrigin: boolean }) => boolean,
+  handler: new Function(
+    '{ request, url }',
+    `const shell = ${shellTable}.find(([path]) => path.test(url.pathname))[1];
+    return caches.match(shell, { ignoreSearch: true }).then((cached) => cached || fetch(request));`,
+  ) as (options: { request: Request; url: URL }) => Promise<Response>,
+};
+/** The same paths kept from the precached index.html's navigation route (with or without a query). */
+const shellPaths = ROUTE_SHELLS.map((s) => new RegExp(s.path.source.replace(/\$$/, '(?:\\?|$)')));
 
 const serverPort = Number(process.env.PORT ?? 3000);
 
@@ -166,11 +226,13 @@ export default defineConfig({
       },
       workbox: {
         // Only the shell is fetched ahead: a phone on a crowded Wi-Fi never downloads the console's code.
-        globPatterns: ['index.html'],
+        // The phone routes' own shells too (routeShells above): a phone's page carries the phone's stylesheet.
+        globPatterns: ['index.html', 'route-shells/*.html'],
         navigateFallback: 'index.html',
         // The API, the socket and downloads go to the network, never to a cached page.
-        navigateFallbackDenylist: [/^\/api\//, /^\/socket\.io\//, /^\/assets\//],
+        navigateFallbackDenylist: [/^\/api\//, /^\/socket\.io\//, /^\/assets\//, ...shellPaths],
         runtimeCaching: [
+          phoneShellRoute,
           {
             // Hashed files never change: once fetched, the copy is the file.
             urlPattern: ({ url, sameOrigin }) => sameOrigin && url.pathname.startsWith('/assets/'),
@@ -185,7 +247,7 @@ export default defineConfig({
     }),
     // The regular weight sets every screen's body text, the phone's prompt and the join form included.
     preloadFont(/source-sans-3-latin-400-normal-[^/]*\.woff2$/),
-    routeShells({ join: '/src/pages/join.vue', phone: '/src/pages/phone.vue' }),
+    routeShells({ join: '/src/pages/join.vue', phone: '/src/pages/phone.vue' }, ['/src/pages/phone-data.vue']),
     // Brotli and gzip copies beside each text asset, served as they are by express-static-gzip (server/app.ts).
     compression({ algorithms: ['brotliCompress', 'gzip'], include: /\.(js|mjs|css|html|svg|json|webmanifest|txt)$/, threshold: 512 }),
   ],

@@ -38,6 +38,9 @@ test('a phone never asks for the sign-in cookie, keeps its shell, shows its scre
   await page.reload();
   await expect(page.getByTestId('phone-activity')).toHaveText(second);
   await expect(page.getByTestId('connection')).toHaveText('Reconnecting…');
+  // From the cache the phone page's own shell, with the phone's stylesheet in it: the component library's rules apply.
+  await expect(page.locator('style[data-cairn-whole]')).toHaveCount(1);
+  expect(await page.locator('.q-page').first().evaluate((e) => getComputedStyle(e).position)).toBe('relative');
   const third = await goto(2);
 
   // Back online: the socket connects and the phone catches up with what it missed.
@@ -53,4 +56,34 @@ test('a phone never asks for the sign-in cookie, keeps its shell, shows its scre
   facilitator.disconnect();
   await context.close();
   await request.post(`/api/workshops/${workshopId}/live/stop`, { headers: auth });
+});
+
+test("a phone route's page carries the phone's part of the stylesheet; a screen that is not a phone's gets the whole one", async ({ page, request }) => {
+  const shell = await (await request.get('/join')).text();
+  const whole = /<style data-cairn-whole="(\/assets\/index-[^"]+\.css)">/.exec(shell)?.[1];
+  expect(whole, 'the /join shell names the whole stylesheet').toBeTruthy();
+  // The page does not wait for the whole stylesheet: it is not linked, and every other path's shell links it.
+  expect(shell).not.toContain(`href="${whole}"`);
+  expect(await (await request.get('/sign-in')).text()).toContain(`<link rel="stylesheet" crossorigin href="${whole}">`);
+  const phoneCss = /<style data-cairn-whole="[^"]+">([\s\S]*?)<\/style>/.exec(shell)![1]!;
+  const wholeCss = await (await request.get(whole!)).text();
+  expect(phoneCss.length).toBeLessThan(wholeCss.length / 2);
+
+  const asked: string[] = [];
+  page.on('request', (r) => asked.push(new URL(r.url()).pathname));
+  await page.setViewportSize({ width: 360, height: 640 });
+  await page.goto('/join');
+  await expect(page.getByTestId('join-code')).toBeVisible();
+  expect(asked).not.toContain(whole);
+  // The join form is laid out by the component library's rules: the outlined field's control is a flex box.
+  expect(await page.locator('.join-form .q-field__control').first().evaluate((e) => getComputedStyle(e).display)).toBe('flex');
+
+  // Off to a facilitator's screen without a new page (as a link in the app would): the whole stylesheet comes first.
+  await page.evaluate(() => {
+    history.pushState(null, '', '/sign-in');
+    dispatchEvent(new PopStateEvent('popstate'));
+  });
+  await expect(page.getByTestId('submit')).toBeVisible();
+  expect(asked).toContain(whole);
+  expect(await page.locator(`link[rel=stylesheet][href="${whole}"]`).evaluate((l: HTMLLinkElement) => l.sheet !== null)).toBe(true);
 });

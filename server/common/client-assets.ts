@@ -52,7 +52,7 @@ export function hashedAssets(distDir: string): express.RequestHandler {
  * The phone routes' own HTML shells (written by the build's `routeShells` in vite.config.ts): the shell
  * with the route's page and its files preloaded. `/phone/<session>/my-data` and every other path get index.html.
  */
-const ROUTE_SHELLS: readonly { path: RegExp; file: string }[] = [
+export const ROUTE_SHELLS: readonly { path: RegExp; file: string }[] = [
   { path: /^\/join(?:\/[^/]+)?\/?$/, file: 'route-shells/join.html' },
   { path: /^\/phone\/[^/]+\/?$/, file: 'route-shells/phone.html' },
 ];

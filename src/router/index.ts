@@ -4,6 +4,7 @@ import { useSessionStore } from '../stores/session';
 import PhoneLayout from '../layouts/PhoneLayout.vue';
 import { loadFacilitatorMessages, phoneLocale, setLocale } from '../i18n';
 import { installFacilitatorQuasar } from '../quasar-later';
+import { wholeStylesheet } from '../theme/whole-stylesheet';
 
 /**
  * Route meta: `public` routes need no sign-in; `admin` routes need the admin role; `phone` routes are a
@@ -76,12 +77,13 @@ export function createCairnRouter() {
   router.beforeEach(async (to) => {
     // A phone speaks its participant's language; the projector page takes its session's (live-projector.vue);
     // the facilitator's screens are English.
+    // A screen that is not a phone's needs the whole stylesheet, which a phone route's shell leaves out.
     if (to.meta.phone) await setLocale(phoneLocale());
     else if (to.name !== 'live-projector') {
-      await Promise.all([setLocale('en').then(loadFacilitatorMessages), installFacilitatorQuasar()]);
+      await Promise.all([setLocale('en').then(loadFacilitatorMessages), installFacilitatorQuasar(), wholeStylesheet()]);
     }
     // The projector's screen uses the facilitator's Quasar parts too (live-projector.vue sets its own language).
-    if (to.name === 'live-projector') await installFacilitatorQuasar();
+    if (to.name === 'live-projector') await Promise.all([installFacilitatorQuasar(), wholeStylesheet()]);
     // A phone has no account: asking for the sign-in cookie would only cost it a round trip and a 401.
     if (to.meta.phone) return true;
     const session = useSessionStore();
