@@ -46,8 +46,9 @@ export interface Database {
    * batched writes waiting at that moment (group commit), for hot paths such as votes. `fn` must do
    * its checks before it writes and return a refusal as a value: anything thrown rolls the whole
    * batch back and every caller in it gets the error; `onRollback` lets a caller forget what it cached.
+   * `windowMs`: how long a batch this write opens waits for others to join it (default BATCH_WINDOW_MS).
    */
-  batchTx<T>(fn: (t: Transaction) => Promise<T>, onRollback?: () => void): Promise<T>;
+  batchTx<T>(fn: (t: Transaction) => Promise<T>, onRollback?: () => void, windowMs?: number): Promise<T>;
   /**
    * Prepared statements on the writer connection of a writeTx/batchTx transaction, for the hottest
    * writes: no query building, no model instances, the statement compiled once.
@@ -200,6 +201,8 @@ export async function openDatabase(storage: string): Promise<Database> {
         onRollback?: () => void;
         /** When it was queued (performance.now()). */
         at: number;
+        /** How long a batch it opens waits for others. */
+        windowMs: number;
       };
   const pending: Entry[] = [];
   const commitHooks = new WeakMap<Transaction, (() => Promise<void>)[]>();
@@ -264,7 +267,7 @@ export async function openDatabase(storage: string): Promise<Database> {
           await head.run();
           continue;
         }
-        const wait = head.at + BATCH_WINDOW_MS - performance.now();
+        const wait = head.at + head.windowMs - performance.now();
         if (wait > 0) await new Promise((resolve) => setTimeout(resolve, wait));
         const batch: Extract<Entry, { solo: false }>[] = [];
         while (batch.length < MAX_BATCH && pending.length > 0 && !pending[0]!.solo) batch.push(pending.shift() as Extract<Entry, { solo: false }>);
@@ -302,9 +305,9 @@ export async function openDatabase(storage: string): Promise<Database> {
       });
       void drain();
     });
-  const batchTx = <T>(fn: (t: Transaction) => Promise<T>, onRollback?: () => void): Promise<T> =>
+  const batchTx = <T>(fn: (t: Transaction) => Promise<T>, onRollback?: () => void, windowMs = BATCH_WINDOW_MS): Promise<T> =>
     new Promise<T>((resolve, reject) => {
-      pending.push({ solo: false, fn, resolve: resolve as (v: unknown) => void, reject, onRollback, at: performance.now() });
+      pending.push({ solo: false, fn, resolve: resolve as (v: unknown) => void, reject, onRollback, at: performance.now(), windowMs });
       void drain();
     });
   const raw = (t: Transaction): RawStatements => {

@@ -44,6 +44,15 @@ const BALLOT_ERROR: Record<BallotErrorCode, ErrorCode> = {
   not_a_count: 'bad_request',
 };
 
+/**
+ * How long the first dot of a group commit waits for others (server/db batchTx): twice the writer's
+ * default. At a room's pace on a quiet server (about a thousand dots a second) it makes batches of about
+ * 16 instead of 8, and a batch's fixed cost (begin, the change check, two writes, commit, each a trip to
+ * SQLite's thread) is shared by twice as many dots: about 0.06 ms less CPU a dot, for 8 ms more on an
+ * acknowledgement. A busy server fills its batches without waiting, and a phone's join keeps the default.
+ */
+const DOT_BATCH_WINDOW_MS = 16;
+
 /** Who asks for results: the facilitators see them any time, everyone else once they are revealed. */
 export type ResultsAsker = 'runner' | 'screen';
 
@@ -235,6 +244,7 @@ export class VotingService {
       },
       // The batch rolled back: what the ledgers learnt from it is not stored, so they are read again.
       () => this.ledgers.forget(),
+      DOT_BATCH_WINDOW_MS,
     );
     if ('refused' in outcome) throw outcome.refused;
     if (outcome.applied) this.afterBallot(sessionId, participantId, outcome.answer.mine, fromSocket);
