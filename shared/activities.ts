@@ -522,12 +522,12 @@ export function notePartsFor(type: ActivityType, settings: ActivitySettings): re
 /**
  * Why a phone's note of a kind cannot go to an activity of a type, or `null` when it can: a talk, a
  * break or a vote takes no notes, and each other activity only its own kinds.
- * @example noteRefusal('break', 'note') // 'This activity takes no notes'
+ * @example noteRefusal('break', 'note') // 'note_not_taken' (a reason of shared/reasons.ts)
  */
-export function noteRefusal(type: ActivityType, kind: SubmissionInput['kind']): string | null {
+export function noteRefusal(type: ActivityType, kind: SubmissionInput['kind']): 'note_not_taken' | 'note_other_kind' | null {
   const kinds = ACTIVITY_LIBRARY[type].noteKinds;
   if (kinds.includes(kind)) return null;
-  return kinds.length === 0 ? 'This activity takes no notes' : 'This activity takes other kinds of notes';
+  return kinds.length === 0 ? 'note_not_taken' : 'note_other_kind';
 }
 
 /**

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import type { ErrorCode, ErrorParams, ErrorReason } from './errors';
+import type { ErrorCode, ErrorParams, ErrorReason, FieldIssue } from './errors';
 import { LOCALES } from './locales';
 import { SubmissionInput, type LiveState, type Me, type ParticipantView, type ScreenState, type SubmissionView } from './schemas/live';
 import { FormTeamsPayload, SetTeamsPayload, type Team } from './schemas/team';
@@ -19,7 +19,7 @@ import {
 import { ActivityPayloads, type ActivityBoard, type PromotedOption, type NoteView, type RoundView, type ThemeView } from './schemas/activities';
 
 /** Every socket command answers through an acknowledgement of this shape. */
-export type Ack<T> = { data: T } | { error: { code: ErrorCode; message: string; reason?: ErrorReason; params?: ErrorParams } };
+export type Ack<T> = { data: T } | { error: { code: ErrorCode; message: string; reason?: ErrorReason; params?: ErrorParams; fieldIssues?: Record<string, FieldIssue> } };
 /** The acknowledgement callback of a command. */
 export type AckFn<T> = (answer: Ack<T>) => void;
 

@@ -1,5 +1,6 @@
 import type { Criterion } from './schemas/agenda-item';
 import { countOf } from './words';
+import { because, type Why } from './reasons';
 import { finite, whole } from './numbers';
 
 /** The rules of one dot vote, e.g. `{ dotsPerVoter: 5, capPerOption: 2, allowStacking: true, criteria: [] }`. */
@@ -24,7 +25,7 @@ export type DotChange = { optionId: string; criterionId: string; delta: number }
 export type BallotErrorCode = 'budget_exceeded' | 'cap_exceeded' | 'stacking_off' | 'negative' | 'unknown_criterion' | 'not_a_count';
 
 /** The answer of {@link checkBallot}. */
-export type BallotCheck = { ok: true } | { ok: false; code: BallotErrorCode; message: string };
+export type BallotCheck = { ok: true } | { ok: false; code: BallotErrorCode; message: string; why: Why };
 
 /** One option's line in a tally. */
 export type TallyRow = {
@@ -67,9 +68,8 @@ export function criterionIds(rules: Pick<DotVoteRules, 'criteria'>): string[] {
   return rules.criteria.length > 0 ? rules.criteria.map((c) => c.id) : [OVERALL_CRITERION];
 }
 
-function criterionLabel(rules: DotVoteRules, criterionId: string): string {
-  const criterion = rules.criteria.find((c) => c.id === criterionId);
-  return criterion ? ` for ${criterion.label}` : '';
+function criterionOf(rules: DotVoteRules, criterionId: string): string | null {
+  return rules.criteria.find((c) => c.id === criterionId)?.label ?? null;
 }
 
 /**
@@ -81,10 +81,10 @@ function criterionLabel(rules: DotVoteRules, criterionId: string): string {
  */
 export function checkBallot(rules: DotVoteRules, existingDotsOfVoter: Dot[], change: DotChange): BallotCheck {
   if (!Number.isInteger(change.delta)) {
-    return { ok: false, code: 'not_a_count', message: 'Add or take back whole dots.' };
+    return { ok: false, code: 'not_a_count', message: 'Add or take back whole dots.', why: because('dot_whole') };
   }
   if (!criterionIds(rules).includes(change.criterionId)) {
-    return { ok: false, code: 'unknown_criterion', message: 'This vote has no such criterion.' };
+    return { ok: false, code: 'unknown_criterion', message: 'This vote has no such criterion.', why: because('dot_criterion_unknown') };
   }
   let onOption = 0;
   let spent = 0;
@@ -95,27 +95,34 @@ export function checkBallot(rules: DotVoteRules, existingDotsOfVoter: Dot[], cha
   }
   const after = onOption + change.delta;
   if (after < 0) {
-    return { ok: false, code: 'negative', message: 'There is no dot there to take back.' };
+    return { ok: false, code: 'negative', message: 'There is no dot there to take back.', why: because('dot_none_back') };
   }
   // Taking dots back must stay possible even if the rules were tightened after the dots were placed.
   if (change.delta <= 0) return { ok: true };
-  const where = criterionLabel(rules, change.criterionId);
+  // The criterion's own name, as the facilitator wrote it, when the vote has criteria.
+  const criterion = criterionOf(rules, change.criterionId);
+  const where = criterion ? ` for ${criterion}` : '';
   if (!rules.allowStacking && after > 1) {
-    return { ok: false, code: 'stacking_off', message: `One dot per option${where} in this vote.` };
+    const why = criterion ? because('dot_one_each_for', { criterion }) : because('dot_one_each');
+    return { ok: false, code: 'stacking_off', message: `One dot per option${where} in this vote.`, why };
   }
   if (after > rules.capPerOption) {
+    const count = rules.capPerOption;
     return {
       ok: false,
       code: 'cap_exceeded',
-      message: `At most ${countOf(rules.capPerOption, 'dot')} on one option${where}.`,
+      message: `At most ${countOf(count, 'dot')} on one option${where}.`,
+      why: criterion ? because('dot_cap_for', { count, criterion }) : because('dot_cap', { count }),
     };
   }
   if (spent + change.delta > rules.dotsPerVoter) {
     const left = Math.max(0, rules.dotsPerVoter - spent);
+    const count = rules.dotsPerVoter;
     return {
       ok: false,
       code: 'budget_exceeded',
-      message: `You have ${countOf(rules.dotsPerVoter, 'dot')}${where} and ${left} left.`,
+      message: `You have ${countOf(count, 'dot')}${where} and ${left} left.`,
+      why: criterion ? because('dot_budget_for', { count, left, criterion }) : because('dot_budget', { count, left }),
     };
   }
   return { ok: true };

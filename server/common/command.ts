@@ -2,7 +2,7 @@ import type { Socket } from 'socket.io';
 import { ZodObject, type z } from 'zod';
 import { AppError, because, errors } from './errors';
 import type { Logger } from 'pino';
-import { fieldErrors } from '../../shared/errors';
+import { fieldErrors, fieldIssues } from '../../shared/errors';
 import {
   COMMANDS,
   type Ack,
@@ -64,12 +64,23 @@ export function parsePayload<S extends z.ZodType>(event: string, schema: S, valu
   if (r.success) return r.data;
   if ((typeof value !== 'object' || value === null || Array.isArray(value)) && schema instanceof ZodObject) {
     const fields = Object.keys(schema.shape as object);
-    throw new AppError(400, 'validation_failed', `${event} needs an object${fields.length ? ` with ${fields.join(', ')}` : ''}`);
+    throw new AppError(400, 'validation_failed', `${event} needs an object${fields.length ? ` with ${fields.join(', ')}` : ''}`, undefined, because('payload_invalid', { field: '_' }));
   }
-  const message = Object.entries(fieldErrors(r.error))
+  return refuseFields(r.error);
+}
+
+/**
+ * Refuses a socket payload (or a phone's fields) its schema did not take: the English message names each field
+ * for logs and API clients; the reason names the first field's dotted path (`_` for the payload as a whole) and
+ * `fieldIssues` carry each field's code and limits, for the phone and the console to word in their language.
+ */
+export function refuseFields(error: z.ZodError): never {
+  const message = Object.entries(fieldErrors(error))
     .map(([field, problem]) => (field === '_' ? problem : `${field}: ${problem}`))
     .join('; ');
-  throw new AppError(400, 'validation_failed', message || 'The payload is not valid');
+  const issues = fieldIssues(error);
+  const field = Object.keys(issues)[0] ?? '_';
+  throw new AppError(400, 'validation_failed', message || 'The payload is not valid', undefined, { ...because('payload_invalid', { field }), fieldIssues: issues });
 }
 
 /** Whether a kind of socket may ever send a command of this access (the rest get one shared refusal). */
@@ -185,7 +196,8 @@ export class SocketCommands {
   /** Answers a failed command: an AppError with its code (and reason), anything else as `internal`, logged. */
   private fail(event: Command, ack: unknown, err: unknown): void {
     if (err instanceof AppError) {
-      reply(ack, { error: { code: err.code, message: err.message, ...(err.detail?.reason ? { reason: err.detail.reason } : {}), ...(err.detail?.params ? { params: err.detail.params } : {}) } });
+      const { reason, params, fieldIssues: issues } = err.detail ?? {};
+      reply(ack, { error: { code: err.code, message: err.message, ...(reason ? { reason } : {}), ...(params ? { params } : {}), ...(issues ? { fieldIssues: issues } : {}) } });
     } else {
       this.logger.error({ err, event }, 'socket command failed');
       reply(ack, { error: { code: 'internal', message: 'Something went wrong on the server' } });
@@ -204,7 +216,7 @@ export class SocketCommands {
       return { sessionId: '', participantId: null };
     }
     if (need === 'participant' || (need === 'screen' && data.kind === 'participant')) {
-      if (!participant) throw errors.forbidden(data.kind === 'participant' ? 'Join the session again' : 'Only participants can do that');
+      if (!participant) throw data.kind === 'participant' ? errors.forbidden('Join the session again', because('not_in_session')) : errors.forbidden('Only participants can do that');
       return { sessionId: participant.sessionId, participantId: participant.id };
     }
     if (need === 'screen' && data.kind === 'display') {

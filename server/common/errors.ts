@@ -64,7 +64,7 @@ export const errors = {
   notFound: (thing: Missing) => new AppError(404, 'not_found', `${MISSING[thing]} was not found`, undefined, because(`${thing}_missing`)),
   conflict: (message: string, why?: Why) => new AppError(409, 'conflict', message, undefined, why),
   /** A participant token whose participant is no longer in the session (removed, data deleted). */
-  notInSession: () => new AppError(403, 'forbidden', 'You are not in this session any more; join again'),
+  notInSession: () => new AppError(403, 'forbidden', 'You are not in this session any more; join again', undefined, because('not_in_session')),
   /** A command on a live session that has ended. */
   sessionEnded: () => new AppError(409, 'session_ended', 'This live session has ended'),
   /** A phone's input refused by the input gate (shared/input-gate.ts), with the one message of its code. */

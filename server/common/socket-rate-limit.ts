@@ -83,7 +83,7 @@ export function limitSocketEvents(socket: Socket, budget: EventBudget = PHONE_EV
     }
     const ack = packet[packet.length - 1];
     if (typeof ack === 'function') {
-      (ack as (a: unknown) => void)({ error: { code: 'rate_limited', message: 'Too many actions at once; wait a moment' } });
+      (ack as (a: unknown) => void)({ error: { code: 'rate_limited', message: 'Too many actions at once; wait a moment', reason: 'too_many_actions' } });
     }
   });
 }

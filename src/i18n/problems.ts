@@ -28,6 +28,10 @@ const say = (key: string, params: Params = {}, plural?: number): string =>
 export function problemText(err: unknown, fallback: string): string {
   if (!(err instanceof ClientError)) return fallback;
   const { reason, params } = err.detail;
+  // A rejected input (a form's, or a socket payload's `payload_invalid`) says its first field by name and what is
+  // wrong with it: "Title: Keep this to 120 characters or fewer".
+  const field = namedField(err.detail.fieldIssues ?? {});
+  if (field) return field;
   if (reason) {
     // A message with plural forms counts by its `n` or `count`.
     const count = params?.n ?? params?.count;
@@ -37,9 +41,19 @@ export function problemText(err: unknown, fallback: string): string {
     if (known(`error.${reason}`)) return say(`error.${reason}`, params, plural);
   }
   // An `internal` error the client made itself (status 0, no reason) carries the screen's own fallback.
-  if (err.code === 'internal' && err.status === 0) return err.message || fallback;
-  if (err.code !== 'internal' && known(`problemCode.${err.code}`)) return say(`problemCode.${err.code}`);
+  if (err.code === 'internal' && err.status === 0) return fallback || err.message;
+  // The server's own failure (`internal` with a status) says so in the screen's words, never the server's English.
+  if (known(`problemCode.${err.code}`)) return say(`problemCode.${err.code}`);
   return fallback;
+}
+
+/** The first rejected field the catalogs have a name for (`problemFieldName.<last key>`), with its problem, or `null`. */
+function namedField(issues: Record<string, FieldIssue>): string | null {
+  for (const [path, issue] of Object.entries(issues)) {
+    const last = path.split('.').at(-1) ?? path;
+    if (known(`problemFieldName.${last}`)) return say('problemFieldName.said', { field: say(`problemFieldName.${last}`), problem: issueText(path, issue) });
+  }
+  return null;
 }
 
 /**

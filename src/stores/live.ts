@@ -7,6 +7,7 @@ import type { Team } from '../../shared/schemas/team';
 import { connectSocket, emitCommand, type CairnSocket } from '../socket/client';
 import { newId } from '../socket/ids';
 import { ClientError } from '../api/errors';
+import { errorText } from '../i18n/errors';
 import { useOutboxStore } from './outbox';
 
 /** The facilitator's commands that answer with the whole live state. */
@@ -95,7 +96,10 @@ export const useLiveStore = defineStore('live', () => {
     } catch {
       throw new ClientError('timeout', 'The server did not answer in time');
     }
-    if ('error' in answer) throw new ClientError(answer.error.code, answer.error.message, 0, {}, { reason: answer.error.reason, params: answer.error.params });
+    if ('error' in answer) {
+      const { code, message, reason, params, fieldIssues } = answer.error;
+      throw new ClientError(code, message, 0, {}, { reason, params, fieldIssues });
+    }
     return answer.data;
   }
 
@@ -156,7 +160,7 @@ export const useLiveStore = defineStore('live', () => {
         await clock;
         attached.value += 1;
       } catch (err) {
-        connectError.value = err instanceof ClientError ? err.message : 'Could not reach the session';
+        connectFailure.value = err instanceof ClientError ? err : new ClientError('network', 'Could not reach the session');
       }
     });
     s.on('disconnect', () => {
@@ -164,13 +168,15 @@ export const useLiveStore = defineStore('live', () => {
     });
     s.on('connect_error', (err) => {
       connected.value = false;
-      connectError.value = err.message;
+      // The handshake's refusal names a code (server/app.ts: `unauthenticated`, `token_expired`, `token_invalid`); anything else is the network's.
+      const code = err.message === 'token_expired' ? 'token_expired' : err.message === 'unauthenticated' || err.message.startsWith('token_') ? 'unauthenticated' : 'network';
+      connectFailure.value = new ClientError(code, err.message);
     });
     s.on('session:updated', accept);
     s.on('session:messaged', (m) => (lastMessage.value = m));
     s.on('session:ended', () => (ended.value = true));
     // The account lost its rights while this screen was open (signed out, disabled, removed): say why.
-    s.on('access:revoked', (p) => (connectError.value = p.message));
+    s.on('access:revoked', (p) => (connectFailure.value = new ClientError('forbidden', p.message, 0, {}, { reason: `revoked_${p.reason}` })));
     s.on('participants:updated', (p) => (participants.value = p));
     s.on('teams:updated', (t) => {
       teams.value = t;
@@ -186,7 +192,10 @@ export const useLiveStore = defineStore('live', () => {
     // Every few minutes, re-estimate the offset: clocks drift and the first sync may have been unlucky.
     clockTimer = setInterval(() => void (connected.value && syncClock(3)), 120_000);
   }
-  const connectError = ref<string | null>(null);
+  /** Why the socket could not connect or lost its rights, as an error the screen words in its language. */
+  const connectFailure = shallowRef<ClientError | null>(null);
+  /** What the screen says about it, in the screen's language (never the server's English). */
+  const connectError = computed(() => (connectFailure.value ? errorText(connectFailure.value, 'error.network') : null));
   let clockTimer: ReturnType<typeof setInterval> | undefined;
 
   /** Forgets everything of the session this screen showed before, so nothing of it shows in the next one. */
@@ -201,7 +210,7 @@ export const useLiveStore = defineStore('live', () => {
     pagesShown.value = null;
     pageTurn.value = null;
     outbox.close();
-    connectError.value = null;
+    connectFailure.value = null;
     lastSeenKey = '';
   }
 

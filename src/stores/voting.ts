@@ -14,6 +14,7 @@ import { castDot } from '../../shared/votes';
 import type { CairnSocket } from '../socket/client';
 import { newId } from '../socket/ids';
 import { ClientError } from '../api/errors';
+import { errorText } from '../i18n/errors';
 import { useLiveStore } from './live';
 import { useOutboxStore } from './outbox';
 
@@ -31,7 +32,9 @@ export const useVotingStore = defineStore('voting', () => {
   const teams = ref<Team[]>([]);
   const proposal = ref<TeamProposal | null>(null);
   const connected = ref(false);
-  const problem = ref<string | null>(null);
+  /** The last failure to read the vote, worded in the screen's language as `problem`. */
+  const failure = shallowRef<unknown>(null);
+  const problem = computed(() => (failure.value === null ? null : errorText(failure.value, 'error.network')));
   const socket = shallowRef<CairnSocket | null>(null);
   /** The item the screen shows; answers and broadcasts about another item are ignored. */
   const itemId = ref<string | null>(null);
@@ -84,7 +87,7 @@ export const useVotingStore = defineStore('voting', () => {
       const now = vote.value;
       // A broadcast heard meanwhile is at least as new as this answer; the answer still brings this phone's ballot.
       vote.value = heard !== before && now?.itemId === v.itemId ? { ...now, mine: now.mine ?? v.mine } : v;
-      problem.value = null;
+      failure.value = null;
       if (withResults && v.ready) {
         const r = await ask('vote:results');
         if (r.itemId === itemId.value) results.value = r;
@@ -93,7 +96,7 @@ export const useVotingStore = defineStore('voting', () => {
     } catch (err) {
       // The item moved on under us; the next refresh reads the new one.
       if (err instanceof ClientError && err.code === 'conflict') return;
-      problem.value = err instanceof ClientError ? err.message : 'Could not read the vote';
+      failure.value = err;
     }
   }
 
@@ -125,7 +128,7 @@ export const useVotingStore = defineStore('voting', () => {
       try {
         if (itemId.value) await refresh(itemId.value, wantResults);
       } catch (err) {
-        problem.value = err instanceof ClientError ? err.message : 'Could not reach the session';
+        failure.value = err;
       }
     };
     stopAttached = watch(
@@ -172,7 +175,7 @@ export const useVotingStore = defineStore('voting', () => {
     const v = vote.value;
     if (!v || !v.mine) return;
     const cast = castDot(v.rules, v.mine.dots.map((d) => ({ ...d, voterId: 'me' })), 'me', { optionId, criterionId, delta });
-    if (!cast.ok) throw new ClientError(cast.code, cast.message);
+    if (!cast.ok) throw new ClientError(cast.code, cast.message, 0, {}, cast.why);
     const nextDots = cast.dots.map(({ optionId: o, criterionId: c, count }) => ({ optionId: o, criterionId: c, count }));
     vote.value = { ...v, mine: { ...v.mine, dots: nextDots } };
     try {

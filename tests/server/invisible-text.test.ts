@@ -35,9 +35,9 @@ describe('text made only of invisible characters', () => {
 
   it('is refused as a note and as a theme name', async () => {
     const note = await command(phone, 'submission:create', { clientId: 'invisible-note-1', itemId: insightsId, kind: 'note', text: INVISIBLE });
-    expect(note).toEqual({ error: { code: 'validation_failed', message: expect.stringMatching(/text: .*only invisible characters/) } });
+    expect(note).toMatchObject({ error: { code: 'validation_failed', message: expect.stringMatching(/text: .*only invisible characters/), params: { field: 'text' } } });
     const theme = await command(facilitator, 'themes:create', { itemId: insightsId, name: `${INVISIBLE} \u00A0`, noteIds: [] });
-    expect(theme).toEqual({ error: { code: 'validation_failed', message: expect.stringMatching(/name: .*only invisible characters/) } });
+    expect(theme).toMatchObject({ error: { code: 'validation_failed', message: expect.stringMatching(/name: .*only invisible characters/), params: { field: 'name' } } });
   });
 });
 

@@ -62,7 +62,7 @@ describe('guessing join codes', () => {
       .set('X-Forwarded-For', guesser)
       .send({ displayName: 'Guess', photoConsent: false, deviceId: newDeviceId() });
     expect(again.status).toBe(429);
-    expect(again.body.error).toEqual({ code: 'rate_limited', message: expect.stringMatching(/too many tries/i) });
+    expect(again.body.error).toEqual({ code: 'rate_limited', message: expect.stringMatching(/too many tries/i), reason: 'join_tries_network' });
     // …while another address is not.
     const other = await t.agent.get(`/api/join/${info.joinCode}`).set('X-Forwarded-For', '203.0.113.40').set('X-Cairn-Device', newDeviceId());
     expect(other.status).toBe(200);

@@ -232,7 +232,8 @@ describe('payload validation', () => {
     ['session:sync', 'now'],
   ] as const)('answers %s with %j by validation_failed', async (event, payload) => {
     const answer = await command(facilitator, event, payload);
-    expect(answer).toEqual({ error: { code: 'validation_failed', message: expect.any(String) } });
+    // The reason names the first rejected field for the screens to word; the English message is for logs.
+    expect(answer).toMatchObject({ error: { code: 'validation_failed', message: expect.any(String), reason: 'payload_invalid', params: { field: expect.any(String) } } });
   });
 
   it.each([
@@ -241,12 +242,25 @@ describe('payload validation', () => {
     ['a short clientId', { clientId: 'x', itemId: 'x', kind: 'note', text: 'Hi' }],
     ['no object at all', 'Dock was full'],
   ])('answers a submission with %s by validation_failed', async (_name, payload) => {
-    expect(await command(phoneA, 'submission:create', payload)).toEqual({ error: { code: 'validation_failed', message: expect.any(String) } });
+    expect(await command(phoneA, 'submission:create', payload)).toMatchObject({ error: { code: 'validation_failed', message: expect.any(String), reason: 'payload_invalid' } });
   });
 
   it('names the field in the message', async () => {
     const answer = await command(phoneA, 'submission:create', { clientId: 'validation-3', itemId: 'x', kind: 'note', text: '' });
     expect(answer).toMatchObject({ error: { message: 'text: Write something first' } });
+  });
+
+  it('names the field as a reason with its path, and its problem as a code, for the phone to word', async () => {
+    const answer = await command(phoneA, 'submission:create', { clientId: 'validation-4', itemId: 'x', kind: 'note', text: 'x'.repeat(501) });
+    expect(answer).toEqual({
+      error: {
+        code: 'validation_failed',
+        message: expect.stringContaining('text: '),
+        reason: 'payload_invalid',
+        params: { field: 'text' },
+        fieldIssues: { text: { code: 'too_big', params: { max: 500, of: 'string' } } },
+      },
+    });
   });
 });
 

@@ -38,7 +38,7 @@ describe('notes on an item that takes none', () => {
       const state = await commandData(facilitator, 'session:goto', { index: types.indexOf(type) });
       for (const kind of ['note', 'reflection', 'feedback', 'frame', 'point_of_view'] as const) {
         const answer = await send(state.item!.id, { kind });
-        expect(answer).toEqual({ error: { code: 'bad_request', message: 'This activity takes no notes' } });
+        expect(answer).toEqual({ error: { code: 'bad_request', message: 'This activity takes no notes', reason: 'note_not_taken' } });
       }
     }
     expect(await t.cairn.ctx.db.models.Submission.count({ where: { sessionId: info.sessionId } })).toBe(0);
@@ -47,7 +47,7 @@ describe('notes on an item that takes none', () => {
   it('takes only its own kinds elsewhere, derived from the activity library', async () => {
     for (const type of ActivityType.options) expect(Array.isArray(ACTIVITY_LIBRARY[type].noteKinds)).toBe(true);
     const state = await commandData(facilitator, 'session:goto', { index: types.indexOf('insights') });
-    expect(await send(state.item!.id, { kind: 'reflection' })).toEqual({ error: { code: 'bad_request', message: 'This activity takes other kinds of notes' } });
+    expect(await send(state.item!.id, { kind: 'reflection' })).toEqual({ error: { code: 'bad_request', message: 'This activity takes other kinds of notes', reason: 'note_other_kind' } });
     expect(await send(state.item!.id)).toMatchObject({ data: { duplicate: false } });
   });
 });
@@ -57,7 +57,7 @@ describe('the fields of a note', () => {
     const state = await commandData(facilitator, 'session:goto', { index: types.indexOf('insights') });
     const fields = Object.fromEntries(Array.from({ length: 9 }, (_, i) => [`f${i}`, 'x'.repeat(300)]));
     const answer = await send(state.item!.id, { fields });
-    expect(answer).toEqual({ error: { code: 'validation_failed', message: 'fields: A note carries at most 8 fields' } });
+    expect(answer).toMatchObject({ error: { code: 'validation_failed', message: 'fields: A note carries at most 8 fields', reason: 'payload_invalid', params: { field: 'fields' } } });
     const many = Object.fromEntries(Array.from({ length: 500 }, (_, i) => [`f${i}`, 'x'.repeat(300)]));
     expect(await send(state.item!.id, { fields: many })).toMatchObject({ error: { code: 'validation_failed' } });
   });

@@ -2,12 +2,12 @@ import crypto from 'node:crypto';
 import type { Transaction } from 'sequelize';
 import type { AppContext } from '../../context';
 import type { ActivityStateRow, AgendaItemRow, ParticipantRow, PhotoRow, SubmissionRow } from '../../db/models';
-import { AppError, because, errors } from '../../common/errors';
+import { because, errors } from '../../common/errors';
 import { liveRooms, type LiveService } from '../live/live.service';
 import type { PresenceService } from '../live/presence.service';
 import type { SubmissionsService } from '../live/submissions.service';
 import { photoCleared } from './photos.service';
-import { fieldErrors } from '../../../shared/errors';
+import { refuseFields } from '../../common/command';
 import { LIVE_TEAM_TYPES, MODERATED_TYPES, notePartsFor, noteRefusal, storyKey, storyOwner } from '../../../shared/activities';
 import type { ActivityType } from '../../../shared/schemas/agenda-item';
 import type { SubmissionInput, SubmissionView } from '../../../shared/schemas/live';
@@ -75,28 +75,26 @@ export class ActivitiesService {
     if (!item) throw errors.notFound('activity');
     // A talk, a break or a vote takes no notes at all; every other activity only its own kinds.
     const refusal = noteRefusal(item.type as ActivityType, input.kind);
-    if (refusal) throw errors.badRequest(refusal);
+    if (refusal) throw errors.badRequest(refusal === 'note_not_taken' ? 'This activity takes no notes' : 'This activity takes other kinds of notes', because(refusal));
     if (!MODERATED_TYPES.has(item.type as ActivityType)) return;
     const type = item.type as ActivityType;
     const parts = notePartsFor(type, item.settings);
     // An activity with parts files every note under one (the phone always offers them); one without takes none.
     if ((parts.length > 0 && input.part === undefined) || (input.part !== undefined && !parts.some((p) => p.id === input.part))) {
-      throw errors.badRequest(
-        parts.length
-          ? `File the note under one of: ${parts.map((p) => p.label).join(', ')}`
-          : 'This activity does not file notes under parts; send the note on its own',
-      );
+      throw parts.length
+        ? errors.badRequest(`File the note under one of: ${parts.map((p) => p.label).join(', ')}`, because('note_part_missing'))
+        : errors.badRequest('This activity does not file notes under parts; send the note on its own', because('note_no_parts'));
     }
     const fields = input.fields ?? {};
     const only = (allowed: string[]) => {
       const extra = Object.keys(fields).filter((k) => !allowed.includes(k));
-      if (extra.length) throw errors.badRequest(`This note cannot carry: ${extra.join(', ')}`);
+      if (extra.length) throw errors.badRequest(`This note cannot carry: ${extra.join(', ')}`, because('note_extra_fields'));
     };
     const ownPhoto = async () => {
       const photo = await Photo.findByPk(fields.photoId ?? '', { transaction });
       // The photo's submission carries the upload's own clientId, so each photo has one submission, its uploader's.
       if (!photo || photo.participantId !== participant.id || photo.clientId !== input.clientId || photo.itemId !== input.itemId) {
-        throw errors.badRequest('Upload the photo first; a photo goes with the note it was uploaded for');
+        throw errors.badRequest('Upload the photo first; a photo goes with the note it was uploaded for', because('note_photo_first'));
       }
     };
 
@@ -104,15 +102,15 @@ export class ActivitiesService {
       case 'point_of_view':
       case 'how_might_we': {
         const r = guidedFieldsSchema(input.kind).safeParse(fields);
-        if (!r.success) throw new AppError(400, 'validation_failed', Object.values(fieldErrors(r.error)).join('; '));
+        if (!r.success) refuseFields(r.error);
         return;
       }
       case 'sketch':
-        if (type !== 'sketch') throw errors.badRequest('Sketch photos go to a sketch activity');
+        if (type !== 'sketch') throw errors.badRequest('Sketch photos go to a sketch activity', because('photo_wrong_activity'));
         only(['photoId']);
         return ownPhoto();
       case 'frame':
-        if (type !== 'storyboard') throw errors.badRequest('Frames go to a storyboard activity');
+        if (type !== 'storyboard') throw errors.badRequest('Frames go to a storyboard activity', because('photo_wrong_activity'));
         only(['photoId']);
         if (fields.photoId !== undefined) await ownPhoto();
         return;
@@ -121,21 +119,21 @@ export class ActivitiesService {
           only(['sketchId']);
           const sketch = await Submission.findByPk(fields.sketchId ?? '', { transaction });
           if (!sketch || sketch.kind !== 'sketch' || sketch.sessionId !== participant.sessionId || sketch.itemId !== input.itemId || sketch.hidden) {
-            throw errors.badRequest('That sketch is not in this activity any more');
+            throw errors.badRequest('That sketch is not in this activity any more', because('sketch_gone'));
           }
-          if (sketch.participantId === participant.id) throw errors.badRequest('Feedback is for the others’ sketches; yours gets theirs');
+          if (sketch.participantId === participant.id) throw errors.badRequest('Feedback is for the others’ sketches; yours gets theirs', because('feedback_own_sketch'));
           return;
         }
         if (type === 'test_rounds') {
           only(['hostTeamId', 'round']);
-          if (input.part === undefined) throw errors.badRequest('File the feedback under one part of the grid');
+          if (input.part === undefined) throw errors.badRequest('File the feedback under one part of the grid', because('feedback_part_missing'));
           const host = await Team.findByPk(fields.hostTeamId ?? '', { transaction });
-          if (!host || host.sessionId !== participant.sessionId || host.retiredAt) throw errors.badRequest('Choose the team whose prototype you tested');
-          if (host.id === participant.teamId) throw errors.badRequest('Test another team’s prototype, not your own team’s');
-          if (fields.round !== undefined && !/^\d{1,2}$/.test(fields.round)) throw errors.badRequest('The round is a number');
+          if (!host || host.sessionId !== participant.sessionId || host.retiredAt) throw errors.badRequest('Choose the team whose prototype you tested', because('feedback_team_missing'));
+          if (host.id === participant.teamId) throw errors.badRequest('Test another team’s prototype, not your own team’s', because('feedback_own_team'));
+          if (fields.round !== undefined && !/^\d{1,2}$/.test(fields.round)) throw errors.badRequest('The round is a number', because('round_not_number'));
           return;
         }
-        throw errors.badRequest('Feedback goes to a sketch or a test round');
+        throw errors.badRequest('Feedback goes to a sketch or a test round', because('feedback_wrong_activity'));
       }
       default: {
         if (type === 'interview') {
@@ -143,10 +141,10 @@ export class ActivitiesService {
           if (fields.partnerId !== undefined) {
             const partner = await Participant.findByPk(fields.partnerId, { attributes: ['id', 'sessionId'], transaction });
             if (!partner || partner.sessionId !== participant.sessionId || partner.id === participant.id) {
-              throw errors.badRequest('Notes are about your partner in this session');
+              throw errors.badRequest('Notes are about your partner in this session', because('partner_not_here'));
             }
           }
-          if (fields.round !== undefined && !/^\d{1,2}$/.test(fields.round)) throw errors.badRequest('The round is a number');
+          if (fields.round !== undefined && !/^\d{1,2}$/.test(fields.round)) throw errors.badRequest('The round is a number', because('round_not_number'));
           return;
         }
         only([]);

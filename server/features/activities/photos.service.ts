@@ -5,7 +5,7 @@ import sharp from 'sharp';
 import { UniqueConstraintError } from 'sequelize';
 import type { AppContext } from '../../context';
 import type { PhotoRow } from '../../db/models';
-import { AppError, errors } from '../../common/errors';
+import { AppError, because, errors } from '../../common/errors';
 import { type LiveService } from '../live/live.service';
 import type { PresenceService } from '../live/presence.service';
 import type { SubmissionsService } from '../live/submissions.service';
@@ -115,7 +115,7 @@ export class PhotosService {
     const first = await Submission.findOne({ where: { participantId, clientId: fields.clientId }, attributes: ['id', 'fields'] });
     if (first) return { submissionId: first.id, photoId: first.fields?.photoId ?? '', duplicate: true };
 
-    if (!file || file.length === 0) throw errors.badRequest('Choose a photo first');
+    if (!file || file.length === 0) throw errors.badRequest('Choose a photo first', because('photo_none'));
     // Cheap checks first, so a photo that cannot be taken now is not decoded for nothing.
     const [participant, session, item] = await Promise.all([
       this.presence.participantOf(participantId, sessionId),
@@ -127,9 +127,9 @@ export class PhotosService {
     if (!session) throw errors.notFound('live_session');
     if (!item || item.workshopId !== session.workshopId) throw errors.notFound('item');
     const photoKind = ACTIVITY_LIBRARY[item.type as ActivityType].photos;
-    if (!photoKind) throw errors.badRequest('This activity does not take photos');
+    if (!photoKind) throw errors.badRequest('This activity does not take photos', because('photo_not_taken'));
     const tooMany = (mine: number) =>
-      errors.badRequest(`You have added ${mine} photos to this activity, the most one person can; ask the facilitator to hide some`);
+      errors.badRequest(`You have added ${mine} photos to this activity, the most one person can; ask the facilitator to hide some`, because('photo_limit', { count: mine }));
     const mine = await Photo.count({ where: { participantId, itemId: item.id } });
     if (mine >= ACTIVITY_LIMITS.photosPerPersonPerItem) throw tooMany(mine);
 
@@ -191,7 +191,7 @@ export class PhotosService {
           if (again) return { submissionId: again.id, photoId: again.fields?.photoId ?? '', duplicate: true };
           await new Promise((resolve) => setTimeout(resolve, RACE_WAIT_MS));
         }
-        throw errors.conflict('This photo is still being stored; try again in a moment');
+        throw errors.conflict('This photo is still being stored; try again in a moment', because('photo_storing'));
       }
       throw err;
     }

@@ -3,7 +3,7 @@ import multer from 'multer';
 import { z } from 'zod';
 import type { ApiRoutes } from '../../common/route';
 import { access, READ_ROLES } from '../../common/access';
-import { AppError, errors } from '../../common/errors';
+import { AppError, because, errors, type Why } from '../../common/errors';
 import type { AppContext } from '../../context';
 import type { PhotosService, PhotoReader, PhotoSize } from './photos.service';
 import { ACTIVITY_LIMITS, PhotoUploadAnswer, PhotoUploadFields } from '../../../shared/schemas/activities';
@@ -13,10 +13,15 @@ const WorkshopPhotoParams = PhotoParams.extend({ workshopId: z.string().min(1).m
 const PhotoQuery = z.object({ size: z.enum(['thumb', 'full']).default('thumb') });
 
 /** What multer's refusals mean to the person holding the phone. */
-const MULTER_MESSAGES: Record<string, [number, AppError['code'], string]> = {
-  LIMIT_FILE_SIZE: [413, 'payload_too_large', `That photo is larger than ${ACTIVITY_LIMITS.photoBytes / 1024 / 1024} MB; take it again at a smaller size`],
-  LIMIT_FILE_COUNT: [400, 'bad_request', 'Send one photo at a time'],
-  LIMIT_UNEXPECTED_FILE: [400, 'bad_request', 'Send one photo at a time, as the field “photo”'],
+const MULTER_MESSAGES: Record<string, [number, AppError['code'], string, Why]> = {
+  LIMIT_FILE_SIZE: [
+    413,
+    'payload_too_large',
+    `That photo is larger than ${ACTIVITY_LIMITS.photoBytes / 1024 / 1024} MB; take it again at a smaller size`,
+    because('photo_too_large', { mb: ACTIVITY_LIMITS.photoBytes / 1024 / 1024 }),
+  ],
+  LIMIT_FILE_COUNT: [400, 'bad_request', 'Send one photo at a time', because('photo_one_at_a_time')],
+  LIMIT_UNEXPECTED_FILE: [400, 'bad_request', 'Send one photo at a time, as the field “photo”', because('photo_one_at_a_time')],
 };
 
 /**
@@ -32,8 +37,8 @@ function photoParser(): RequestHandler {
     parse(req, res, (err: unknown) => {
       if (!err) return next();
       if (err instanceof multer.MulterError) {
-        const [status, code, message] = MULTER_MESSAGES[err.code] ?? [400, 'bad_request', 'The upload could not be read; try again'];
-        return next(new AppError(status, code, message));
+        const [status, code, message, why] = MULTER_MESSAGES[err.code] ?? [400, 'bad_request', 'The upload could not be read; try again', because('upload_unreadable')];
+        return next(new AppError(status, code, message, undefined, why));
       }
       next(err);
     });

@@ -4,6 +4,7 @@ import { z } from 'zod';
 import type { ApiRoutes } from '../../common/route';
 import { access, EDIT_ROLES, READ_ROLES } from '../../common/access';
 import { errors } from '../../common/errors';
+import type { ErrorReason } from '../../../shared/errors';
 import type { AppContext } from '../../context';
 import type { LiveService } from './live.service';
 import type { PresenceService } from './presence.service';
@@ -35,9 +36,9 @@ function deviceOf(req: Request): string | null {
 }
 
 /** Answers a refused request in Cairn's one error format. */
-function limited(message: string) {
+function limited(message: string, reason: ErrorReason) {
   return (_req: Request, res: Response) => {
-    res.status(429).json({ error: { code: 'rate_limited', message } });
+    res.status(429).json({ error: { code: 'rate_limited', message, reason } });
   };
 }
 
@@ -66,7 +67,7 @@ export function liveRoutes(routes: ApiRoutes, ctx: AppContext, live: LiveService
       const device = deviceOf(req);
       return device ? `device:${device}` : `address:${ipKeyGenerator(req.ip ?? '')}`;
     },
-    handler: limited('Too many tries from this phone; wait a few minutes, then check the code on the big screen'),
+    handler: limited('Too many tries from this phone; wait a few minutes, then check the code on the room’s screen', 'join_tries_phone'),
   });
   // A new device id with every guess must not escape the limit: the address holds whatever the device says.
   const perAddress = rateLimit({
@@ -76,7 +77,7 @@ export function liveRoutes(routes: ApiRoutes, ctx: AppContext, live: LiveService
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     keyGenerator: (req) => `address:${ipKeyGenerator(req.ip ?? '')}`,
-    handler: limited('Too many tries from this network; wait a few minutes, then check the code on the big screen'),
+    handler: limited('Too many tries from this network; wait a few minutes, then check the code on the room’s screen', 'join_tries_network'),
   });
   const codeOf = (req: Request) => {
     const code = JoinCode.safeParse(req.params.code ?? '');
@@ -91,7 +92,7 @@ export function liveRoutes(routes: ApiRoutes, ctx: AppContext, live: LiveService
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     keyGenerator: (req) => `code:${codeOf(req)}:address:${ipKeyGenerator(req.ip ?? '')}`,
-    handler: limited('Too many people are joining this session right now; try again in a minute'),
+    handler: limited('Too many people are joining this workshop right now; try again in a minute', 'join_crowded'),
   });
   // …and each device its own share, so rejoins from one phone cannot crowd its neighbours out either.
   const perCodeAndDevice = rateLimit({
@@ -102,7 +103,7 @@ export function liveRoutes(routes: ApiRoutes, ctx: AppContext, live: LiveService
     // A caller without a device id gets no device share; the address share holds it.
     skip: (req) => deviceOf(req) === null,
     keyGenerator: (req) => `code:${codeOf(req)}:device:${deviceOf(req) ?? ''}`,
-    handler: limited('This phone has joined too often; wait a few minutes and try again'),
+    handler: limited('This phone has joined too often; wait a few minutes and try again', 'join_too_often'),
   });
 
   // A projector holding the session's display token gets the QR code without an account; others go on to the role check.

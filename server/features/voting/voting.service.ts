@@ -232,12 +232,12 @@ export class VotingService {
         // A retry of something already applied is answered before the checks, which may have changed since.
         if (ledger.receipts.has(receiptKey(participantId, payload.clientId))) return { answer: { ...answer(mine), duplicate: true }, applied: false };
         if (vote.status === 'draft') return { refused: new AppError(409, 'conflict', 'Voting has not opened yet', undefined, { reason: 'vote_not_open' }) };
-        if (vote.kind !== 'dot_vote') return { refused: errors.badRequest('This vote does not take that kind of ballot') };
+        if (vote.kind !== 'dot_vote') return { refused: errors.badRequest('This vote does not take that kind of ballot', because('ballot_wrong_kind')) };
         if (vote.status === 'closed') return { refused: new AppError(409, 'conflict', 'Voting has closed; your votes stay as they were', undefined, { reason: 'vote_closed' }) };
         if (!vote.options.some((o) => o.id === payload.optionId)) return { refused: errors.badRequest('This vote has no such option', because('no_such_option')) };
         const change = { optionId: payload.optionId, criterionId: payload.criterionId, delta: payload.delta };
         const cast = castDot(vote.rules, mine, participantId, change);
-        if (!cast.ok) return { refused: new AppError(BALLOT_ERROR[cast.code] === 'bad_request' ? 400 : 409, BALLOT_ERROR[cast.code], cast.message) };
+        if (!cast.ok) return { refused: new AppError(BALLOT_ERROR[cast.code] === 'bad_request' ? 400 : 409, BALLOT_ERROR[cast.code], cast.message, undefined, cast.why) };
         // Checked: the ledger moves now, so the next dot of this batch sees it, and the writes wait for the commit.
         this.ledgers.record(transaction, ledger, vote, participantId, payload.clientId, cast.dots, { optionId: payload.optionId, criterionId: payload.criterionId, count: cast.count });
         return { answer: answer(cast.dots), applied: true };
@@ -257,7 +257,7 @@ export class VotingService {
     const { answer, applied } = await this.ballot(participantId, sessionId, payload.clientId, ['preference_vote', 'team_sort'], async (vote, transaction) => {
       const known = new Set(vote.options.map((o) => o.id));
       if (!payload.ranking.every((id) => known.has(id))) throw errors.badRequest('This vote has no such option', because('no_such_option'));
-      if (new Set(payload.ranking).size !== payload.ranking.length) throw errors.badRequest('Each option can have one place only');
+      if (new Set(payload.ranking).size !== payload.ranking.length) throw errors.badRequest('Each option can have one place only', because('rank_each_once'));
       const row = await VoteRanking.findOne({ where: { voteId: vote.id, participantId }, transaction });
       if (row) {
         row.set('ranking', payload.ranking);
@@ -281,7 +281,7 @@ export class VotingService {
   /** The current item's results: the facilitators any time, everyone else once the facilitator reveals them. */
   async results(sessionId: string, asker: ResultsAsker): Promise<VoteResults> {
     const state = await this.live.state(sessionId);
-    if (asker !== 'runner' && !state.revealed) throw errors.forbidden('The results are hidden until the facilitator reveals them');
+    if (asker !== 'runner' && !state.revealed) throw errors.forbidden('The results are hidden until the facilitator shows them', because('results_hidden'));
     const item = await this.currentVoteItem(sessionId);
     const row = await this.readyVote(sessionId, item.id);
     return this.tally.resultsOf(row, item.title, VoteTally.online(await this.presence.participants(sessionId)));
@@ -507,7 +507,7 @@ export class VotingService {
         if (refused) throw refused;
         const vote = await Vote.findOne({ where: { sessionId, itemId: item.id }, transaction });
         if (!vote || vote.status === 'draft') throw new AppError(409, 'conflict', 'Voting has not opened yet', undefined, { reason: 'vote_not_open' });
-        if (!allowed.includes(vote.kind)) throw errors.badRequest('This vote does not take that kind of ballot');
+        if (!allowed.includes(vote.kind)) throw errors.badRequest('This vote does not take that kind of ballot', because('ballot_wrong_kind'));
         if (vote.status === 'closed') throw new AppError(409, 'conflict', 'Voting has closed; your votes stay as they were', undefined, { reason: 'vote_closed' });
         await change(vote, transaction);
         await VoteReceipt.create({ id: crypto.randomUUID(), participantId, clientId, voteId: vote.id, createdAt: new Date() }, { transaction });

@@ -1,6 +1,6 @@
 import { problemText } from '../../i18n/problems';
 import { i18n } from '../../i18n';
-import { ref, watch, type Ref } from 'vue';
+import { computed, ref, shallowRef, watch, type Ref } from 'vue';
 import type { ActivityBoard, NoteView } from '../../../shared/schemas/activities';
 import type { LiveItem } from '../../../shared/schemas/live';
 import type { ActivityChannel } from './useActivityChannel';
@@ -11,7 +11,8 @@ const RELOAD_DELAY_MS = 120;
 /** A board kept up to date, and how to read it again at once. */
 export interface LiveBoard {
   board: Ref<ActivityBoard | null>;
-  error: Ref<string | null>;
+  /** Why the last read failed, in the facilitator's words (only the console shows it). */
+  error: Readonly<Ref<string | null>>;
   reload(): Promise<void>;
 }
 
@@ -22,7 +23,8 @@ export interface LiveBoard {
  */
 export function useActivityBoard(channel: ActivityChannel, item: () => LiveItem, source: 'activity:board' | 'notes:list'): LiveBoard {
   const board = ref<ActivityBoard | null>(null);
-  const error = ref<string | null>(null);
+  const failure = shallowRef<unknown>(null);
+  const error = computed(() => (failure.value === null ? null : problemText(failure.value, i18n.global.t('liveActivity.loadFailed'))));
   let asked = 0;
   let timer: ReturnType<typeof setTimeout> | undefined;
 
@@ -35,10 +37,10 @@ export function useActivityBoard(channel: ActivityChannel, item: () => LiveItem,
       // Only the newest answer for the item still shown counts.
       if (mine === asked && item().id === itemId) {
         board.value = next;
-        error.value = null;
+        failure.value = null;
       }
     } catch (err) {
-      if (mine === asked) error.value = problemText(err, i18n.global.t('liveActivity.loadFailed'));
+      if (mine === asked) failure.value = err;
     }
   }
   const soon = () => {
