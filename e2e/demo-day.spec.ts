@@ -376,7 +376,7 @@ test('the demo day with five phones: every activity hands the next what it made'
   await expect(maps).not.toContainText(/(^|[^\w])Team \(/);
   // The two-criteria vote: the matrix ranking, "carried forward" only in it.
   const vote = consolePage.getByTestId('activity-dot_vote');
-  await expect(vote).toContainText('Ranked by The matrix: Impact high and Effort low first');
+  await expect(vote).toContainText('Ranked by the matrix: Impact high and Effort low first');
   // The prompt names the 2 dots the vote ran with (the plan said 3), as the phones showed it.
   await expect(vote).toContainText('Spend your 2 dots');
   const main = vote.getByTestId('vote-table-main');

@@ -129,14 +129,32 @@ export function quadrantName(yLabel: string, yLevel: Level, xLabel: string, xLev
   return `${yLabel} ${yLevel} · ${xLabel} ${xLevel}`;
 }
 
+/** What a vote's main ranking goes by, for each screen to word in its language (`dotResults.ranking.<kind>`). */
+export type RankingKind =
+  | { kind: 'matrix'; first: string; second: string }
+  | { kind: 'criterion'; criterion: string }
+  | { kind: 'all' | 'dots' | 'borda' | 'schulze' | 'first_choices' };
+
 /**
- * What a dot vote's main ranking is by, in words, for every screen, the report and the exports.
+ * What a dot vote's main ranking is by: the matrix of its first two criteria, one criterion, all criteria
+ * together, or plain dots. The one rule every screen words (and rankingName says in English for the exports).
+ * @example rankingOf({ rankBy: 'matrix', criteria: [impact, effort] }) // { kind: 'matrix', first: 'Impact', second: 'Effort' }
+ */
+export function rankingOf(rules: { rankBy: string; criteria: readonly Pick<Criterion, 'id' | 'label'>[] }): RankingKind {
+  const [first, second] = rules.criteria;
+  if (rules.rankBy === MATRIX_RANKING && first && second) return { kind: 'matrix', first: first.label, second: second.label };
+  const criterion = rules.criteria.find((c) => c.id === rules.rankBy);
+  if (criterion) return { kind: 'criterion', criterion: criterion.label };
+  return { kind: rules.criteria.length ? 'all' : 'dots' };
+}
+
+/**
+ * What a dot vote's main ranking is by, in English words, for the report and the exports.
  * @example rankingName({ rankBy: 'matrix', criteria: [impact, effort] }) // 'the matrix: Impact high and Effort low first'
  */
 export function rankingName(rules: { rankBy: string; criteria: readonly Pick<Criterion, 'id' | 'label'>[] }): string {
-  const [first, second] = rules.criteria;
-  if (rules.rankBy === MATRIX_RANKING && first && second) return `the matrix: ${first.label} high and ${second.label} low first`;
-  const criterion = rules.criteria.find((c) => c.id === rules.rankBy);
-  if (criterion) return criterion.label;
-  return rules.criteria.length ? 'all criteria together' : 'dots';
+  const r = rankingOf(rules);
+  if (r.kind === 'matrix') return `the matrix: ${r.first} high and ${r.second} low first`;
+  if (r.kind === 'criterion') return r.criterion;
+  return r.kind === 'all' ? 'all criteria together' : 'dots';
 }

@@ -219,6 +219,18 @@ export function tallyDots(
   return { perCriterion, overall: rowsFrom(optionIds, overallCounts, margin) };
 }
 
+/** What the tie policy says of a top N, as numbers each screen words (`carryForward.policy…`): the places, those still open, the options across the cut-off and whether they got no votes. */
+export type TieLine = { places: number; open: number; count: number; unvoted: boolean };
+
+/**
+ * The tie policy's line of a top N of `places` (the vote's top N, at most its number of options), for the
+ * console's carry-forward and the results page alike.
+ * @example tieLine({ selected: ['a'], tiedAtCutoff: ['b', 'c'], unvotedAtCutoff: false }, 2) // { places: 2, open: 1, count: 2, unvoted: false }
+ */
+export function tieLine(top: { selected: readonly string[]; tiedAtCutoff: readonly string[]; unvotedAtCutoff: boolean }, places: number): TieLine {
+  return { places, open: Math.max(0, places - top.selected.length), count: top.tiedAtCutoff.length, unvoted: top.unvotedAtCutoff };
+}
+
 /**
  * The top N of a tally, with Cairn's tie policy: options whose whole tie group fits in the top N are
  * selected; a tie group that straddles the cut-off is returned in `tiedAtCutoff` for the facilitator to

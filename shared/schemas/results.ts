@@ -103,12 +103,24 @@ export const VoteRow = z.object({
   selected: z.boolean(),
   /** Where the option stands in the criteria matrix ("Impact high · Effort low"), in a ranking by the matrix. */
   quadrant: z.string().nullable().optional(),
+  /** The same quadrant as levels, for a screen to word in its language. */
+  levels: z.object({ y: z.enum(['high', 'low']), x: z.enum(['high', 'low']) }).nullable().optional(),
 });
 /** One option's line in a vote result. */
 export type VoteRow = z.infer<typeof VoteRow>;
 
 /** A point of the criteria matrix: one option's dots under two criteria, and its quadrant in words; in the matrix's rank order. */
-export const MatrixPoint = z.object({ optionId: z.string(), label: z.string(), x: z.number(), y: z.number(), quadrant: z.string() });
+export const MatrixPoint = z.object({
+  optionId: z.string(),
+  label: z.string(),
+  x: z.number(),
+  y: z.number(),
+  quadrant: z.string(),
+  /** The quadrant as levels, for a screen to word in its language. */
+  levels: z.object({ y: z.enum(['high', 'low']), x: z.enum(['high', 'low']) }).optional(),
+});
+/** A point of the criteria matrix. */
+export type MatrixPoint = z.infer<typeof MatrixPoint>;
 
 /** The live session a results section comes from (set once the providers have built it). */
 const FromSession = { sessionId: z.string().optional(), session: z.string().optional() };
@@ -172,8 +184,18 @@ export const ResultSection = z.discriminatedUnion('kind', [
     method: z.enum(['dots', 'borda', 'schulze', 'first_choices']),
     /** The vote was still open when these results were read (only closed votes are final). */
     open: z.boolean(),
-    /** What the main ranking counts, e.g. "All criteria", "Impact", "Schulze method". */
+    /** What the main ranking counts, in English for the report and API clients, e.g. "All criteria together", "Impact", "Head-to-head". */
     rankedBy: z.string(),
+    /** The same as a kind with the criteria's names (shared/matrix.ts rankingOf), for a screen to word in its language. */
+    ranking: z
+      .union([
+        z.object({ kind: z.literal('matrix'), first: z.string(), second: z.string() }),
+        z.object({ kind: z.literal('criterion'), criterion: z.string() }),
+        z.object({ kind: z.enum(['all', 'dots', 'borda', 'schulze', 'first_choices']) }),
+      ])
+      .optional(),
+    /** The criterion whose dots the main score column counts (a ranking by the matrix), for a screen to word. */
+    scoreCriterion: z.string().nullable().optional(),
     /** What the main ranking's score column counts where it is not what the method counts (a matrix ranking: the first criterion's dots). */
     scoreLabel: z.string().nullable().optional(),
     /** The ranking that carries options forward (dots overall or by the ranking criterion, or the chosen method). */
@@ -182,6 +204,8 @@ export const ResultSection = z.discriminatedUnion('kind', [
     tables: z.array(z.object({ id: z.string(), label: z.string(), rows: z.array(VoteRow) })),
     topN: z.number().int().nullable(),
     tiePolicy: z.string().nullable(),
+    /** The tie policy's line as numbers (shared/tally.ts tieLine), for a screen to word in its language. */
+    tie: z.object({ places: z.number().int(), open: z.number().int(), count: z.number().int(), unvoted: z.boolean() }).nullable().optional(),
     /** Labels of the options tied across the top-N cut-off, for the facilitator to break. */
     tiedAtCutoff: z.array(z.string()),
     /** The options across the cut-off got no votes at all: no tie, places to fill by picking. */

@@ -104,6 +104,8 @@ describe('vote results on the results page', () => {
     expect(v.overall.filter((o) => o.selected).map((o) => o.label)).toEqual(['A welcome ride']);
     expect(v.tiedAtCutoff).toEqual(['Clear unlock steps', 'Dock maps']);
     expect(v.tiePolicy).toMatch(/tied across the cut-off are left to the facilitator/);
+    // The same line as numbers, for the results page to word in its language: one of the top 2 is open, two options tie for it.
+    expect(v.tie).toEqual({ places: 2, open: 1, count: 2, unvoted: false });
   });
 
   it('plots the criteria matrix: impact up, effort across', () => {
@@ -116,10 +118,10 @@ describe('vote results on the results page', () => {
       // In the matrix's order (shared/matrix.ts; high impact and low effort first, common practice). These criteria
       // set no direction, so a dot means "high" on both: most impact 3 (split 1.5), most effort 1 (split 0.5).
       points: [
-        { optionId: expect.any(String), label: 'Clear unlock steps', x: 0, y: 3, quadrant: 'Impact high · Effort low' },
-        { optionId: expect.any(String), label: 'A welcome ride', x: 1, y: 3, quadrant: 'Impact high · Effort high' },
-        { optionId: expect.any(String), label: 'Dock maps', x: 1, y: 2, quadrant: 'Impact high · Effort high' },
-        { optionId: expect.any(String), label: 'Helmet lending', x: 1, y: 1, quadrant: 'Impact low · Effort high' },
+        { optionId: expect.any(String), label: 'Clear unlock steps', x: 0, y: 3, quadrant: 'Impact high · Effort low', levels: { y: 'high', x: 'low' } },
+        { optionId: expect.any(String), label: 'A welcome ride', x: 1, y: 3, quadrant: 'Impact high · Effort high', levels: { y: 'high', x: 'high' } },
+        { optionId: expect.any(String), label: 'Dock maps', x: 1, y: 2, quadrant: 'Impact high · Effort high', levels: { y: 'high', x: 'high' } },
+        { optionId: expect.any(String), label: 'Helmet lending', x: 1, y: 1, quadrant: 'Impact low · Effort high', levels: { y: 'low', x: 'high' } },
       ],
     });
   });

@@ -6,7 +6,8 @@ import { photoCleared } from '../activities/photos.service';
 import { computeSchedule } from '../../../shared/schedule';
 import { selectSessions, sessionName, type SessionSelector } from '../../../shared/sessions';
 import { competitionRanks, OVERALL_CRITERION } from '../../../shared/tally';
-import { MATRIX_RANKING, quadrantName, rankingName } from '../../../shared/matrix';
+import { MATRIX_RANKING, quadrantName, rankingName, rankingOf } from '../../../shared/matrix';
+import { tieLine } from '../../../shared/tally';
 import type { AgendaItem } from '../../../shared/schemas/agenda-item';
 import { FEEDBACK_GRID_PARTS } from '../../../shared/schemas/activities';
 import type { VoteResults } from '../../../shared/schemas/voting';
@@ -266,17 +267,23 @@ export function voteSection(v: VoteResults): Extract<ResultSection, { kind: 'vot
     const xLabel = criteria.find((c) => c.id === v.matrix?.xCriterionId)?.label ?? '';
     const yLabel = criteria.find((c) => c.id === v.matrix?.yCriterionId)?.label ?? '';
     const quadrant = new Map((v.matrix?.points ?? []).map((p) => [p.optionId, quadrantName(yLabel, p.yLevel, xLabel, p.xLevel)]));
-    const main = dots(v.ranked, selected).map((row) => (byMatrix ? { ...row, quadrant: quadrant.get(row.optionId) ?? null } : row));
+    const levels = new Map((v.matrix?.points ?? []).map((p) => [p.optionId, { y: p.yLevel, x: p.xLevel }]));
+    const main = dots(v.ranked, selected).map((row) =>
+      byMatrix ? { ...row, quadrant: quadrant.get(row.optionId) ?? null, levels: levels.get(row.optionId) ?? null } : row,
+    );
     return {
       kind: 'votes',
       method: 'dots',
       rankedBy,
+      ranking: rankingOf(v.rules),
       // The matrix ranks by quadrant, then by the first criterion's dots: its score column counts those.
       scoreLabel: byMatrix ? `${yLabel} dots` : null,
+      scoreCriterion: byMatrix ? yLabel : null,
       overall: main,
       tables,
       topN: v.rules.topN,
       tiePolicy: v.top.policy,
+      tie: tieLine(v.top, Math.min(v.rules.topN, v.options.length)),
       tiedAtCutoff: v.top.tiedAtCutoff.map((id) => label.get(id) ?? ''),
       unvotedAtCutoff: v.top.unvotedAtCutoff,
       ...base,
@@ -286,7 +293,14 @@ export function voteSection(v: VoteResults): Extract<ResultSection, { kind: 'vot
             yLabel,
             xMeans: criteria.find((c) => c.id === v.matrix?.xCriterionId)?.dotMeans ?? 'high',
             yMeans: criteria.find((c) => c.id === v.matrix?.yCriterionId)?.dotMeans ?? 'high',
-            points: v.matrix.points.map((p) => ({ optionId: p.optionId, x: p.x, y: p.y, label: label.get(p.optionId) ?? '', quadrant: quadrant.get(p.optionId) ?? '' })),
+            points: v.matrix.points.map((p) => ({
+              optionId: p.optionId,
+              x: p.x,
+              y: p.y,
+              label: label.get(p.optionId) ?? '',
+              quadrant: quadrant.get(p.optionId) ?? '',
+              levels: { y: p.yLevel, x: p.xLevel },
+            })),
           }
         : null,
     };
@@ -301,10 +315,12 @@ export function voteSection(v: VoteResults): Extract<ResultSection, { kind: 'vot
       kind: 'votes',
       method: v.rules.method,
       rankedBy: main.label,
+      ranking: { kind: v.rules.method },
       overall: main.rows,
       tables: [other],
       topN: v.rules.topN,
       tiePolicy: v.top.policy,
+      tie: tieLine(v.top, Math.min(v.rules.topN, v.options.length)),
       tiedAtCutoff: v.top.tiedAtCutoff.map((id) => label.get(id) ?? ''),
       ...base,
       pairwise: { labels: v.options.map((o) => o.text), d: v.schulze.pairwise },
@@ -319,10 +335,12 @@ export function voteSection(v: VoteResults): Extract<ResultSection, { kind: 'vot
     kind: 'votes',
     method: 'first_choices',
     rankedBy: 'First choices',
+    ranking: { kind: 'first_choices' },
     overall: voteRows(v, rows, new Set()),
     tables: [],
     topN: null,
     tiePolicy: null,
+    tie: null,
     tiedAtCutoff: [],
     ...base,
   };
