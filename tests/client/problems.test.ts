@@ -93,3 +93,20 @@ describe('what a phone says about a refused note, photo or dot', () => {
     i18n.global.locale.value = 'en';
   });
 });
+
+describe('names Cairn gives, on each screen', () => {
+  it('words a numbered team or participant in the screen’s language and leaves a chosen name alone', async () => {
+    const { nameText } = await import('../../src/i18n/names');
+    const { madeName, madeNameOf } = await import('../../shared/made-names');
+    expect(madeNameOf(madeName('team', 3))).toEqual({ kind: 'team', n: 3 });
+    expect(madeNameOf(madeName('participant', 12))).toEqual({ kind: 'participant', n: 12 });
+    expect(madeNameOf('Team Dock')).toBeNull();
+    i18n.global.locale.value = 'es';
+    expect(nameText('Team 3')).toBe('Equipo 3');
+    expect(nameText('Participant 12')).toBe('Participante 12');
+    expect(nameText('Team Dock')).toBe('Team Dock');
+    i18n.global.locale.value = 'de';
+    expect(nameText('Participant 2')).toBe('Person 2');
+    i18n.global.locale.value = 'en';
+  });
+});

@@ -8,6 +8,7 @@ import { selectSessions, sessionName, type SessionSelector } from '../../../shar
 import { competitionRanks, OVERALL_CRITERION } from '../../../shared/tally';
 import { MATRIX_RANKING, quadrantName, rankingName, rankingOf } from '../../../shared/matrix';
 import { tieLine } from '../../../shared/tally';
+import { madeName } from '../../../shared/made-names';
 import type { AgendaItem } from '../../../shared/schemas/agenda-item';
 import { FEEDBACK_GRID_PARTS } from '../../../shared/schemas/activities';
 import type { VoteResults } from '../../../shared/schemas/voting';
@@ -34,9 +35,9 @@ export interface ResultsSources {
   votes?: { sessionResults(sessionId: string, title: Map<string, string>): Promise<VoteResults[]> };
 }
 
-/** The name a participant gets once names are removed. */
+/** The name a participant gets once names are removed (shared/made-names.ts: stored in English, worded on each screen). */
 export function anonymousName(number: number): string {
-  return `Participant ${number}`;
+  return madeName('participant', number);
 }
 
 /** Everything the providers build the results from, read once per request. */

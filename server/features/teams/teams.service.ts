@@ -3,6 +3,7 @@ import type { AppContext } from '../../context';
 import { because, errors } from '../../common/errors';
 import { liveRooms } from '../live/live.service';
 import { teamSizes } from '../../../shared/team-sort';
+import { madeName } from '../../../shared/made-names';
 import type { SetTeamsPayload, Team } from '../../../shared/schemas/team';
 
 /** Teams of a live session: forming them, setting them (after a team sort), moving phones between team rooms. */
@@ -40,7 +41,7 @@ export class TeamsService {
     const teams = sizes.map((size, i) => {
       const memberIds = ids.slice(at, at + size);
       at += size;
-      return { name: `Team ${i + 1}`, challenge: null, memberIds };
+      return { name: madeName('team', i + 1), challenge: null, memberIds };
     });
     return this.set(sessionId, { teams });
   }
