@@ -216,7 +216,9 @@ export async function createApp(config: Config): Promise<CairnApp> {
       strictTransportSecurity: config.publicUrl?.startsWith('https:') ?? false,
     }),
   );
-  app.use(requestLogger(logger, config.nodeEnv !== 'test'));
+  // One line a request, except in tests; when it would log nothing, it is not mounted at all (it makes a
+  // child logger for every request, which a room of phones joining at once pays a thousand times).
+  if (config.nodeEnv !== 'test' && config.logLevel !== 'silent') app.use(requestLogger(logger, true));
   // Dynamic answers (JSON, CSV, the report); the built client is compressed at build time (serveClient).
   app.use(compression());
   app.use(cookieParser());

@@ -1,5 +1,4 @@
 import crypto from 'node:crypto';
-import { QueryTypes } from 'sequelize';
 import type { AppContext } from '../../context';
 import type { ParticipantRow } from '../../db/models';
 import { AppError, errors } from '../../common/errors';
@@ -24,6 +23,11 @@ interface Room {
   online: Map<string, number>;
   /** Participants whose last-seen time is to be written at the next tick. */
   seen: Set<string>;
+}
+
+/** A date as Sequelize writes it into SQLite (`2026-12-02 14:06:00.000 +00:00`), for the prepared statements beside the model layer. */
+function sqliteDate(d: Date): string {
+  return d.toISOString().replace('T', ' ').replace('Z', ' +00:00');
 }
 
 /** A participant as their own phone sees them. */
@@ -88,7 +92,7 @@ export class PresenceService {
       async (transaction): Promise<Me> => {
         const sql = this.ctx.db.raw(transaction);
         // Dates as Sequelize writes them for SQLite, booleans as 0 and 1, so the model reads them back alike.
-        const now = new Date().toISOString().replace('T', ' ').replace('Z', ' +00:00');
+        const now = sqliteDate(new Date());
         const consent = body.photoConsent ? 1 : 0;
         const [found] = await sql.all<{ id: string; teamId: string | null }>('SELECT id, teamId FROM participants WHERE sessionId = ? AND deviceId = ?', [
           session.id,
@@ -171,10 +175,10 @@ export class PresenceService {
 
   /** Everyone who joined the session, with whether they are online now, in order of joining. */
   async participants(sessionId: string): Promise<ParticipantView[]> {
-    // Raw rows: the list of a full room is read a few times a second while votes come in.
-    const rows = await this.ctx.db.sequelize.query<{ id: string; displayName: string; photoConsent: number | boolean; teamId: string | null; joinedAt: string }>(
+    // A prepared read: the list of a full room is read at every room tick while a room of phones joins.
+    const rows = await this.ctx.db.read<{ id: string; displayName: string; photoConsent: number | boolean; teamId: string | null; joinedAt: string }>(
       'SELECT id, displayName, photoConsent, teamId, joinedAt FROM participants WHERE sessionId = ? ORDER BY joinedAt ASC',
-      { replacements: [sessionId], type: QueryTypes.SELECT },
+      [sessionId],
     );
     const online = this.room(sessionId).online;
     return rows.map((p) => ({
@@ -256,12 +260,11 @@ export class PresenceService {
     if (rt.seen.size > 0) {
       const ids = [...rt.seen];
       rt.seen.clear();
-      const now = new Date();
-      await this.ctx.db.writeTx(async (transaction) => {
-        // In slices, to stay well inside SQLite's limit on bound variables in one statement.
-        for (let i = 0; i < ids.length; i += 500) {
-          await this.ctx.db.models.Participant.update({ lastSeenAt: now }, { where: { id: ids.slice(i, i + 500) }, transaction });
-        }
+      // One prepared statement whose ids come as one JSON array, in the group commit beside the joins
+      // waiting at that moment; the date as Sequelize writes it for SQLite, so the model reads it back alike.
+      const now = sqliteDate(new Date());
+      await this.ctx.db.batchTx(async (transaction) => {
+        await this.ctx.db.raw(transaction).run('UPDATE participants SET lastSeenAt = ? WHERE id IN (SELECT value FROM json_each(?))', [now, JSON.stringify(ids)]);
       });
     }
     if (announcer.listening(liveRooms.facilitators(sessionId))) {
