@@ -58,8 +58,8 @@ function paletteInHtml(): Plugin {
  * The shells carry the phone's stylesheet in place of the whole one: the whole stylesheet (the component
  * library's, the fonts', Cairn's own) cut to the rules that the scripts a phone's routes can load could use
  * (build/phone-stylesheet.ts), written into the shell itself so that nothing blocks the first paint but the
- * HTML. Its `data-cairn-whole` names the whole stylesheet, which the router adds before any screen that is
- * not a phone's (src/theme/whole-stylesheet.ts).
+ * HTML. The whole stylesheet's link stays, disabled (`data-cairn-whole`); the router enables it before any
+ * screen that is not a phone's (src/theme/whole-stylesheet.ts).
  */
 function routeShells(pages: Record<string, string>, otherPhonePages: string[]): Plugin {
   return {
@@ -102,7 +102,9 @@ function routeShells(pages: Record<string, string>, otherPhonePages: string[]): 
         );
         // `</style` cannot occur in a stylesheet's rules; checked so that the shell's markup stays whole.
         if (/<\/style/i.test(phoneCss)) return this.error('cairn-route-shells: the phone stylesheet holds "</style"');
-        const phoneStyle = `<style data-cairn-whole="/${whole.fileName}">${phoneCss}</style>`;
+        // The whole stylesheet's link stays where it was, disabled: the browser does not fetch it, Vite's loader of
+        // lazy files finds it and does not add it either, and enabling it keeps the cascade as in index.html.
+        const phoneStyle = `<style data-cairn-phone>${phoneCss}</style>\n    <link rel="stylesheet" crossorigin href="/${whole.fileName}" disabled data-cairn-whole>`;
 
         for (const [name, page] of Object.entries(pages)) {
           const chunk = chunkOf(page)!;

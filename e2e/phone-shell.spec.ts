@@ -26,6 +26,9 @@ test('a phone never asks for the sign-in cookie, keeps its shell, shows its scre
   const second = await goto(1);
   await expect(page.getByTestId('phone-activity')).toHaveText(second);
 
+  // The phone's screens, their lazily loaded parts included, never fetched the whole stylesheet.
+  expect(asked.filter((p) => /^\/assets\/index-[^/]+\.css$/.test(p))).toEqual([]);
+
   // The service worker took the shell; the installable manifest is linked.
   await page.evaluate(async () => navigator.serviceWorker.ready);
   await expect.poll(() => page.evaluate(() => navigator.serviceWorker.controller !== null)).toBe(true);
@@ -39,7 +42,7 @@ test('a phone never asks for the sign-in cookie, keeps its shell, shows its scre
   await expect(page.getByTestId('phone-activity')).toHaveText(second);
   await expect(page.getByTestId('connection')).toHaveText('Reconnecting…');
   // From the cache the phone page's own shell, with the phone's stylesheet in it: the component library's rules apply.
-  await expect(page.locator('style[data-cairn-whole]')).toHaveCount(1);
+  await expect(page.locator('style[data-cairn-phone]')).toHaveCount(1);
   expect(await page.locator('.q-page').first().evaluate((e) => getComputedStyle(e).position)).toBe('relative');
   const third = await goto(2);
 
@@ -60,12 +63,11 @@ test('a phone never asks for the sign-in cookie, keeps its shell, shows its scre
 
 test("a phone route's page carries the phone's part of the stylesheet; a screen that is not a phone's gets the whole one", async ({ page, request }) => {
   const shell = await (await request.get('/join')).text();
-  const whole = /<style data-cairn-whole="(\/assets\/index-[^"]+\.css)">/.exec(shell)?.[1];
-  expect(whole, 'the /join shell names the whole stylesheet').toBeTruthy();
-  // The page does not wait for the whole stylesheet: it is not linked, and every other path's shell links it.
-  expect(shell).not.toContain(`href="${whole}"`);
+  const whole = /<link rel="stylesheet" crossorigin href="(\/assets\/index-[^"]+\.css)" disabled data-cairn-whole>/.exec(shell)?.[1];
+  expect(whole, 'the /join shell keeps the whole stylesheet, disabled').toBeTruthy();
+  // Every other path's shell links it as it is.
   expect(await (await request.get('/sign-in')).text()).toContain(`<link rel="stylesheet" crossorigin href="${whole}">`);
-  const phoneCss = /<style data-cairn-whole="[^"]+">([\s\S]*?)<\/style>/.exec(shell)![1]!;
+  const phoneCss = /<style data-cairn-phone>([\s\S]*?)<\/style>/.exec(shell)![1]!;
   const wholeCss = await (await request.get(whole!)).text();
   expect(phoneCss.length).toBeLessThan(wholeCss.length / 2);
 
