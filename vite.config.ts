@@ -7,7 +7,7 @@ import { baseCompile } from '@intlify/message-compiler';
 import fs from 'node:fs';
 import path from 'node:path';
 import zlib from 'node:zlib';
-import type { Plugin } from 'vite';
+import { build, type Plugin } from 'vite';
 import { LIGHT, cssVariables } from './src/theme/palette';
 import { phoneStylesheet } from './build/phone-stylesheet';
 import { ROUTE_SHELLS } from './server/common/client-assets';
@@ -162,6 +162,44 @@ const phoneShellRoute = {
 /** The same paths kept from the precached index.html's navigation route (with or without a query). */
 const shellPaths = ROUTE_SHELLS.map((s) => new RegExp(s.path.source.replace(/\$$/, '(?:\\?|$)')));
 
+/**
+ * Puts the phone's first-screen painter (src/boot/first-screen-paint.ts) into the HTML shell as an inline
+ * script right after `#app`: it runs as soon as the stylesheet has arrived, with no request of its own, and
+ * paints a joined phone's kept screen before the app's scripts have arrived (src/boot/first-screen.ts). Built
+ * here on its own as one small script; the server allows exactly this script by its hash in its
+ * Content-Security-Policy (server/common/client-assets.ts). In development it is a module script.
+ */
+function firstScreenScript(entry: string): Plugin {
+  let serve = false;
+  let code = '';
+  return {
+    name: 'cairn-first-screen',
+    configResolved(config) {
+      serve = config.command === 'serve';
+    },
+    async buildStart() {
+      if (serve) return;
+      const out = await build({
+        configFile: false,
+        logLevel: 'warn',
+        publicDir: false,
+        build: { write: false, minify: true, emptyOutDir: false, lib: { entry: path.resolve(entry), formats: ['iife'], name: 'cairnFirstScreen' } },
+      });
+      const chunk = (Array.isArray(out) ? out : [out]).flatMap((o) => ('output' in o ? o.output : [])).find((c) => c.type === 'chunk');
+      if (!chunk || chunk.type !== 'chunk') return this.error('cairn-first-screen: the painter did not build');
+      code = chunk.code.trim();
+      if (/<\/script|<!--/i.test(code)) return this.error('cairn-first-screen: the painter holds text that would end its inline script');
+    },
+    transformIndexHtml: {
+      order: 'post',
+      handler: () =>
+        serve
+          ? [{ tag: 'script', attrs: { type: 'module', src: `/${entry}` }, injectTo: 'body' }]
+          : [{ tag: 'script', children: code, injectTo: 'body' }],
+    },
+  };
+}
+
 const serverPort = Number(process.env.PORT ?? 3000);
 
 /**
@@ -249,6 +287,7 @@ export default defineConfig({
     }),
     // The regular weight sets every screen's body text, the phone's prompt and the join form included.
     preloadFont(/source-sans-3-latin-400-normal-[^/]*\.woff2$/),
+    firstScreenScript('src/boot/first-screen-paint.ts'),
     routeShells({ join: '/src/pages/join.vue', phone: '/src/pages/phone.vue' }, ['/src/pages/phone-data.vue']),
     // Brotli and gzip copies beside each text asset, served as they are by express-static-gzip (server/app.ts).
     compression({ algorithms: ['brotliCompress', 'gzip'], include: /\.(js|mjs|css|html|svg|json|webmanifest|txt)$/, threshold: 512 }),

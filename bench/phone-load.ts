@@ -5,8 +5,8 @@
  * 1.6 Mbps down, 150 ms round trip: Lighthouse's mobile preset), sums the bytes that crossed the wire
  * by kind, reads the first contentful paint, and runs Lighthouse (`--no-lighthouse` skips it). Prints a
  * table against the targets and writes JSON (`--json FILE`, default bench/results/phone-load.json).
- * The joined phone holds what a phone that follows the session holds: its token and the last screen it
- * showed (src/stores/live.ts keeps it on every change), read here through a participant's socket;
+ * The joined phone holds what a phone that follows the session holds: its token and what the page keeps of
+ * the last screen it showed (src/stores/live.ts and src/boot/first-screen.ts), read from the page once shown;
  * `--no-last-seen` loads it with the token only, as if the phone had never shown a screen.
  */
 import { CHROMIUM_FLAGS } from '../e2e/chromium';
@@ -100,6 +100,23 @@ async function loadOnce(browser: Browser, url: string, ready: string, storage: R
     load.urls.push(`${kind?.type ?? '?'} ${(kb).toFixed(1)} kB ${kind?.url.replace(/^https?:\/\/[^/]+/, '') ?? id}`);
   }
   return load;
+}
+
+/** The phone page's storage once it has shown the current item: its token plus what it keeps for the next load. */
+async function keptByPage(browser: Browser, url: string, storage: Record<string, string>, sessionId: string): Promise<Record<string, string>> {
+  const context = await browser.newContext({ viewport: { width: 412, height: 823 }, isMobile: true, serviceWorkers: 'block' });
+  await context.addInitScript((items: Record<string, string>) => {
+    for (const [k, v] of Object.entries(items)) localStorage.setItem(k, v);
+  }, storage);
+  const page = await context.newPage();
+  await page.goto(url);
+  await page.locator('[data-test=connection]', { hasText: /./ }).waitFor();
+  // Kept once the socket's sync has brought the current item.
+  await page.waitForFunction((id) => localStorage.getItem(`cairn.last.${id}`) !== null && localStorage.getItem(`cairn.screen.${id}`) !== null, sessionId, { timeout: 30_000 });
+  await page.waitForTimeout(500);
+  const kept = await page.evaluate(() => Object.fromEntries(Object.keys(localStorage).filter((k) => k.startsWith('cairn.')).map((k) => [k, localStorage.getItem(k)!])));
+  await context.close();
+  return kept;
 }
 
 /** The largest contentful paint's element and phases, as Lighthouse's `largest-contentful-paint-element` audit gives them. */
@@ -212,17 +229,9 @@ async function main(): Promise<void> {
     for (const route of routes.filter((r) => r.name.includes(only))) {
       if (route.index !== undefined) await goto(route.index);
       if (route.index !== undefined && WITH_LAST_SEEN) {
-        // What the phone's page keeps under `cairn.last.<session>` once it has shown this item.
-        const phone = ioClient(base, { auth: { token: joined.token }, transports: ['websocket'] });
-        const answer = async (event: 'session:sync' | 'participant:me') => {
-          const a = (await phone.timeout(10_000).emitWithAck(event, {})) as { data?: unknown; error?: { message: string } };
-          if (!('data' in a)) throw new Error(`${event}: ${a.error?.message}`);
-          return a.data;
-        };
-        const state = await answer('session:sync');
-        const me = await answer('participant:me');
-        phone.disconnect();
-        route.storage = { ...route.storage, [`cairn.last.${joined.sessionId}`]: JSON.stringify({ state, me }) };
+        // What the phone's page keeps once it has shown this item (its last state under `cairn.last.<session>`,
+        // its first screen under `cairn.screen.<session>`): read from the page itself, shown once at full speed.
+        route.storage = await keptByPage(browser, route.url, route.storage, joined.sessionId);
       }
       const loads: Load[] = [];
       for (let i = 0; i < RUNS; i++) loads.push(await loadOnce(browser, route.url, route.ready, route.storage));

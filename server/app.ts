@@ -14,7 +14,7 @@ import { seedDemo } from './db/seed';
 import { TokenService } from './common/tokens';
 import { ApiRoutes } from './common/route';
 import { errorHandler, notFoundHandler } from './common/errors';
-import { hashedAssets, serveClient } from './common/client-assets';
+import { builtInlineScriptSources, hashedAssets, serveClient } from './common/client-assets';
 import type { AppContext } from './context';
 import { Mailer } from './features/mail/mail.service';
 import { AuthService } from './features/auth/auth.service';
@@ -199,7 +199,8 @@ export async function createApp(config: Config): Promise<CairnApp> {
       contentSecurityPolicy: {
         directives: {
           defaultSrc: ["'self'"],
-          scriptSrc: ["'self'"],
+          // The built HTML's own inline script (the phone's first-screen painter) by its hash, no other.
+          scriptSrc: ["'self'", ...(hasClient ? builtInlineScriptSources(DIST_DIR) : [])],
           // Quasar sets inline styles on components.
           styleSrc: ["'self'", "'unsafe-inline'"],
           imgSrc: ["'self'", 'data:', 'blob:'],

@@ -27,5 +27,12 @@ app.use(Quasar, {
 });
 keepQuasarApp(app);
 app.use(i18n);
-app.use(createCairnRouter());
-app.mount('#app');
+const router = createCairnRouter();
+app.use(router);
+// Mounted once the first route is resolved (its page loaded, its guards passed): mounting empties `#app`,
+// and a joined phone's page has already painted its kept screen there (src/boot/first-screen.ts), which
+// should give way to the page itself, not to an empty layout.
+void router
+  .isReady()
+  .catch(() => undefined)
+  .then(() => app.mount('#app'));

@@ -1,3 +1,4 @@
+import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
 import type express from 'express';
@@ -80,4 +81,27 @@ export function serveClient(app: express.Express, distDir: string): void {
     req.url = shellFor(req.path, built);
     files(req, res, next);
   });
+}
+
+/**
+ * The Content-Security-Policy sources of the inline scripts in the built HTML shells (index.html and the
+ * route shells): each script's SHA-256, so the policy allows exactly those scripts and no other inline one.
+ * Today there is one, the phone's first-screen painter (`firstScreenScript` in vite.config.ts).
+ * @example inlineScriptSources('<script>paint()</script>') // ["'sha256-…'"]
+ */
+export function inlineScriptSources(...htmls: string[]): string[] {
+  const sources = new Set<string>();
+  for (const html of htmls) {
+    for (const match of html.matchAll(/<script\b([^>]*)>([\s\S]*?)<\/script>/gi)) {
+      if (/\ssrc\s*=/i.test(match[1]!) || !match[2]) continue;
+      sources.add(`'sha256-${crypto.createHash('sha256').update(match[2], 'utf8').digest('base64')}'`);
+    }
+  }
+  return [...sources];
+}
+
+/** {@link inlineScriptSources} of the HTML shells the build wrote in `distDir` (none without a build). */
+export function builtInlineScriptSources(distDir: string): string[] {
+  const shells = ['index.html', ...ROUTE_SHELLS.map((s) => s.file)].map((f) => path.join(distDir, f)).filter((f) => fs.existsSync(f));
+  return inlineScriptSources(...shells.map((f) => fs.readFileSync(f, 'utf8')));
 }

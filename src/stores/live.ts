@@ -24,6 +24,11 @@ const ACK_TIMEOUT_MS = 6000;
 export const useLiveStore = defineStore('live', () => {
   const state = ref<ScreenState | null>(null);
   const connected = ref(false);
+  /**
+   * The socket is known to be cut off: it lost its connection or could not make one. Not while the first
+   * connection is still being made, which on a phone's slow link takes a moment on every load.
+   */
+  const offline = ref(false);
   const ended = ref(false);
   const me = ref<Me | null>(null);
   const participants = ref<ParticipantView[]>([]);
@@ -143,6 +148,7 @@ export const useLiveStore = defineStore('live', () => {
     socket.value = s;
     s.on('connect', async () => {
       connected.value = true;
+      offline.value = false;
       // The screen's state first, the clock estimate beside it: its round trips (five, on a phone's slow
       // link most of a second) would otherwise hold back the first screen.
       const clock = syncClock();
@@ -165,9 +171,11 @@ export const useLiveStore = defineStore('live', () => {
     });
     s.on('disconnect', () => {
       connected.value = false;
+      offline.value = true;
     });
     s.on('connect_error', (err) => {
       connected.value = false;
+      offline.value = true;
       // The handshake's refusal names a code (server/app.ts: `unauthenticated`, `token_expired`, `token_invalid`); anything else is the network's.
       const code = err.message === 'token_expired' ? 'token_expired' : err.message === 'unauthenticated' || err.message.startsWith('token_') ? 'unauthenticated' : 'network';
       connectFailure.value = new ClientError(code, err.message);
@@ -221,6 +229,7 @@ export const useLiveStore = defineStore('live', () => {
     socket.value?.disconnect();
     socket.value = null;
     connected.value = false;
+    offline.value = false;
   }
 
   /** Runs a facilitator command and takes the state it answers with. */
@@ -251,6 +260,7 @@ export const useLiveStore = defineStore('live', () => {
   return {
     state,
     connected,
+    offline,
     attached,
     socket,
     ask,

@@ -5,11 +5,13 @@ import zlib from 'node:zlib';
 import express from 'express';
 import supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { cacheControlOf, hashedAssets, serveClient, shellFor } from '../../server/common/client-assets';
+import crypto from 'node:crypto';
+import { builtInlineScriptSources, cacheControlOf, hashedAssets, inlineScriptSources, serveClient, shellFor } from '../../server/common/client-assets';
 import { startTestApp, type TestApp } from './helpers';
 
 const SHELL = '<!doctype html><title>Cairn</title><div id="app"></div>' + ' '.repeat(600);
-const PHONE_SHELL = SHELL.replace('</title>', '</title><link rel="modulepreload" href="/assets/phone-Xy.js">');
+const PAINTER = '(function(){document.title="painted"})()';
+const PHONE_SHELL = SHELL.replace('</title>', '</title><link rel="modulepreload" href="/assets/phone-Xy.js">').replace('</div>', `</div><script>${PAINTER}</script>`);
 const SCRIPT = `console.log(${JSON.stringify('a phone script '.repeat(100))});`;
 let dist: string;
 let agent: supertest.Agent;
@@ -76,6 +78,25 @@ describe('the built client', () => {
     expect((await agent.get('/api/nothing-here')).status).toBe(404);
     expect((await agent.get('/socket.io/?EIO=4')).status).toBe(404);
     expect((await agent.get('/assets/index-Old999.js')).status).toBe(404);
+  });
+});
+
+describe("the shells' inline script", () => {
+  it('is allowed by its SHA-256 in the Content-Security-Policy, and no script with a src is hashed', () => {
+    // CSP Level 3, "Does element match source list for type and source?": a hash-source is the base64 of the
+    // digest of the script element's text, UTF-8 encoded.
+    const expected = `'sha256-${crypto.createHash('sha256').update(PAINTER).digest('base64')}'`;
+    expect(inlineScriptSources(PHONE_SHELL)).toEqual([expected]);
+    expect(inlineScriptSources('<script type="module" src="/assets/index-AbC123.js"></script>', SHELL)).toEqual([]);
+    // The same script in two shells is one source.
+    expect(builtInlineScriptSources(dist)).toEqual([expected]);
+  });
+
+  it("is the only thing of a phone page's HTML that varies with the build: every session and every visitor get the same file, with nothing of a session in it", async () => {
+    const a = await agent.get('/phone/3f2a9c0e-0000-4000-8000-000000000001').set('Accept-Encoding', 'identity');
+    const b = await agent.get('/phone/another-session').set('Accept-Encoding', 'identity').set('Cookie', 'cairn=anything');
+    expect(a.text).toBe(PHONE_SHELL);
+    expect(b.text).toBe(PHONE_SHELL);
   });
 });
 
