@@ -13,26 +13,31 @@ import { i18n } from './i18n';
 import { keepQuasarApp } from './quasar-later';
 import { phoneIconSet } from './theme/phone-icons';
 
-applyPalette(document.documentElement.style);
-const app = createApp(App);
-app.use(createPinia());
-// Notify, Dialog and the MDI icon set come with the first facilitator's screen (quasar-later.ts); the phone's
-// icon set names only what its Quasar components draw by themselves (theme/phone-icons.ts).
-app.use(Quasar, {
-  iconSet: phoneIconSet,
-  config: {
-    brand: { ...QUASAR_BRAND },
-    notify: { position: 'top' },
-  },
-});
-keepQuasarApp(app);
-app.use(i18n);
-const router = createCairnRouter();
-app.use(router);
-// Mounted once the first route is resolved (its page loaded, its guards passed): mounting empties `#app`,
-// and a joined phone's page has already painted its kept screen there (src/boot/first-screen.ts), which
-// should give way to the page itself, not to an empty layout.
-void router
-  .isReady()
-  .catch(() => undefined)
-  .then(() => app.mount('#app'));
+/** Lets the browser paint and answer input between the start-up's steps: on a slow phone each is a long task of its own. */
+const nextTask = () => new Promise<void>((resolve) => setTimeout(resolve, 0));
+
+async function start(): Promise<void> {
+  applyPalette(document.documentElement.style);
+  const app = createApp(App);
+  app.use(createPinia());
+  // Notify, Dialog and the MDI icon set come with the first facilitator's screen (quasar-later.ts); the phone's
+  // icon set names only what its Quasar components draw by themselves (theme/phone-icons.ts).
+  app.use(Quasar, {
+    iconSet: phoneIconSet,
+    config: {
+      brand: { ...QUASAR_BRAND },
+      notify: { position: 'top' },
+    },
+  });
+  keepQuasarApp(app);
+  await nextTask();
+  app.use(i18n);
+  const router = createCairnRouter();
+  app.use(router);
+  // Mounted once the first route is resolved (its page loaded, its guards passed): mounting empties `#app`,
+  // and a joined phone's page has already painted its kept screen there (src/boot/first-screen.ts), which
+  // should give way to the page itself, not to an empty layout.
+  await router.isReady().catch(() => undefined);
+  app.mount('#app');
+}
+void start();

@@ -106,8 +106,8 @@ export function paintFirstScreen(doc: Document, root: HTMLElement, screen: First
     el('p', 'cairn-prompt', screen.prompt),
   );
   const card = append(el('div', 'q-card q-card--bordered q-card--flat no-shadow cairn-activity-card'), section);
-  const page = append(el('main', 'q-page'), top, card);
-  const layout = append(el('div', 'q-layout q-layout--standard cairn-phone'), append(el('div', 'q-page-container'), append(el('div', 'cairn-phone-column'), page)));
+  const page = append(el('main', 'cairn-phone-page'), top, card);
+  const layout = append(el('div', 'cairn-phone'), append(el('div', 'cairn-phone-column'), page));
   root.replaceChildren(layout);
 }
 
