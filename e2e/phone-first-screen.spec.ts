@@ -4,7 +4,7 @@ import { rehearseOwnWorkshop, shot } from './fixtures';
 /** The boxes of the first screen's parts: the painted ones (no `data-test`) or the page's own. */
 async function boxes(page: Page, painted: boolean) {
   const sel = painted
-    ? { title: '.cairn-activity-card h1', clock: '.cairn-phone-countdown', prompt: '.cairn-prompt', card: '.cairn-activity-card', name: '.cairn-phone-top > .col' }
+    ? { title: '.cairn-activity-card h1', clock: '.cairn-phone-countdown', prompt: '.cairn-prompt', card: '.cairn-activity-card', name: '.cairn-phone-top > .cairn-me-name' }
     : { title: '[data-test=phone-activity]', clock: '[data-test=countdown]', prompt: '[data-test=phone-prompt]', card: '.cairn-activity-card', name: '[data-test=me-name]' };
   const out: Record<string, { x: number; y: number; width: number; height: number; text: string }> = {};
   for (const [part, s] of Object.entries(sel)) {
@@ -31,7 +31,8 @@ test('a joined phone paints its kept screen before its scripts arrive, in the sa
   const context = await browser.newContext({ viewport: { width: 390, height: 844 }, isMobile: true, hasTouch: true, serviceWorkers: 'block' });
   const page = await context.newPage();
   await page.goto(`/join/${live.joinCode}`);
-  await page.getByLabel('Your name for today').fill('Ines');
+  // A long name: it takes the top line of its own, above the controls, and the painted row keeps that height.
+  await page.getByLabel('Your name for today').fill('Ines Marguerite Okonkwo-Fairweather Lund');
   await page.getByTestId('consent-yes').click();
   await page.getByTestId('join').click();
   await expect(page.getByTestId('connection')).toHaveText('Connected');

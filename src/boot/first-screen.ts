@@ -21,6 +21,10 @@ export interface FirstScreen {
   lang: string;
   /** The participant's display name, as the top row shows it. */
   name: string;
+  /** The top row's height in CSS pixels as it was shown (a long name takes a line of its own above the controls). */
+  topHeight: number;
+  /** How far below the top row's top edge the name stood (beside the controls it is centred on them; above them, at the top). */
+  nameOffset: number;
   /** "Activity 2 of 9", in the phone's language. */
   position: string;
   title: string;
@@ -55,6 +59,7 @@ export function parseFirstScreen(raw: string | null, sessionId: string): FirstSc
   const r = value as Partial<FirstScreen> | null;
   if (!r || typeof r !== 'object' || r.sessionId !== sessionId) return null;
   if (![r.lang, r.name, r.position, r.title, r.prompt].every(isText)) return null;
+  if (![r.topHeight, r.nameOffset].every((n) => typeof n === 'number' && n >= 0 && n < 1000)) return null;
   const t = r.timer as Partial<TimerState> | undefined;
   if (!t || !TIMER_STATUSES.has(t.status as string) || !isNumberOrNull(t.endsAt) || !isNumberOrNull(t.remainingMs)) return null;
   if (typeof t.durationMs !== 'number' || !Number.isFinite(t.durationMs)) return null;
@@ -97,7 +102,11 @@ export function paintFirstScreen(doc: Document, root: HTMLElement, screen: First
     return parent;
   };
   doc.documentElement.lang = screen.lang;
-  const top = append(el('div', 'row items-center q-py-sm cairn-phone-top'), el('div', 'col text-weight-bold', screen.name));
+  // The name alone where it stood, in a row as tall as it was with the controls beside or below it (they come with the page).
+  const name = el('div', 'text-weight-bold cairn-me-name', screen.name);
+  name.style.marginTop = `${screen.nameOffset}px`;
+  const top = append(el('div', 'row items-start q-pb-sm cairn-phone-top'), name);
+  top.style.minHeight = `${screen.topHeight}px`;
   const section = append(
     el('div', 'q-card__section q-card__section--vert'),
     el('div', 'text-overline text-muted', screen.position),

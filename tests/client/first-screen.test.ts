@@ -6,6 +6,8 @@ const SCREEN: FirstScreen = {
   sessionId: SESSION,
   lang: 'en',
   name: 'Ines',
+  topHeight: 64,
+  nameOffset: 22,
   position: 'Activity 2 of 9',
   title: 'Warm-up pairs',
   prompt: 'Tell each other about the last repair you did.',
@@ -49,6 +51,7 @@ describe("a joined phone's first screen", () => {
     expect(parseFirstScreen(JSON.stringify({ ...SCREEN, prompt: undefined }), SESSION)).toBeNull();
     expect(parseFirstScreen(JSON.stringify({ ...SCREEN, timer: { status: 'ticking', endsAt: 1, remainingMs: null, durationMs: 1 } }), SESSION)).toBeNull();
     expect(parseFirstScreen(JSON.stringify({ state: {}, me: {} }), SESSION)).toBeNull();
+    expect(parseFirstScreen(JSON.stringify({ ...SCREEN, topHeight: undefined }), SESSION)).toBeNull();
     expect(parseFirstScreen(null, SESSION)).toBeNull();
   });
 
