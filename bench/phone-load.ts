@@ -111,9 +111,9 @@ async function keptByPage(browser: Browser, url: string, storage: Record<string,
   const page = await context.newPage();
   await page.goto(url);
   await page.locator('[data-test=connection]', { hasText: /./ }).waitFor();
-  // Kept once the socket's sync has brought the current item.
-  await page.waitForFunction((id) => localStorage.getItem(`cairn.last.${id}`) !== null && localStorage.getItem(`cairn.screen.${id}`) !== null, sessionId, { timeout: 30_000 });
-  await page.waitForTimeout(500);
+  // Kept once the socket's sync has brought the current item (and the participant's name, a moment later).
+  await page.waitForFunction((id) => localStorage.getItem(`cairn.last.${id}`) !== null, sessionId, { timeout: 30_000 });
+  await page.waitForTimeout(1500);
   const kept = await page.evaluate(() => Object.fromEntries(Object.keys(localStorage).filter((k) => k.startsWith('cairn.')).map((k) => [k, localStorage.getItem(k)!])));
   await context.close();
   return kept;
