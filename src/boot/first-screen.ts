@@ -103,10 +103,11 @@ export function paintFirstScreen(doc: Document, root: HTMLElement, screen: First
   };
   doc.documentElement.lang = screen.lang;
   // The name alone where it stood, in a row as tall as it was with the controls beside or below it (they come with the page).
+  // Only classes the page's own scripts name: a phone route's shell carries just the rules those can use (vite.config.ts).
   const name = el('div', 'text-weight-bold cairn-me-name', screen.name);
   name.style.marginTop = `${screen.nameOffset}px`;
-  const top = append(el('div', 'row items-start q-pb-sm cairn-phone-top'), name);
-  top.style.minHeight = `${screen.topHeight}px`;
+  const top = append(el('div', 'row items-center q-py-sm cairn-phone-top'), name);
+  Object.assign(top.style, { minHeight: `${screen.topHeight}px`, alignItems: 'flex-start', paddingTop: '0' });
   const section = append(
     el('div', 'q-card__section q-card__section--vert'),
     el('div', 'text-overline text-muted', screen.position),
