@@ -43,7 +43,7 @@ test('a phone never asks for the sign-in cookie, keeps its shell, shows its scre
   await expect(page.getByTestId('connection')).toHaveText('Reconnecting…');
   // From the cache the phone page's own shell, with the phone's stylesheet in it: the component library's rules apply.
   await expect(page.locator('style[data-cairn-phone]')).toHaveCount(1);
-  expect(await page.locator('.q-page').first().evaluate((e) => getComputedStyle(e).position)).toBe('relative');
+  expect(await page.locator('.q-card').first().evaluate((e) => getComputedStyle(e).position)).toBe('relative');
   const third = await goto(2);
 
   // Back online: the socket connects and the phone catches up with what it missed.
