@@ -1,6 +1,15 @@
 import { stringify } from 'csv-stringify/sync';
 import type { ExportFile, NoteResult, WorkshopResults } from '../../../shared/schemas/results';
 import { partLabel } from '../../../shared/schemas/activities';
+import type { Locale } from '../../../shared/locales';
+import type { Wording } from '../../../shared/wording';
+import { RESULTS_FILE_LOCALE, facilitatorWording } from '../../common/catalogs';
+
+// Every header and fixed cell word comes from the facilitator catalogs' `reportFile.csv`, in the exports' language.
+/** A CSV word: `reportFile.csv.<key>` in the wording's language. */
+const say = (l: Wording, key: string, params: Record<string, string | number> = {}): string => l.t(`reportFile.csv.${key}`, params);
+/** A header: each column's word from the catalog. */
+const headerOf = (l: Wording, keys: string[]): string[] => keys.map((k) => say(l, k));
 
 /** A value of a CSV cell before it is written. */
 type Cell = string | number | boolean | null;
@@ -15,6 +24,8 @@ export interface CsvTable {
 export interface CsvOptions {
   /** For spreadsheet users: start with a UTF-8 byte-order mark (so accented and non-Latin text opens right). */
   bom: boolean;
+  /** The language of the header and the fixed words (yes, no, "Partner: …"); {@link RESULTS_FILE_LOCALE} unless given. */
+  locale?: Locale;
   /**
    * Keep text that a spreadsheet would run as a formula exactly as written; by default an apostrophe
    * goes before it, since participants' notes end up in spreadsheets whatever the file was meant for.
@@ -25,10 +36,10 @@ export interface CsvOptions {
 /** Text cells that spreadsheets would read as a formula (OWASP, "CSV Injection"): = + - @, tab and carriage return first. */
 const FORMULA_START = /^[=+\-@\t\r]/;
 
-/** A cell as text: numbers as written, yes/no for booleans, empty for nothing; formulas neutralised unless `raw`. */
-function cellText(value: Cell, raw: boolean): string {
+/** A cell as text: numbers as written, yes/no for booleans (in the catalog's words), empty for nothing; formulas neutralised unless `raw`. */
+function cellText(value: Cell, raw: boolean, l: Wording): string {
   if (value === null) return '';
-  if (typeof value === 'boolean') return value ? 'yes' : 'no';
+  if (typeof value === 'boolean') return say(l, value ? 'yes' : 'no');
   if (typeof value === 'number') return String(value);
   return !raw && FORMULA_START.test(value) ? `'${value}` : value;
 }
@@ -42,7 +53,8 @@ export function toCsv(table: CsvTable, options: CsvOptions): string {
   for (const row of table.rows) {
     if (row.length !== table.header.length) throw new Error(`A CSV record has ${row.length} fields; the header has ${table.header.length}`);
   }
-  return stringify([table.header, ...table.rows.map((r) => r.map((c) => cellText(c, options.raw ?? false)))], {
+  const l = facilitatorWording(options.locale ?? RESULTS_FILE_LOCALE);
+  return stringify([table.header, ...table.rows.map((r) => r.map((c) => cellText(c, options.raw ?? false, l)))], {
     record_delimiter: '\r\n',
     // csv-stringify quotes a field holding the record delimiter (CRLF) only; RFC 4180 wants any line break quoted.
     quoted_match: /[\r\n]/,
@@ -63,16 +75,16 @@ type Names = { people: Map<string, string>; teams: Map<string, string>; notes: M
  * the sketch a comment is about by its caption and author, a guided sentence's fields as "name: value";
  * the id of a stored photo says nothing to a reader and is left out.
  */
-function details(n: NoteResult, names: Names): string {
+function details(n: NoteResult, names: Names, l: Wording): string {
   if (!n.fields) return '';
   const out: string[] = [];
   for (const [key, value] of Object.entries(n.fields)) {
-    if (key === 'partnerId') out.push(`Partner: ${names.people.get(value) ?? 'someone who has left'}`);
-    else if (key === 'hostTeamId') out.push(`Team tested: ${names.teams.get(value) ?? 'a team no longer listed'}`);
-    else if (key === 'round' && /^\d+$/.test(value)) out.push(`Round: ${Number(value) + 1}`);
+    if (key === 'partnerId') out.push(say(l, 'partner', { name: names.people.get(value) ?? say(l, 'partnerGone') }));
+    else if (key === 'hostTeamId') out.push(say(l, 'teamTested', { team: names.teams.get(value) ?? say(l, 'teamGone') }));
+    else if (key === 'round' && /^\d+$/.test(value)) out.push(say(l, 'round', { n: Number(value) + 1 }));
     else if (key === 'sketchId') {
       const sketch = names.notes.get(value);
-      out.push(sketch ? `About the sketch: ${sketch.text || 'no caption'} (${sketch.author})` : 'About a sketch');
+      out.push(sketch ? say(l, 'aboutSketch', { caption: sketch.text || say(l, 'noCaption'), author: sketch.author }) : say(l, 'aboutASketch'));
     } else if (key === 'photoId') continue;
     else out.push(`${key}: ${value}`);
   }
@@ -80,7 +92,8 @@ function details(n: NoteResult, names: Names): string {
 }
 
 /** Every note of the workshop (notes, guided sentences, feedback, frames, reflections), in agenda order, oldest first. */
-export function notesTable(r: WorkshopResults): CsvTable {
+export function notesTable(r: WorkshopResults, locale: Locale = RESULTS_FILE_LOCALE): CsvTable {
+  const l = facilitatorWording(locale);
   const agenda = new Map(r.agenda.map((a) => [a.itemId, a]));
   const order = (n: NoteResult) => agenda.get(n.itemId)?.position ?? Number.MAX_SAFE_INTEGER;
   const notes = [...r.notes].sort((a, b) => order(a) - order(b) || a.createdAt - b.createdAt || a.id.localeCompare(b.id));
@@ -90,32 +103,32 @@ export function notesTable(r: WorkshopResults): CsvTable {
     notes: new Map(r.notes.map((n) => [n.id, n])),
   };
   return {
-    header: ['Session', 'Activity number', 'Activity', 'Activity type', 'Author', 'Team', 'Theme', 'Kind', 'Part', 'Note', 'Details', 'Written at'],
+    header: headerOf(l, ['session', 'activityNumber', 'activity', 'activityType', 'author', 'team', 'theme', 'kind', 'part', 'note', 'details', 'writtenAt']),
     rows: notes.map((n) => {
       const a = agenda.get(n.itemId);
-      return [n.session, a?.position ?? null, a?.title ?? '', a?.type ?? '', n.author, n.teamName, n.themeName, n.kind, n.part === null ? null : partLabel(n.part), n.text, details(n, names), iso(n.createdAt)];
+      return [n.session, a?.position ?? null, a?.title ?? '', a?.type ?? '', n.author, n.teamName, n.themeName, n.kind, n.part === null ? null : partLabel(n.part), n.text, details(n, names, l), iso(n.createdAt)];
     }),
   };
 }
 
 /** Teams with their challenges and members. */
-export function teamsTable(r: WorkshopResults): CsvTable {
+export function teamsTable(r: WorkshopResults, locale: Locale = RESULTS_FILE_LOCALE): CsvTable {
   return {
-    header: ['Session', 'Team', 'Challenge', 'Size', 'Members'],
+    header: headerOf(facilitatorWording(locale), ['session', 'team', 'challenge', 'size', 'members']),
     rows: r.teams.map((t) => [t.session, t.name, t.challenge, t.members.length, t.members.map((m) => m.name).join('; ')]),
   };
 }
 
 /** Everyone who joined, numbered in order of joining; whether they left an address, never the address. */
-export function participantsTable(r: WorkshopResults): CsvTable {
+export function participantsTable(r: WorkshopResults, locale: Locale = RESULTS_FILE_LOCALE): CsvTable {
   return {
-    header: ['Session', 'Number', 'Name', 'Team', 'Photo consent', 'Left an address for the report', 'Joined at', 'Notes'],
+    header: headerOf(facilitatorWording(locale), ['session', 'number', 'name', 'team', 'photoConsent', 'leftAddress', 'joinedAt', 'notes']),
     rows: r.participants.map((p) => [p.session, p.number, p.name, p.teamName, p.photoConsent, p.leftAddress, iso(p.joinedAt), p.notes]),
   };
 }
 
 /** Every vote's result: each option's score, rank, ties and selection, overall and per criterion. */
-export function talliesTable(r: WorkshopResults): CsvTable {
+export function talliesTable(r: WorkshopResults, locale: Locale = RESULTS_FILE_LOCALE): CsvTable {
   const rows: Cell[][] = [];
   for (const a of r.activities) {
     for (const s of a.sections) {
@@ -126,20 +139,21 @@ export function talliesTable(r: WorkshopResults): CsvTable {
       }
     }
   }
-  return { header: ['Session', 'Activity number', 'Activity', 'Method', 'Ranked by', 'Option', 'Score', 'Rank', 'Tied', 'Near tie', 'Selected', 'Matrix quadrant'], rows };
+  const header = headerOf(facilitatorWording(locale), ['session', 'activityNumber', 'activity', 'method', 'rankedBy', 'option', 'score', 'rank', 'tied', 'nearTie', 'selected', 'matrixQuadrant']);
+  return { header, rows };
 }
 
 /** Every dot placed and every ballot position, voter by voter. */
-export function votesTable(r: WorkshopResults): CsvTable {
+export function votesTable(r: WorkshopResults, locale: Locale = RESULTS_FILE_LOCALE): CsvTable {
   const position = new Map(r.agenda.map((a) => [a.itemId, a.position]));
   return {
-    header: ['Session', 'Activity number', 'Activity', 'Voter', 'Option', 'Criterion', 'Value'],
+    header: headerOf(facilitatorWording(locale), ['session', 'activityNumber', 'activity', 'voter', 'option', 'criterion', 'value']),
     rows: r.votes.map((v) => [v.session, position.get(v.itemId) ?? null, v.activity, v.voter, v.option, v.criterion, v.value]),
   };
 }
 
 /** The table behind each CSV export file. */
-export const CSV_TABLES: Record<Exclude<ExportFile, 'results.json'>, (r: WorkshopResults) => CsvTable> = {
+export const CSV_TABLES: Record<Exclude<ExportFile, 'results.json'>, (r: WorkshopResults, locale?: Locale) => CsvTable> = {
   'notes.csv': notesTable,
   'teams.csv': teamsTable,
   'participants.csv': participantsTable,
@@ -167,5 +181,5 @@ export function exportFileName(r: WorkshopResults, file: string): string {
 export function exportFile(r: WorkshopResults, file: ExportFile, options: CsvOptions): { body: string; contentType: string; fileName: string } {
   const fileName = exportFileName(r, file);
   if (file === 'results.json') return { body: JSON.stringify(r, null, 2), contentType: 'application/json; charset=utf-8', fileName };
-  return { body: toCsv(CSV_TABLES[file](r), options), contentType: 'text/csv; charset=utf-8; header=present', fileName };
+  return { body: toCsv(CSV_TABLES[file](r, options.locale), options), contentType: 'text/csv; charset=utf-8; header=present', fileName };
 }
