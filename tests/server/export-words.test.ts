@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { notesTable } from '../../server/features/results/export.service';
 import { partLabel } from '../../shared/schemas/activities';
 import type { NoteResult, WorkshopResults } from '../../shared/schemas/results';
+import { csvWord } from '../shared/english';
 
 // Invented notes from the demo scenario (Harbour Lane Bike Co-op); what each should read as is Cairn's own
 // wording: the part labels the phones show, names instead of ids.
@@ -47,18 +48,18 @@ describe('the notes export speaks the room’s words', () => {
   const column = (name: string) => rows.map((r) => r[header.indexOf(name)]);
 
   it('labels parts as the phones do, never with their ids', () => {
-    expect(column('Part')).toEqual(['Says & does', 'Next step', "What didn't work", null, null, null, 'Says']);
+    expect(column(csvWord('part'))).toEqual(['Says & does', 'Next step', "What didn't work", null, null, null, 'Says']);
   });
 
   it('names the partner and the team tested, counts rounds from 1, and leaves photo ids out', () => {
-    expect(column('Details')).toEqual([
-      'Partner: Ben Okafor; Round: 1',
+    expect(column(csvWord('details'))).toEqual([
+      `${csvWord('partner', { name: 'Ben Okafor' })}; ${csvWord('round', { n: 1 })}`,
       '',
-      'Team tested: Team Dock; Round: 2',
+      `${csvWord('teamTested', { team: 'Team Dock' })}; ${csvWord('round', { n: 2 })}`,
       '',
-      'About the sketch: Welcome card (Ana Lima)',
+      csvWord('aboutSketch', { caption: 'Welcome card', author: 'Ana Lima' }),
       'user: A new member; need: to find a dock',
-      'Partner: someone who has left',
+      csvWord('partner', { name: csvWord('partnerGone') }),
     ]);
     expect(JSON.stringify(rows)).not.toMatch(/p-ben|t-dock|ph-123|says_does|next_step/);
   });

@@ -4,6 +4,7 @@ import { bearer, liveDay, startTestApp, type LiveDay, type TestApp } from './hel
 import { toCsv } from '../../server/features/results/export.service';
 import { WorkshopResults } from '../../shared/schemas/results';
 import { normaliseText } from '../../shared/text';
+import { csvHeader, csvWord } from '../shared/english';
 
 // Notes that break naive CSV writers: commas, quotes, line breaks (LF and CRLF), non-Latin text, formulas.
 const HARD = [
@@ -101,7 +102,7 @@ describe('CSV exports (RFC 4180)', () => {
     // Without the spreadsheet option there is no byte-order mark; text that starts like a formula gets an apostrophe.
     expect([...raw.subarray(0, 3)]).not.toEqual([0xef, 0xbb, 0xbf]);
     const [header, ...rows] = rfc4180(text);
-    expect(header).toEqual(['Session', 'Activity number', 'Activity', 'Activity type', 'Author', 'Team', 'Theme', 'Kind', 'Part', 'Note', 'Details', 'Written at']);
+    expect(header).toEqual(csvHeader('session', 'activityNumber', 'activity', 'activityType', 'author', 'team', 'theme', 'kind', 'part', 'note', 'details', 'writtenAt'));
     const r = await results();
     const insights = r.agenda.find((a) => a.type === 'insights')!;
     expect(rows).toHaveLength(HARD.length);
@@ -150,7 +151,7 @@ describe('CSV exports (RFC 4180)', () => {
     const rows = rfc4180((await download('teams.csv')).text);
     const session = (await results()).sessions[0]!.name;
     expect(rows).toEqual([
-      ['Session', 'Team', 'Challenge', 'Size', 'Members'],
+      csvHeader('session', 'team', 'challenge', 'size', 'members'),
       [session, 'Team Dock', 'Make unlocking obvious, fast', '2', 'Ana Lima; Ben "Benji" Okafor'],
       [session, 'Team "Route"', 'A calm\nfirst route', '1', 'Ólafur, Jr.'],
     ]);
@@ -162,22 +163,23 @@ describe('CSV exports (RFC 4180)', () => {
     expect(text).not.toContain('@harbourlane.example');
     const rows = rfc4180(text);
     const r = await results();
-    expect(rows[0]).toEqual(['Session', 'Number', 'Name', 'Team', 'Photo consent', 'Left an address for the report', 'Joined at', 'Notes']);
+    expect(rows[0]).toEqual(csvHeader('session', 'number', 'name', 'team', 'photoConsent', 'leftAddress', 'joinedAt', 'notes'));
+    const [yes, no] = [csvWord('yes'), csvWord('no')];
     expect(rows.slice(1)).toEqual(
-      r.participants.map((p) => [p.session, String(p.number), p.name, p.teamName ?? '', p.photoConsent ? 'yes' : 'no', p.leftAddress ? 'yes' : 'no', new Date(p.joinedAt).toISOString(), String(p.notes)]),
+      r.participants.map((p) => [p.session, String(p.number), p.name, p.teamName ?? '', p.photoConsent ? yes : no, p.leftAddress ? yes : no, new Date(p.joinedAt).toISOString(), String(p.notes)]),
     );
     expect(rows.slice(1).map((row) => [row[2], row[4], row[5]])).toEqual([
-      ['Ana Lima', 'yes', 'yes'],
-      ['Ben "Benji" Okafor', 'no', 'no'],
-      ['Ólafur, Jr.', 'yes', 'no'],
+      ['Ana Lima', yes, yes],
+      ['Ben "Benji" Okafor', no, no],
+      ['Ólafur, Jr.', yes, no],
     ]);
   });
 
   it('writes the tallies and votes tables with their headers even before any vote', async () => {
     const tallies = rfc4180((await download('tallies.csv')).text);
-    expect(tallies[0]).toEqual(['Session', 'Activity number', 'Activity', 'Method', 'Ranked by', 'Option', 'Score', 'Rank', 'Tied', 'Near tie', 'Selected', 'Matrix quadrant']);
+    expect(tallies[0]).toEqual(csvHeader('session', 'activityNumber', 'activity', 'method', 'rankedBy', 'option', 'score', 'rank', 'tied', 'nearTie', 'selected', 'matrixQuadrant'));
     const votes = rfc4180((await download('votes.csv')).text);
-    expect(votes[0]).toEqual(['Session', 'Activity number', 'Activity', 'Voter', 'Option', 'Criterion', 'Value']);
+    expect(votes[0]).toEqual(csvHeader('session', 'activityNumber', 'activity', 'voter', 'option', 'criterion', 'value'));
   });
 
   it('gives the complete results as JSON that matches the results schema and the notes exactly', async () => {

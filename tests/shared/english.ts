@@ -25,3 +25,9 @@ export const amountText = (l: PackingLine): string => en.t(`material.${l.key}.am
 export const howText = (s: PackingLine['shares'][number]): string => sayFinding(en, 'packingHow', PACKING_HOW, s.how);
 /** Why a share is that many, as the English packing list says it. */
 export const whyText = (s: PackingLine['shares'][number]): string => sayFinding(en, 'packingWhy', MATERIAL_WHYS, s.why);
+/** A fixed word of the PDF report as the English report says it (`reportFile.pdf.<key>`). */
+export const reportWord = (key: string, params: Record<string, string | number> = {}, plural?: number): string => en.t(`reportFile.pdf.${key}`, params, plural);
+/** A fixed word of the CSV exports as the English files say it (`reportFile.csv.<key>`: headers, yes, no, …). */
+export const csvWord = (key: string, params: Record<string, string | number> = {}): string => en.t(`reportFile.csv.${key}`, params);
+/** An English CSV header, column by column from the catalog. */
+export const csvHeader = (...keys: string[]): string[] => keys.map((k) => csvWord(k));
