@@ -78,7 +78,10 @@ describe('the report and the exports speak from the catalogs', () => {
       for (const m of file.matchAll(/say\(l, ([^,)]+)/g)) for (const q of m[1]!.matchAll(/'([\w.]+)'/g)) keys.add(`${prefix}.${q[1]}`);
       for (const m of file.matchAll(/headerOf\([^,]+, \[([^\]]+)\]/g)) for (const q of m[1]!.matchAll(/'([\w.]+)'/g)) keys.add(`${prefix}.${q[1]}`);
     }
-    for (const method of ['dots', 'borda', 'schulze', 'first_choices']) keys.add(`reportFile.pdf.method.${method}`);
+    // Words the report shares with the results page, named whole: l.t('resultWords.criterionDots', …).
+    for (const m of source[0]!.matchAll(/l\.t\('([\w.]+)'/g)) keys.add(m[1]!);
+    for (const method of ['dots', 'borda', 'schulze', 'first_choices']) keys.add(`reportFile.pdf.method.${method}`).add(`resultSections.score.${method}`);
+    expect(keys).toContain('resultWords.criterionDots');
     expect(keys.size).toBeGreaterThan(80);
     for (const locale of LOCALES) {
       const facilitator = JSON.parse(readFileSync(new URL(`../../src/i18n/facilitator/${locale}.json`, import.meta.url), 'utf8')) as Tree;

@@ -3,7 +3,6 @@ import { typeAndPhase } from '../../../shared/wording';
 import { RESULTS_FILE_LOCALE, facilitatorWording, nameIn } from '../../common/catalogs';
 import type { Locale } from '../../../shared/locales';
 import type { Wording } from '../../../shared/wording';
-import { voteScoreLabel } from '../../../shared/schemas/results';
 import { partLabel } from '../../../shared/schemas/activities';
 import type { ActivityResult, NoteGroup, NoteResult, ResultSection, WorkshopResults } from '../../../shared/schemas/results';
 import { INK, PdfWriter } from './pdf-writer';
@@ -80,7 +79,11 @@ function writeSection(w: PdfWriter, l: Wording, s: ResultSection): void {
       const method = say(l, `method.${s.method}`);
       w.write(say(l, s.open ? 'votedOpen' : 'voted', { method, voted: l.num(s.voted), voters: l.num(s.voters) }), { size: 9.5, color: INK.muted, gap: 2 });
       for (const block of [{ id: undefined as string | undefined, label: s.rankedBy, rows: s.overall }, ...s.tables]) {
-        const score = (block.id === undefined ? s.scoreLabel : null) ?? voteScoreLabel(s.method, block.id);
+        // What the score column counts, in the words the results page uses (src/components/results/VoteSection.vue):
+        // a Borda table counts points and a Schulze table wins, whichever carries the options forward.
+        const by = block.id === 'borda' || block.id === 'schulze' ? block.id : s.method;
+        const score =
+          block.id === undefined && s.scoreCriterion ? l.t('resultWords.criterionDots', { criterion: s.scoreCriterion }) : l.t(`resultSections.score.${by}`);
         w.heading(block.label, 3);
         w.table(
           [
