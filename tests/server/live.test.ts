@@ -202,7 +202,7 @@ describe('joining from a phone', () => {
     }
     const blocked = await t.agent.post(`/api/join/${wrong}`).send({ displayName: 'Guess', photoConsent: false, deviceId: guesser });
     expect(blocked.status).toBe(429);
-    expect(blocked.body.error).toEqual({ code: 'rate_limited', message: expect.stringMatching(/too many tries from this phone/i) });
+    expect(blocked.body.error).toEqual({ code: 'rate_limited', reason: 'join_tries_phone', message: expect.stringMatching(/too many tries from this phone/i) });
     // The guesser is held back even with the right code now…
     expect((await t.agent.get(`/api/join/${info.joinCode}`).set('X-Cairn-Device', guesser)).status).toBe(429);
     // …while the rest of the room, behind the same address, joins as usual.
@@ -230,7 +230,7 @@ describe('joins per code', () => {
       }
       const late = await small.agent.post(`/api/join/${room.joinCode}`).send({ displayName: 'Rider 13', photoConsent: true, deviceId: newDeviceId() });
       expect(late.status).toBe(429);
-      expect(late.body.error).toEqual({ code: 'rate_limited', message: expect.stringMatching(/too many people are joining/i) });
+      expect(late.body.error).toEqual({ code: 'rate_limited', reason: 'join_crowded', message: expect.stringMatching(/too many people are joining/i) });
     } finally {
       await small.close();
     }
