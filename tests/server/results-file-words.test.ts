@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import * as pdfjs from 'pdfjs-dist/legacy/build/pdf.mjs';
+import { pdfText } from './pdf-text';
 import { renderReportPdf } from '../../server/features/results/report-content';
 import { teamsTable, toCsv } from '../../server/features/results/export.service';
 import { facilitatorWording } from '../../server/common/catalogs';
@@ -12,7 +12,7 @@ import type { WorkshopResults } from '../../shared/schemas/results';
 const results = {
   generatedAt: Date.UTC(2027, 2, 13, 17),
   anonymized: true,
-  workshop: { title: 'Harbour Lane: first rides', ownerName: 'Robin Vale', objective: "Improve a new member's first ride", persona: null, date: '2027-03-13', window: { start: '09:00', end: '17:00' } },
+  workshop: { title: 'Harbour Lane: first rides', ownerName: 'Mira Calder', objective: "Improve a new member's first ride", persona: null, date: '2027-03-13', window: { start: '09:00', end: '17:00' } },
   sessions: [],
   agenda: [{ itemId: 'i1', position: 1, title: 'Interviews', type: 'interview', plannedStart: '09:30', plannedEnd: '10:00', actualStart: null, actualEnd: null, plannedMin: 30, actualMin: null, overMin: null }],
   activities: [],
@@ -21,17 +21,6 @@ const results = {
   nextSteps: [],
   participants: [{ session: 'The day', number: 1, name: 'Participant 1', teamName: 'Team 1', photoConsent: true, leftAddress: false, joinedAt: 0, notes: 1 }],
 } as unknown as WorkshopResults;
-
-async function pdfText(pdf: Buffer): Promise<string> {
-  const doc = await pdfjs.getDocument({ data: new Uint8Array(pdf), useSystemFonts: false, isEvalSupported: false }).promise;
-  const pages: string[] = [];
-  for (let i = 1; i <= doc.numPages; i++) {
-    const content = await (await doc.getPage(i)).getTextContent();
-    pages.push(content.items.map((item) => ('str' in item ? item.str + (item.hasEOL ? '\n' : '') : '')).join(''));
-  }
-  await doc.destroy();
-  return pages.join('\n').replace(/\s+/g, ' ');
-}
 
 describe('the report and the exports speak from the catalogs', () => {
   it('writes the report in English by default and in German when asked, made names included', async () => {

@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import * as pdfjs from 'pdfjs-dist/legacy/build/pdf.mjs';
+import { pdfText } from './pdf-text';
 import { addMember, bearer, createStranger, liveDay, startTestApp, type LiveDay, type TestAccount, type TestApp } from './helpers';
 import { renderReportPdf } from '../../server/features/results/report-content';
 import { ResultsService } from '../../server/features/results/results.service';
@@ -35,18 +36,6 @@ beforeAll(async () => {
   await addMember(t, day.workshopId, cofacilitator.id, 'cofacilitator');
 });
 afterAll(() => t?.close());
-
-/** The text of every page of a PDF, read back with PDF.js (an independent reader), whitespace collapsed. */
-async function pdfText(pdf: Buffer): Promise<string> {
-  const doc = await pdfjs.getDocument({ data: new Uint8Array(pdf), useSystemFonts: false, isEvalSupported: false }).promise;
-  const pages: string[] = [];
-  for (let i = 1; i <= doc.numPages; i++) {
-    const content = await (await doc.getPage(i)).getTextContent();
-    pages.push(content.items.map((item) => ('str' in item ? item.str + (item.hasEOL ? '\n' : '') : '')).join(''));
-  }
-  await doc.destroy();
-  return pages.join('\n').replace(/\s+/g, ' ');
-}
 
 async function getPdf(token: string, query = ''): Promise<{ status: number; pdf: Buffer; headers: Record<string, string> }> {
   const res = await t.agent
