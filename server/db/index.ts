@@ -17,6 +17,15 @@ import * as m0009 from './migrations/0009-team-history';
 import * as m0010 from './migrations/0010-locales';
 
 /** Versioned migrations, in order; add a file and a line here for each schema change. */
+/**
+ * A date as Sequelize writes a DATE column for SQLite (UTC, `2026-12-01 10:00:00.000 +00:00`), for the prepared
+ * statements beside the model layer (dots, joins, last-seen times), so the model reads their rows back alike.
+ * Made by hand: the model layer's own conversion goes through a date library on every write.
+ */
+export function sqliteDate(at: Date): string {
+  return at.toISOString().replace('T', ' ').replace('Z', ' +00:00');
+}
+
 export const MIGRATIONS = [
   { name: '0001-initial', ...m0001 },
   { name: '0002-live', ...m0002 },

@@ -1,6 +1,7 @@
 import crypto from 'node:crypto';
 import type { AppContext } from '../../context';
 import type { ParticipantRow } from '../../db/models';
+import { sqliteDate } from '../../db';
 import { AppError, errors } from '../../common/errors';
 import { liveRooms } from './live.service';
 import type { Locale } from '../../../shared/locales';
@@ -23,11 +24,6 @@ interface Room {
   online: Map<string, number>;
   /** Participants whose last-seen time is to be written at the next tick. */
   seen: Set<string>;
-}
-
-/** A date as Sequelize writes it into SQLite (`2026-12-02 14:06:00.000 +00:00`), for the prepared statements beside the model layer. */
-function sqliteDate(d: Date): string {
-  return d.toISOString().replace('T', ' ').replace('Z', ' +00:00');
 }
 
 /** A participant as their own phone sees them. */

@@ -2,7 +2,7 @@ import crypto from 'node:crypto';
 import { QueryTypes, type Transaction } from 'sequelize';
 import type { AppContext } from '../../context';
 import type { VoteRow } from '../../db/models';
-import type { RawStatements } from '../../db';
+import { sqliteDate, type RawStatements } from '../../db';
 import type { Dot } from '../../../shared/tally';
 
 /** What the dot path keeps of a vote between commits: each voter's committed dots, and which client ids of the session were applied. */
@@ -20,15 +20,6 @@ interface DotWrites {
 /** The key of a receipt in a ledger: one participant's one client id. */
 export function receiptKey(participantId: string, clientId: string): string {
   return `${participantId}\n${clientId}`;
-}
-
-/**
- * A receipt's date as Sequelize writes a DATE column for SQLite (UTC, `2026-12-01 10:00:00.000 +00:00`),
- * so the model reads a receipt written here back alike; made by hand, as the join does, since the
- * model layer's own conversion goes through a date library on every dot.
- */
-function sqliteDate(at: Date): string {
-  return at.toISOString().replace('T', ' ').replace('Z', ' +00:00');
 }
 
 /**
