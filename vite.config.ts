@@ -11,6 +11,7 @@ import { build, type Plugin } from 'vite';
 import { LIGHT, cssVariables } from './src/theme/palette';
 import { phoneStylesheet } from './build/phone-stylesheet';
 import { ROUTE_SHELLS } from './server/common/client-assets';
+import { WHOLE_STYLESHEET_LATER } from './src/theme/whole-stylesheet';
 
 /**
  * Preloads the built font file whose name matches `match` from the HTML shell: the browser otherwise finds
@@ -58,8 +59,8 @@ function paletteInHtml(): Plugin {
  * The shells carry the phone's stylesheet in place of the whole one: the whole stylesheet (the component
  * library's, the fonts', Cairn's own) cut to the rules that the scripts a phone's routes can load could use
  * (build/phone-stylesheet.ts), written into the shell itself so that nothing blocks the first paint but the
- * HTML. The whole stylesheet's link stays, disabled (`data-cairn-whole`); the router enables it before any
- * screen that is not a phone's (src/theme/whole-stylesheet.ts).
+ * HTML. The whole stylesheet's link stays, with a type no browser loads (`data-cairn-whole`); the router takes the
+ * type away before any screen that is not a phone's (src/theme/whole-stylesheet.ts).
  */
 function routeShells(pages: Record<string, string>, otherPhonePages: string[], withoutPreloads: string[] = []): Plugin {
   return {
@@ -102,9 +103,11 @@ function routeShells(pages: Record<string, string>, otherPhonePages: string[], w
         );
         // `</style` cannot occur in a stylesheet's rules; checked so that the shell's markup stays whole.
         if (/<\/style/i.test(phoneCss)) return this.error('cairn-route-shells: the phone stylesheet holds "</style"');
-        // The whole stylesheet's link stays where it was, disabled: the browser does not fetch it, Vite's loader of
-        // lazy files finds it and does not add it either, and enabling it keeps the cascade as in index.html.
-        const phoneStyle = `<style data-cairn-phone>${phoneCss}</style>\n    <link rel="stylesheet" crossorigin href="/${whole.fileName}" disabled data-cairn-whole>`;
+        // The whole stylesheet's link stays where it was, typed as no stylesheet language a browser knows: a browser
+        // fetches no such stylesheet (a `disabled` one is fetched all the same by some Chromium versions' preload
+        // scanner), while Vite's loader of lazy files, which looks only at `rel` and `href`, finds it and does not add
+        // it either. src/theme/whole-stylesheet.ts takes the type away where it stands, keeping the cascade as in index.html.
+        const phoneStyle = `<style data-cairn-phone>${phoneCss}</style>\n    <link rel="stylesheet" crossorigin href="/${whole.fileName}" type="${WHOLE_STYLESHEET_LATER}" data-cairn-whole>`;
 
         for (const [name, page] of Object.entries(pages)) {
           const chunk = chunkOf(page)!;

@@ -63,8 +63,8 @@ test('a phone never asks for the sign-in cookie, keeps its shell, shows its scre
 
 test("a phone route's page carries the phone's part of the stylesheet; a screen that is not a phone's gets the whole one", async ({ page, request }) => {
   const shell = await (await request.get('/join')).text();
-  const whole = /<link rel="stylesheet" crossorigin href="(\/assets\/index-[^"]+\.css)" disabled data-cairn-whole>/.exec(shell)?.[1];
-  expect(whole, 'the /join shell keeps the whole stylesheet, disabled').toBeTruthy();
+  const whole = /<link rel="stylesheet" crossorigin href="(\/assets\/index-[^"]+\.css)" type="text\/x-cairn-later" data-cairn-whole>/.exec(shell)?.[1];
+  expect(whole, 'the /join shell keeps the whole stylesheet, typed so that no browser loads it').toBeTruthy();
   // Every other path's shell links it as it is.
   expect(await (await request.get('/sign-in')).text()).toContain(`<link rel="stylesheet" crossorigin href="${whole}">`);
   const phoneCss = /<style data-cairn-phone>([\s\S]*?)<\/style>/.exec(shell)![1]!;
