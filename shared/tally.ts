@@ -296,22 +296,24 @@ export function participation(
   whole('Dots per voter', rules.dotsPerVoter);
   const present = new Set(voterIds);
   const criteria = criterionIds(rules);
-  const spent = new Map<string, number>(); // `${voterId}\u0000${criterionId}` → dots
-  const votedIds = new Set<string>();
+  // Per voter who voted, their dots per criterion (the live tally counts a room's thousands of dots a few times a second).
+  const spent = new Map<string, Map<string, number>>();
   for (const dot of dots) {
     if (!present.has(dot.voterId) || !criteria.includes(dot.criterionId) || !Number.isInteger(dot.count) || dot.count <= 0) continue;
-    votedIds.add(dot.voterId);
-    const key = `${dot.voterId}\u0000${dot.criterionId}`;
-    spent.set(key, (spent.get(key) ?? 0) + dot.count);
+    let mine = spent.get(dot.voterId);
+    if (!mine) {
+      mine = new Map();
+      spent.set(dot.voterId, mine);
+    }
+    mine.set(dot.criterionId, (mine.get(dot.criterionId) ?? 0) + dot.count);
   }
   let dotsLeft = 0;
   for (const voterId of present) {
-    for (const criterionId of criteria) {
-      dotsLeft += Math.max(0, rules.dotsPerVoter - (spent.get(`${voterId}\u0000${criterionId}`) ?? 0));
-    }
+    const mine = spent.get(voterId);
+    for (const criterionId of criteria) dotsLeft += Math.max(0, rules.dotsPerVoter - (mine?.get(criterionId) ?? 0));
   }
   const voters = present.size;
-  return { voters, voted: votedIds.size, rate: voters === 0 ? 0 : votedIds.size / voters, dotsLeft };
+  return { voters, voted: spent.size, rate: voters === 0 ? 0 : spent.size / voters, dotsLeft };
 }
 
 /**

@@ -50,6 +50,11 @@ export class Announcer {
     this.shared = options.shared;
   }
 
+  /** Whether broadcasts are shared with other Cairn processes (the Redis adapter): then what this process keeps in memory of the file may miss their writes. */
+  get sharedWithOthers(): boolean {
+    return this.shared;
+  }
+
   /** Whether announcements go out: attached and not closed. */
   get active(): boolean {
     return this.io !== null && !this.closed;

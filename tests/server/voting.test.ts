@@ -316,6 +316,21 @@ describe('a dot vote with two criteria', () => {
     for (const s of sockets.slice(1)) s.disconnect();
   });
 
+  it('pushes a tally equal to the one counted from the stored rows, after a burst of dots spent and taken back', async () => {
+    // The pushes count from the dot path's memory of what each group commit stored; `vote:results` reads the file.
+    const sockets = [phones[0]!, phones[1]!, phones[2]!, phones[4]!];
+    await Promise.all(sockets.map((s) => dot(s, opt.unlock, 'impact')));
+    await Promise.all([dot(phones[4]!, opt.unlock, 'impact', -1), dot(phones[0]!, opt.route, 'effort'), dot(phones[1]!, opt.route, 'effort')]);
+    const heard = collect(facilitator, 'vote:tallied', 1000);
+    await dot(phones[2]!, opt.unlock, 'impact', -1);
+    const last = (await heard).at(-1) as DotVoteResults;
+    const fromFile = (await commandData(facilitator, 'vote:results')) as DotVoteResults;
+    expect(last.perCriterion).toEqual(fromFile.perCriterion);
+    expect(last.overall).toEqual(fromFile.overall);
+    expect(last.participation).toEqual(fromFile.participation);
+    expect(last.top).toEqual(fromFile.top);
+  });
+
   it('refuses votes while input is locked', async () => {
     await commandData(facilitator, 'session:lock', { locked: true });
     expect(errorCode(await dot(phones[4]!, opt.dock, 'impact'))).toBe('input_locked');

@@ -5,17 +5,31 @@ import type { VoteRow } from '../../db/models';
 import { sqliteDate, type RawStatements } from '../../db';
 import type { Dot } from '../../../shared/tally';
 
-/** What the dot path keeps of a vote between commits: each voter's committed dots, and which client ids of the session were applied. */
+/**
+ * What the dot path keeps of a vote between commits: each voter's dots as the checks see them (those of the
+ * group commit under way included), which client ids of the session were applied, and each voter's dots as
+ * they are stored (`stored`: moved only once a group commit has committed, so a tally taken from it is what
+ * the file holds).
+ */
 export interface DotLedger {
+  voteId: string;
   ballots: Map<string, Dot[]>;
   receipts: Set<string>;
+  stored: Map<string, Dot[]>;
 }
 
-/** A group commit's dot writes: the final count of every dot it changed, and the receipts it adds. */
+/** A group commit's dot writes: the final count of every dot it changed, the receipts it adds, and each changed ballot. */
 interface DotWrites {
   dots: Map<string, { voteId: string; participantId: string; optionId: string; criterionId: string; count: number }>;
   receipts: [id: string, participantId: string, clientId: string, voteId: string][];
+  ballots: Map<string, { ledger: DotLedger; participantId: string; dots: Dot[] }>;
 }
+
+/**
+ * What the dot path reads of a vote, copied out of the model instance once: each read of a model's
+ * attribute goes through its getter, a dozen times a dot.
+ */
+export type LedgerVote = Pick<VoteRow, 'id' | 'itemId' | 'kind' | 'status' | 'options' | 'rules'>;
 
 /** The key of a receipt in a ledger: one participant's one client id. */
 export function receiptKey(participantId: string, clientId: string): string {
@@ -60,7 +74,7 @@ async function storeDots(sql: RawStatements, writes: DotWrites): Promise<void> {
 export class DotLedgers {
   private sessionOfParticipant = new Map<string, string>();
   private participantsRead = new Map<string, Promise<void>>();
-  private voteOfItem = new Map<string, VoteRow>();
+  private voteOfItem = new Map<string, LedgerVote>();
   private ledgers = new Map<string, DotLedger>();
   private receiptsOfSession = new Map<string, Set<string>>();
   private dotWrites = new WeakMap<Transaction, DotWrites>();
@@ -104,12 +118,14 @@ export class DotLedgers {
   }
 
   /** The vote of an item, from memory while no command has changed any vote since it was read. */
-  async vote(sessionId: string, itemId: string, transaction: Transaction): Promise<VoteRow | null> {
+  async vote(sessionId: string, itemId: string, transaction: Transaction): Promise<LedgerVote | null> {
     const k = `${sessionId}:${itemId}`;
     const known = this.voteOfItem.get(k);
     if (known) return known;
-    const vote = await this.ctx.db.models.Vote.findOne({ where: { sessionId, itemId }, transaction });
-    if (vote) this.voteOfItem.set(k, vote);
+    const row = await this.ctx.db.models.Vote.findOne({ where: { sessionId, itemId }, transaction });
+    if (!row) return null;
+    const vote: LedgerVote = { id: row.id, itemId: row.itemId, kind: row.kind, status: row.status, options: row.options, rules: row.rules };
+    this.voteOfItem.set(k, vote);
     return vote;
   }
 
@@ -137,21 +153,37 @@ export class DotLedgers {
       list.push({ voterId: d.participantId, optionId: d.optionId, criterionId: d.criterionId, count: Number(d.count) });
       ballots.set(d.participantId, list);
     }
-    const ledger = { ballots, receipts };
+    // Read inside the writer's transaction before any dot of it: what is stored now.
+    const ledger = { voteId, ballots, receipts, stored: new Map(ballots) };
     this.ledgers.set(voteId, ledger);
     return ledger;
+  }
+
+  /**
+   * Every stored dot of a vote, from memory, when its ledger is kept (null otherwise: read the file). The
+   * ledger was read inside the writer's transaction and moves with every commit after it, so it holds what
+   * the file holds; only this process's writes are seen, so a caller sharing the file with other processes
+   * reads the file instead.
+   */
+  storedDots(voteId: string): Dot[] | null {
+    const ledger = this.ledgers.get(voteId);
+    if (!ledger) return null;
+    const dots: Dot[] = [];
+    for (const list of ledger.stored.values()) for (const d of list) dots.push(d);
+    return dots;
   }
 
   /**
    * Records an applied dot: the ledger moves now (so the next dot of the same batch sees it), and its
    * writes, the dot's new count and its receipt, wait for the commit of `transaction`.
    */
-  record(transaction: Transaction, ledger: DotLedger, vote: VoteRow, participantId: string, clientId: string, dots: Dot[], dot: { optionId: string; criterionId: string; count: number }): void {
+  record(transaction: Transaction, ledger: DotLedger, vote: LedgerVote, participantId: string, clientId: string, dots: Dot[], dot: { optionId: string; criterionId: string; count: number }): void {
     ledger.ballots.set(participantId, dots);
     ledger.receipts.add(receiptKey(participantId, clientId));
     const writes = this.writesOf(transaction);
     writes.dots.set([vote.id, participantId, dot.optionId, dot.criterionId].join('\n'), { voteId: vote.id, participantId, ...dot });
     writes.receipts.push([crypto.randomUUID(), participantId, clientId, vote.id]);
+    writes.ballots.set(`${vote.id}\n${participantId}`, { ledger, participantId, dots });
   }
 
   /** Adds a receipt stored by another path (a ranking) to its session's receipts, if they are kept. */
@@ -170,9 +202,16 @@ export class DotLedgers {
   private writesOf(transaction: Transaction): DotWrites {
     let writes = this.dotWrites.get(transaction);
     if (!writes) {
-      const fresh: DotWrites = { dots: new Map(), receipts: [] };
+      const fresh: DotWrites = { dots: new Map(), receipts: [], ballots: new Map() };
       this.dotWrites.set(transaction, fresh);
       this.ctx.db.beforeCommit(transaction, () => storeDots(this.ctx.db.raw(transaction), fresh));
+      // Committed: the stored ballots move (a rolled-back batch never gets here, and its ledgers are forgotten).
+      transaction.afterCommit(() => {
+        for (const b of fresh.ballots.values()) {
+          if (b.dots.length > 0) b.ledger.stored.set(b.participantId, b.dots);
+          else b.ledger.stored.delete(b.participantId);
+        }
+      });
       writes = fresh;
     }
     return writes;

@@ -26,10 +26,15 @@ export const TALLY_INTERVAL_MS = 300;
  * announcement to the console (to the whole session once revealed), at most once every TALLY_INTERVAL_MS.
  */
 export class VoteTally {
+  /**
+   * `storedDots`: a vote's stored dots from the dot path's memory (server/features/voting/dot-ledger.ts), or
+   * null when it keeps none for the vote; the pushes use it instead of reading every dot row a few times a second.
+   */
   constructor(
     private ctx: AppContext,
     private live: LiveService,
     private presence: PresenceService,
+    private storedDots: (voteId: string) => Dot[] | null = () => null,
   ) {}
 
   /** The participant ids of a room's list who are online now. */
@@ -40,21 +45,16 @@ export class VoteTally {
   /**
    * A vote's results from the stored ballots, counted by the pure functions of shared/. The room is
    * everyone online now (`online`: their participant ids) plus everyone who voted, so a voter whose
-   * phone dropped still counts.
+   * phone dropped still counts. `stored`: the vote's stored dots when they are known without reading the file.
    */
-  async resultsOf(row: TalliedVote, itemTitle: string, online: readonly string[]): Promise<VoteResults> {
+  async resultsOf(row: TalliedVote, itemTitle: string, online: readonly string[], stored: Dot[] | null = null): Promise<VoteResults> {
     const { VoteRanking } = this.ctx.db.models;
     const optionIds = row.options.map((o) => o.id);
     const base = { itemId: row.itemId, itemTitle, status: row.status, options: row.options, rules: row.rules, chosen: row.chosen };
     const n = Math.min(row.rules.topN, optionIds.length);
 
     if (row.kind === 'dot_vote') {
-      // A prepared statement: a room's dots are thousands of rows, read a few times a second while votes come in.
-      const rows = await this.ctx.db.read<{ participantId: string; optionId: string; criterionId: string; count: number }>(
-        'SELECT participantId, optionId, criterionId, count FROM vote_dots WHERE voteId = ?',
-        [row.id],
-      );
-      const dots: Dot[] = rows.map((d) => ({ voterId: d.participantId, optionId: d.optionId, criterionId: d.criterionId, count: Number(d.count) }));
+      const dots = stored ?? (await this.readDots(row.id));
       const voterIds = [...new Set([...online, ...dots.map((d) => d.voterId)])];
       const tally = tallyDots(optionIds, criterionIds(row.rules), dots);
       const { ranked, matrix } = rankedRows(row.rules, tally);
@@ -106,6 +106,15 @@ export class VoteTally {
     return results;
   }
 
+  /** A vote's stored dots, read from the file by a prepared statement. */
+  private async readDots(voteId: string): Promise<Dot[]> {
+    const rows = await this.ctx.db.read<{ participantId: string; optionId: string; criterionId: string; count: number }>(
+      'SELECT participantId, optionId, criterionId, count FROM vote_dots WHERE voteId = ?',
+      [voteId],
+    );
+    return rows.map((d) => ({ voterId: d.participantId, optionId: d.optionId, criterionId: d.criterionId, count: Number(d.count) }));
+  }
+
   /**
    * Sends the tallies of a session's current vote soon: at once after a quiet spell, otherwise at most
    * once every TALLY_INTERVAL_MS, so a room of phones voting together costs a few broadcasts a second.
@@ -143,7 +152,10 @@ export class VoteTally {
     if (!announcer.listening(room)) return;
     const row = await this.voteOf(sessionId, itemId);
     if (!row || announcer.isClosed) return;
-    // Who is online comes from memory: the room's list is not read a few times a second for it.
-    const results = await this.resultsOf(row, state.item.title, this.presence.onlineIds(sessionId));
+    // Who is online comes from memory: the room's list is not read a few times a second for it. So do the
+    // stored dots while the dot path keeps the vote's ledger (read once inside the writer, moved by every
+    // commit), unless other processes write to the same file: then they are read afresh.
+    const stored = announcer.sharedWithOthers ? null : this.storedDots(row.id);
+    const results = await this.resultsOf(row, state.item.title, this.presence.onlineIds(sessionId), stored);
     announcer.announce(room, 'vote:tallied', results);
   }}

@@ -105,7 +105,7 @@ export class VotingService {
     private presence: PresenceService,
   ) {
     this.ledgers = new DotLedgers(ctx);
-    this.tally = new VoteTally(ctx, live, presence);
+    this.tally = new VoteTally(ctx, live, presence, (voteId) => this.ledgers.storedDots(voteId));
     // Another Cairn process on the same file voted, or changed a vote: read the votes afresh.
     ctx.db.onExternalChange(() => this.ledgers.forget());
     // A vote left open when the session ends is closed with it: no ballot can change any more, and the results take it whole.
