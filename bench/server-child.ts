@@ -10,7 +10,7 @@ import path from 'node:path';
 import type { AddressInfo } from 'node:net';
 import { monitorEventLoopDelay } from 'node:perf_hooks';
 import { Session } from 'node:inspector/promises';
-import { writeFileSync, mkdirSync, rmSync } from 'node:fs';
+import { writeFileSync, mkdirSync, rmSync, readdirSync, readFileSync } from 'node:fs';
 import { Server } from 'socket.io';
 import { createApp, type CairnApp } from '../server/app';
 import { loadConfig } from '../server/config/env';
@@ -21,6 +21,27 @@ const mode = process.argv[2] === 'bare' ? 'bare' : 'cairn';
 const loop = monitorEventLoopDelay({ resolution: 10 });
 loop.enable();
 let cpuMark = process.cpuUsage();
+
+/**
+ * CPU time of each thread of this process so far (ms, by thread id), from Linux's /proc: the main thread
+ * (id = pid) against the others (V8's compiler and collector helpers, libuv's pool where SQLite runs).
+ * Empty where /proc is missing.
+ */
+function threadCpu(): Map<string, number> {
+  const ms = new Map<string, number>();
+  try {
+    for (const id of readdirSync('/proc/self/task')) {
+      const stat = readFileSync(`/proc/self/task/${id}/stat`, 'utf8');
+      // After the command name in parentheses: utime and stime are fields 14 and 15 of stat, in clock ticks (100 a second).
+      const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
+      ms.set(id, (Number(fields[11]) + Number(fields[12])) * 10);
+    }
+  } catch {
+    // Not Linux, or a thread ended while being read: no split this time.
+  }
+  return ms;
+}
+let threadMark = threadCpu();
 let cairn: CairnApp | null = null;
 let profiler: Session | null = null;
 let dataDir = '';
@@ -77,10 +98,18 @@ async function main(): Promise<void> {
         }
         loop.reset();
         cpuMark = process.cpuUsage();
+        threadMark = threadCpu();
         reply(msg.id, true);
         break;
       case 'stats': {
         const cpu = process.cpuUsage(cpuMark);
+        // BENCH_THREADS=1: where the window's CPU went, main thread against each other thread (10 ms resolution).
+        if (process.env.BENCH_THREADS) {
+          const spent = [...threadCpu()].map(([id, ms]) => [id, ms - (threadMark.get(id) ?? 0)] as const).filter(([, ms]) => ms > 0);
+          const main = spent.find(([id]) => id === String(process.pid))?.[1] ?? 0;
+          const others = spent.filter(([id]) => id !== String(process.pid)).map(([id, ms]) => `${id}:${ms}`);
+          console.error(`[threads ${windowName}-${mode}] main ${main} ms; other threads (id:ms) ${others.join(' ')}`);
+        }
         if (profiler) {
           const { profile } = await profiler.post('Profiler.stop');
           mkdirSync('.test-output/prof', { recursive: true });
