@@ -1,10 +1,10 @@
 import type { Request, RequestHandler, Response } from 'express';
-import { rateLimit, ipKeyGenerator } from 'express-rate-limit';
+import { ipKeyGenerator } from 'express-rate-limit';
+import { limitRequests, requestLimit } from '../../common/http-rate-limit';
 import { z } from 'zod';
 import type { ApiRoutes } from '../../common/route';
 import { access, EDIT_ROLES, READ_ROLES } from '../../common/access';
 import { errors } from '../../common/errors';
-import type { ErrorReason } from '../../../shared/errors';
 import type { AppContext } from '../../context';
 import type { LiveService } from './live.service';
 import type { PresenceService } from './presence.service';
@@ -35,13 +35,6 @@ function deviceOf(req: Request): string | null {
   return id && id.length >= 8 && id.length <= 64 ? id : null;
 }
 
-/** Answers a refused request in Cairn's one error format. */
-function limited(message: string, reason: ErrorReason) {
-  return (_req: Request, res: Response) => {
-    res.status(429).json({ error: { code: 'rate_limited', message, reason } });
-  };
-}
-
 /** Sends a QR code PNG. */
 function sendPng(res: Response, png: Buffer): void {
   // The code changes when a new session starts, so the image is never reused from a cache.
@@ -55,56 +48,62 @@ function sendPng(res: Response, png: Buffer): void {
 export function liveRoutes(routes: ApiRoutes, ctx: AppContext, live: LiveService, presence: PresenceService): void {
   const tag = 'live';
 
-  // Per device, not per address: a whole room shares one address behind the venue's Wi-Fi.
-  // Only failures count (unknown or ended codes, bad bodies), so a phone that joins is never held back.
-  const perDevice = rateLimit({
-    windowMs: JOIN_WINDOW_MS,
-    limit: (req) => (deviceOf(req) ? FAILED_LOOKUPS_PER_DEVICE : FAILED_LOOKUPS_WITHOUT_DEVICE),
-    skipSuccessfulRequests: true,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    keyGenerator: (req) => {
-      const device = deviceOf(req);
-      return device ? `device:${device}` : `address:${ipKeyGenerator(req.ip ?? '')}`;
-    },
-    handler: limited('Too many tries from this phone; wait a few minutes, then check the code on the room’s screen', 'join_tries_phone'),
-  });
-  // A new device id with every guess must not escape the limit: the address holds whatever the device says.
-  const perAddress = rateLimit({
-    windowMs: JOIN_WINDOW_MS,
-    limit: FAILED_LOOKUPS_PER_ADDRESS,
-    skipSuccessfulRequests: true,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    keyGenerator: (req) => `address:${ipKeyGenerator(req.ip ?? '')}`,
-    handler: limited('Too many tries from this network; wait a few minutes, then check the code on the room’s screen', 'join_tries_network'),
-  });
   const codeOf = (req: Request) => {
     const code = JoinCode.safeParse(req.params.code ?? '');
     return code.success ? code.data : String(req.params.code);
   };
+  const address = (req: Request) => ipKeyGenerator(req.ip ?? '');
+  // The join limits, each declared once; one middleware checks those of a route in this order (see limitRequests).
+  // Per device, not per address: a whole room shares one address behind the venue's Wi-Fi.
+  // Only failures count (unknown or ended codes, bad bodies), so a phone that joins is never held back.
+  const perDevice = requestLimit({
+    name: 'tries-device',
+    windowMs: JOIN_WINDOW_MS,
+    limit: (req) => (deviceOf(req) ? FAILED_LOOKUPS_PER_DEVICE : FAILED_LOOKUPS_WITHOUT_DEVICE),
+    failuresOnly: true,
+    key: (req) => {
+      const device = deviceOf(req);
+      return device ? `device:${device}` : `address:${address(req)}`;
+    },
+    message: 'Too many tries from this phone; wait a few minutes, then check the code on the room’s screen',
+    reason: 'join_tries_phone',
+  });
+  // A new device id with every guess must not escape the limit: the address holds whatever the device says.
+  const perAddress = requestLimit({
+    name: 'tries-address',
+    windowMs: JOIN_WINDOW_MS,
+    limit: () => FAILED_LOOKUPS_PER_ADDRESS,
+    failuresOnly: true,
+    key: (req) => `address:${address(req)}`,
+    message: 'Too many tries from this network; wait a few minutes, then check the code on the room’s screen',
+    reason: 'join_tries_network',
+  });
   // Each address gets its own share of a code's joins (JOINS_PER_CODE, 2,000 by default: a room of up
   // to 1,000 phones behind one venue address, each rejoining now and then), so one sender making up
   // device ids uses up its own share only and phones on other addresses still join.
-  const perCodeAndAddress = rateLimit({
+  const perCodeAndAddress = requestLimit({
+    name: 'joins-address',
     windowMs: JOIN_WINDOW_MS,
-    limit: ctx.config.joinsPerCode,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    keyGenerator: (req) => `code:${codeOf(req)}:address:${ipKeyGenerator(req.ip ?? '')}`,
-    handler: limited('Too many people are joining this workshop right now; try again in a minute', 'join_crowded'),
+    limit: () => ctx.config.joinsPerCode,
+    key: (req) => `code:${codeOf(req)}:address:${address(req)}`,
+    message: 'Too many people are joining this workshop right now; try again in a minute',
+    reason: 'join_crowded',
   });
   // …and each device its own share, so rejoins from one phone cannot crowd its neighbours out either.
-  const perCodeAndDevice = rateLimit({
+  const perCodeAndDevice = requestLimit({
+    name: 'joins-device',
     windowMs: JOIN_WINDOW_MS,
-    limit: Math.min(JOINS_PER_CODE_AND_DEVICE, ctx.config.joinsPerCode),
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
+    limit: () => Math.min(JOINS_PER_CODE_AND_DEVICE, ctx.config.joinsPerCode),
     // A caller without a device id gets no device share; the address share holds it.
-    skip: (req) => deviceOf(req) === null,
-    keyGenerator: (req) => `code:${codeOf(req)}:device:${deviceOf(req) ?? ''}`,
-    handler: limited('This phone has joined too often; wait a few minutes and try again', 'join_too_often'),
+    key: (req) => {
+      const device = deviceOf(req);
+      return device === null ? null : `code:${codeOf(req)}:device:${device}`;
+    },
+    message: 'This phone has joined too often; wait a few minutes and try again',
+    reason: 'join_too_often',
   });
+  const lookupLimits = limitRequests([perAddress, perDevice]);
+  const joinLimits = limitRequests([perAddress, perDevice, perCodeAndAddress, perCodeAndDevice]);
 
   // A projector holding the session's display token gets the QR code without an account; others go on to the role check.
   const displayQr: RequestHandler = async (req, res, next) => {
@@ -186,7 +185,7 @@ export function liveRoutes(routes: ApiRoutes, ctx: AppContext, live: LiveService
     access: access.public,
     params: CodeParams,
     response: JoinInfo,
-    before: [perAddress, perDevice],
+    before: [lookupLimits],
     handler: ({ params }) => presence.joinInfo(params.code),
   });
 
@@ -199,7 +198,7 @@ export function liveRoutes(routes: ApiRoutes, ctx: AppContext, live: LiveService
     params: CodeParams,
     body: JoinBody,
     response: JoinAnswer,
-    before: [perAddress, perDevice, perCodeAndAddress, perCodeAndDevice],
+    before: [joinLimits],
     handler: ({ params, body }) => presence.join(params.code, body),
   });
 }
