@@ -63,6 +63,10 @@ describe('guessing join codes', () => {
       .send({ displayName: 'Guess', photoConsent: false, deviceId: newDeviceId() });
     expect(again.status).toBe(429);
     expect(again.body.error).toEqual({ code: 'rate_limited', message: expect.stringMatching(/too many tries/i), reason: 'join_tries_network' });
+    // The refusal says when to try again, and names the limit that held it (the first one checked: no later limit counted it).
+    expect(Number(again.headers['retry-after'])).toBeGreaterThan(0);
+    expect(again.headers['ratelimit']).toMatch(/^"tries-address"; r=0; t=\d+$/);
+    expect(again.headers['ratelimit-policy']).toBe('"tries-address"; q=200; w=600');
     // …while another address is not.
     const other = await t.agent.get(`/api/join/${info.joinCode}`).set('X-Forwarded-For', '203.0.113.40').set('X-Cairn-Device', newDeviceId());
     expect(other.status).toBe(200);
