@@ -12,6 +12,8 @@ import { LIGHT, cssVariables } from './src/theme/palette';
 import { phoneStylesheet } from './build/phone-stylesheet';
 import { ROUTE_SHELLS } from './server/common/client-assets';
 import { WHOLE_STYLESHEET_LATER } from './src/theme/whole-stylesheet';
+import { LOCALES } from './shared/locales';
+import { joinWordsOf } from './src/boot/join-screen';
 
 /**
  * Preloads the built font file whose name matches `match` from the HTML shell: the browser otherwise finds
@@ -170,9 +172,34 @@ const phoneShellRoute = {
 const shellPaths = ROUTE_SHELLS.map((s) => new RegExp(s.path.source.replace(/\$$/, '(?:\\?|$)')));
 
 /**
+ * `virtual:cairn-join-words`: the few words of the join screen's first paint in each language, picked from the
+ * catalogs (src/i18n/locales/*.json) by `joinWordsOf` (src/boot/join-screen.ts), so that the inline script
+ * carries them and not the catalogs.
+ */
+function joinWordsModule(): Plugin {
+  const id = 'virtual:cairn-join-words';
+  return {
+    name: 'cairn-join-words',
+    resolveId: (source) => (source === id ? `\0${id}` : null),
+    load(resolved) {
+      if (resolved !== `\0${id}`) return null;
+      const words = Object.fromEntries(
+        LOCALES.map((l) => {
+          const file = path.resolve('src/i18n/locales', `${l}.json`);
+          this.addWatchFile(file);
+          return [l, joinWordsOf(JSON.parse(fs.readFileSync(file, 'utf8')))];
+        }),
+      );
+      return `export default ${JSON.stringify(words)};`;
+    },
+  };
+}
+
+/**
  * Puts the phone's first-screen painter (src/boot/first-screen-paint.ts) into the HTML shell as an inline
  * script right after `#app`: it runs as soon as the stylesheet has arrived, with no request of its own, and
- * paints a joined phone's kept screen before the app's scripts have arrived (src/boot/first-screen.ts). Built
+ * paints a joined phone's kept screen (src/boot/first-screen.ts), or on a join route the join screen
+ * (src/boot/join-screen.ts, with its words from `joinWordsModule`), before the app's scripts have arrived. Built
  * here on its own as one small script; the server allows exactly this script by its hash in its
  * Content-Security-Policy (server/common/client-assets.ts). In development it is a module script.
  */
@@ -190,6 +217,7 @@ function firstScreenScript(entry: string): Plugin {
         configFile: false,
         logLevel: 'warn',
         publicDir: false,
+        plugins: [joinWordsModule()],
         build: { write: false, minify: true, emptyOutDir: false, lib: { entry: path.resolve(entry), formats: ['iife'], name: 'cairnFirstScreen' } },
       });
       const chunk = (Array.isArray(out) ? out : [out]).flatMap((o) => ('output' in o ? o.output : [])).find((c) => c.type === 'chunk');
@@ -294,6 +322,7 @@ export default defineConfig({
     }),
     // The regular weight sets every screen's body text, the phone's prompt and the join form included.
     preloadFont(/source-sans-3-latin-400-normal-[^/]*\.woff2$/),
+    joinWordsModule(),
     firstScreenScript('src/boot/first-screen-paint.ts'),
     routeShells({ join: '/src/pages/join.vue', phone: '/src/pages/phone.vue' }, ['/src/pages/phone-data.vue'], ['phone']),
     // Brotli and gzip copies beside each text asset, served as they are by express-static-gzip (server/app.ts).

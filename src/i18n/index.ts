@@ -5,7 +5,8 @@ import { Lang } from 'quasar';
 // Quasar starts in US English anyway; importing it here only names it.
 import enUS from 'quasar/lang/en-US.js';
 import en from './locales/en.json';
-import { LOCALES, isLocale, pickLocale, pluralIndex, type Locale } from '../../shared/locales';
+import { LOCALES, pluralIndex, type Locale } from '../../shared/locales';
+import { PHONE_LOCALE_KEY, phoneLocaleOf } from './phone-locale';
 
 /** The English catalog's shape: every other catalog has the same keys (tests/shared/catalogs.test.ts). */
 export type MessageSchema = typeof en;
@@ -77,13 +78,9 @@ export async function loadFacilitatorMessages(): Promise<void> {
   facilitatorLoaded.add(locale);
 }
 
-/** Where a phone keeps the language its participant picked. */
-const PHONE_LOCALE_KEY = 'cairn.locale';
-
-/** The phone's language: the one its participant picked, else the browser's first that Cairn speaks. */
+/** The phone's language: the one its participant picked, else the browser's first that Cairn speaks (phone-locale.ts). */
 export function phoneLocale(): Locale {
-  const saved = localStorage.getItem(PHONE_LOCALE_KEY);
-  return isLocale(saved) ? saved : pickLocale(navigator.languages ?? [navigator.language]);
+  return phoneLocaleOf(localStorage, navigator.languages ?? [navigator.language]);
 }
 
 /** Keeps the participant's pick of language on this phone and shows it. */

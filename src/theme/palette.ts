@@ -35,6 +35,15 @@ export function applyPalette(style: Pick<CSSStyleDeclaration, 'setProperty'>): v
   for (const [name, value] of Object.entries(cssVariables())) style.setProperty(name, value);
 }
 
+/**
+ * Writes Quasar's brand colours (`--q-primary`, …) as Quasar does when it starts (onto the body, from
+ * `QUASAR_BRAND`), for a screen painted before Quasar has started (src/boot/first-screen-paint.ts): its
+ * `bg-primary` button is Cairn's colour from the first paint, not Quasar's own.
+ */
+export function applyQuasarBrand(style: Pick<CSSStyleDeclaration, 'setProperty'>): void {
+  for (const [name, value] of Object.entries(QUASAR_BRAND)) style.setProperty(`--q-${name}`, value);
+}
+
 /** Cairn's own dot palette for criteria, declared in shared/ so the PDF draws the same marks. */
 export { CRITERION_MARKS } from '../../shared/marks';
 

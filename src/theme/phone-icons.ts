@@ -33,9 +33,9 @@ export const mdiTranslate =
  * themselves (a field's error and clear marks, a chip's) as the MDI drawings the full set uses. The
  * facilitator's screens switch to the whole MDI set (src/quasar-facilitator.ts).
  */
-export const phoneIconSet = {
-  ...materialIcons,
+// Marked pure so that a script importing only drawings (the shell's inline script, src/boot/join-screen.ts) leaves it out.
+export const phoneIconSet = /* @__PURE__ */ Object.assign({}, materialIcons, {
   name: 'cairn-phone',
   chip: { remove: mdiCloseCircle, selected: mdiCheck },
   field: { clear: mdiCloseCircle, error: mdiAlertCircle },
-};
+});
