@@ -59,6 +59,24 @@ export function joinCodeOf(pathname: string): string | null {
   }
 }
 
+/** The heading's font as the page sets it (`.text-h5` in Cairn's font, src/css/app.css). */
+const HEADING_FONT = '400 1.5rem "Source Sans 3"';
+
+/**
+ * Keeps `heading` hidden until its font has arrived (as `font-display: block` would, for at most 3 s). Painted in
+ * a fallback font, the heading is narrower than the page's own heading in Cairn's font, and the browser would
+ * count the page's, drawn once the scripts have run, as a later and larger paint: the largest contentful paint
+ * would wait for the scripts again. The font is preloaded by the shell, so it comes right after the HTML.
+ */
+function waitForFont(doc: Document, heading: HTMLElement, text: string): void {
+  const fonts = doc.fonts as FontFaceSet | undefined;
+  if (!fonts || fonts.check(HEADING_FONT, text)) return;
+  heading.style.visibility = 'hidden';
+  const show = () => heading.style.removeProperty('visibility');
+  fonts.load(HEADING_FONT, text).then(show, show);
+  setTimeout(show, 3000);
+}
+
 /**
  * Paints the join screen into `root` in `locale`, with the code form's field holding `code`, as src/pages/join.vue
  * draws it before its page has looked the code up. Texts go in as text, never as markup.
@@ -95,7 +113,9 @@ export function paintJoinScreen(doc: Document, root: HTMLElement, words: JoinWor
     }),
   );
   const picker = append(el('label', 'language-picker'), icon, el('span', 'visually-hidden', words.language), select);
-  const head = append(el('div', 'row items-center no-wrap'), el('h1', 'col text-h5 q-mt-md q-mb-sm', words.title), picker);
+  const heading = el('h1', 'col text-h5 q-mt-md q-mb-sm', words.title);
+  const head = append(el('div', 'row items-center no-wrap'), heading, picker);
+  waitForFont(doc, heading, words.title);
 
   // The code field, as Quasar's outlined input draws it (its label floats above a field that holds a code).
   const input = el('input', 'q-field__native q-placeholder join-code-input');
