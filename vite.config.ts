@@ -52,19 +52,22 @@ function paletteInHtml(): Plugin {
 }
 
 /**
- * Writes an HTML shell of its own for each phone route (`route-shells/<name>.html`): the shell with
- * `modulepreload` links for the route's page and every file it imports beyond the first script (and
- * `preload` links for their styles), so a phone fetches them beside the first script instead of after
- * that script has run: one round trip and one script's run less before the first screen. The server
- * sends them for the routes' paths (server/common/client-assets.ts); every other path gets index.html.
+ * Writes an HTML shell of its own for each phone route (`route-shells/<name>.html`), which the server sends
+ * for the routes' paths (server/common/client-assets.ts); every other path gets index.html.
  *
  * The shells carry the phone's stylesheet in place of the whole one: the whole stylesheet (the component
  * library's, the fonts', Cairn's own) cut to the rules that the scripts a phone's routes can load could use
  * (build/phone-stylesheet.ts), written into the shell itself so that nothing blocks the first paint but the
  * HTML. The whole stylesheet's link stays, with a type no browser loads (`data-cairn-whole`); the router takes the
  * type away before any screen that is not a phone's (src/theme/whole-stylesheet.ts).
+ *
+ * They preload nothing beyond the font (the route's page and its files come once the first script asks for them):
+ * both routes' shells paint their first screen themselves (src/boot/first-screen.ts, src/boot/join-screen.ts), and
+ * measured with Lighthouse's mobile preset (docs/benchmark.md), `modulepreload` links started before that paint
+ * delayed the simulated first paint (the welcome item 0.91 → 0.97 without them; `/join` 0.89–0.92 → 0.95–0.99)
+ * while they sped up the page's mount by about 0.1 s.
  */
-function routeShells(pages: Record<string, string>, otherPhonePages: string[], withoutPreloads: string[] = []): Plugin {
+function routeShells(pages: Record<string, string>, otherPhonePages: string[]): Plugin {
   return {
     name: 'cairn-route-shells',
     apply: 'build',
@@ -111,29 +114,8 @@ function routeShells(pages: Record<string, string>, otherPhonePages: string[], w
         // it either. src/theme/whole-stylesheet.ts takes the type away where it stands, keeping the cascade as in index.html.
         const phoneStyle = `<style data-cairn-phone>${phoneCss}</style>\n    <link rel="stylesheet" crossorigin href="/${whole.fileName}" type="${WHOLE_STYLESHEET_LATER}" data-cairn-whole>`;
 
-        for (const [name, page] of Object.entries(pages)) {
-          const chunk = chunkOf(page)!;
-          const scripts = new Set<string>();
-          const styles = new Set<string>();
-          const walk = (file: string): void => {
-            const c = bundle[file];
-            if (inEntry.has(file) || scripts.has(file) || c?.type !== 'chunk') return;
-            scripts.add(file);
-            c.viteMetadata?.importedCss.forEach((f) => styles.add(f));
-            c.imports.forEach(walk);
-          };
-          walk(chunk.fileName);
-          // A route whose shell paints the phone's kept screen itself (the phone page: src/boot/first-screen.ts) does
-          // without them: measured with Lighthouse's mobile preset on a quiet machine (docs/benchmark.md), the
-          // preloads delayed the simulated first paint (0.91 → 0.97 on the welcome item without them) and sped up
-          // the mount by about 0.1 s only.
-          const links = withoutPreloads.includes(name) ? '' : [
-            ...[...scripts].map((f) => `<link rel="modulepreload" crossorigin href="/${f}">`),
-            ...[...styles].map((f) => `<link rel="preload" as="style" href="/${f}">`),
-          ].join('\n    ');
-          const source = String(html.source)
-            .replace(wholeLink, () => phoneStyle)
-            .replace('</head>', `  ${links}\n  </head>`);
+        for (const name of Object.keys(pages)) {
+          const source = String(html.source).replace(wholeLink, () => phoneStyle);
           this.emitFile({ type: 'asset', fileName: `route-shells/${name}.html`, source });
         }
       },
@@ -324,7 +306,7 @@ export default defineConfig({
     preloadFont(/source-sans-3-latin-400-normal-[^/]*\.woff2$/),
     joinWordsModule(),
     firstScreenScript('src/boot/first-screen-paint.ts'),
-    routeShells({ join: '/src/pages/join.vue', phone: '/src/pages/phone.vue' }, ['/src/pages/phone-data.vue'], ['phone']),
+    routeShells({ join: '/src/pages/join.vue', phone: '/src/pages/phone.vue' }, ['/src/pages/phone-data.vue']),
     // Brotli and gzip copies beside each text asset, served as they are by express-static-gzip (server/app.ts).
     compression({ algorithms: ['brotliCompress', 'gzip'], include: /\.(js|mjs|css|html|svg|json|webmanifest|txt)$/, threshold: 512 }),
   ],

@@ -51,7 +51,7 @@ export function hashedAssets(distDir: string): express.RequestHandler {
 
 /**
  * The phone routes' own HTML shells (written by the build's `routeShells` in vite.config.ts): the shell
- * with the route's page and its files preloaded. `/phone/<session>/my-data` and every other path get index.html.
+ * with the phone's part of the stylesheet written into it. `/phone/<session>/my-data` and every other path get index.html.
  */
 export const ROUTE_SHELLS: readonly { path: RegExp; file: string }[] = [
   { path: /^\/join(?:\/[^/]+)?\/?$/, file: 'route-shells/join.html' },

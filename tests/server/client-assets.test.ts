@@ -62,7 +62,7 @@ describe('the built client', () => {
     expect(cacheControlOf('sw.js')).toBe('no-cache');
   });
 
-  it("sends the phone page its own shell (its files preloaded), and index.html to every other path and to a route whose shell was not built", async () => {
+  it("sends the phone page its own shell, and index.html to every other path and to a route whose shell was not built", async () => {
     for (const url of ['/phone/5b0c', '/phone/5b0c/', '/phone/5b0c?here=1']) expect((await agent.get(url)).text, url).toBe(PHONE_SHELL);
     for (const url of ['/phone/5b0c/my-data', '/join/ABC123', '/join', '/workshops', '/']) expect((await agent.get(url)).text, url).toBe(SHELL);
     const br = await agent.get('/phone/5b0c').set('Accept-Encoding', 'br');
