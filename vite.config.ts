@@ -13,7 +13,7 @@ import { phoneStylesheet } from './build/phone-stylesheet';
 import { ROUTE_SHELLS } from './server/common/client-assets';
 import { WHOLE_STYLESHEET_LATER } from './src/theme/whole-stylesheet';
 import { LOCALES } from './shared/locales';
-import { joinWordsOf } from './src/boot/join-screen';
+import { PRELOAD_AFTER_PAINT, joinWordsOf } from './src/boot/join-screen';
 
 /**
  * Preloads the built font file whose name matches `match` from the HTML shell: the browser otherwise finds
@@ -61,13 +61,14 @@ function paletteInHtml(): Plugin {
  * HTML. The whole stylesheet's link stays, with a type no browser loads (`data-cairn-whole`); the router takes the
  * type away before any screen that is not a phone's (src/theme/whole-stylesheet.ts).
  *
- * They preload nothing beyond the font (the route's page and its files come once the first script asks for them):
- * both routes' shells paint their first screen themselves (src/boot/first-screen.ts, src/boot/join-screen.ts), and
- * measured with Lighthouse's mobile preset (docs/benchmark.md), `modulepreload` links started before that paint
- * delayed the simulated first paint (the welcome item 0.91 → 0.97 without them; `/join` 0.89–0.92 → 0.95–0.99)
- * while they sped up the page's mount by about 0.1 s.
+ * Their heads preload nothing beyond the font: both routes' shells paint their first screen themselves
+ * (src/boot/first-screen.ts, src/boot/join-screen.ts), and measured with Lighthouse's mobile preset
+ * (docs/benchmark.md), `modulepreload` links started before that paint delayed the simulated first paint (the
+ * welcome item 0.91 → 0.97 without them; on `/join` FCP 2.3 → 1.4–1.5 s). A route named in `preloadAfterPaint`
+ * (the join page) lists its page's files in a `<meta>` instead, which the shell's script asks for once it has
+ * painted: without them the join page mounted about 0.6 s later on a phone's link.
  */
-function routeShells(pages: Record<string, string>, otherPhonePages: string[]): Plugin {
+function routeShells(pages: Record<string, string>, otherPhonePages: string[], preloadAfterPaint: string[] = []): Plugin {
   return {
     name: 'cairn-route-shells',
     apply: 'build',
@@ -114,8 +115,20 @@ function routeShells(pages: Record<string, string>, otherPhonePages: string[]): 
         // it either. src/theme/whole-stylesheet.ts takes the type away where it stands, keeping the cascade as in index.html.
         const phoneStyle = `<style data-cairn-phone>${phoneCss}</style>\n    <link rel="stylesheet" crossorigin href="/${whole.fileName}" type="${WHOLE_STYLESHEET_LATER}" data-cairn-whole>`;
 
-        for (const name of Object.keys(pages)) {
-          const source = String(html.source).replace(wholeLink, () => phoneStyle);
+        for (const [name, page] of Object.entries(pages)) {
+          // The files of a route's page beyond the first script, which the shell's script asks for once it has painted.
+          const files = new Set<string>();
+          const walk = (file: string): void => {
+            const c = bundle[file];
+            if (inEntry.has(file) || files.has(file) || c?.type !== 'chunk') return;
+            files.add(file);
+            c.imports.forEach(walk);
+          };
+          if (preloadAfterPaint.includes(name)) walk(chunkOf(page)!.fileName);
+          const later = files.size ? `\n    <meta name="${PRELOAD_AFTER_PAINT}" content="${[...files].map((f) => `/${f}`).join(' ')}">` : '';
+          const source = String(html.source)
+            .replace(wholeLink, () => phoneStyle)
+            .replace('</title>', () => `</title>${later}`);
           this.emitFile({ type: 'asset', fileName: `route-shells/${name}.html`, source });
         }
       },
@@ -306,7 +319,7 @@ export default defineConfig({
     preloadFont(/source-sans-3-latin-400-normal-[^/]*\.woff2$/),
     joinWordsModule(),
     firstScreenScript('src/boot/first-screen-paint.ts'),
-    routeShells({ join: '/src/pages/join.vue', phone: '/src/pages/phone.vue' }, ['/src/pages/phone-data.vue']),
+    routeShells({ join: '/src/pages/join.vue', phone: '/src/pages/phone.vue' }, ['/src/pages/phone-data.vue'], ['join']),
     // Brotli and gzip copies beside each text asset, served as they are by express-static-gzip (server/app.ts).
     compression({ algorithms: ['brotliCompress', 'gzip'], include: /\.(js|mjs|css|html|svg|json|webmanifest|txt)$/, threshold: 512 }),
   ],

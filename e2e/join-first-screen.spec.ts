@@ -54,6 +54,8 @@ async function paintedThenMounted(browser: Browser, path: string, options: { loc
     await route.continue();
   });
   await page.route(/\/api\/join\//, () => undefined);
+  const asked: string[] = [];
+  page.on('request', (r) => asked.push(new URL(r.url()).pathname));
   await page.goto(path, { waitUntil: 'commit' });
   await expect(page.locator('main h1')).toBeVisible();
   await expect(page.getByTestId('join-code')).toHaveCount(0);
@@ -61,6 +63,8 @@ async function paintedThenMounted(browser: Browser, path: string, options: { loc
   expect(await page.locator('main.cairn-phone-page').evaluate((m: HTMLElement) => m.inert)).toBe(true);
   const painted = await boxes(page);
   const paintedLang = await page.evaluate(() => document.documentElement.lang);
+  // Once painted, the shell asks for the join page's files without waiting for the first script.
+  await expect.poll(() => asked.some((p) => /^\/assets\/join-[^/]+\.js$/.test(p))).toBe(true);
   await shot(page, `join-first-screen-painted${path.replace(/\//g, '-')}${options.locale ? `-${options.locale}` : ''}${options.picked ? `-${options.picked}` : ''}`);
   release();
   await expect(page.getByTestId('join-code')).toBeVisible();
@@ -121,4 +125,30 @@ test('a join link paints the code form holding its code, as the page shows it wh
   // The words are the catalogs', never a session's: the HTML is the same shell for any code.
   const one = await (await request.get('/join/K7Q2M')).text();
   expect(await (await request.get('/join')).text()).toBe(one);
+});
+
+test("the painted heading waits for its font, so that the page's own heading is no larger a paint than it", async ({ browser }) => {
+  const context = await browser.newContext({ viewport: { width: 390, height: 844 }, isMobile: true, hasTouch: true, serviceWorkers: 'block' });
+  const page = await context.newPage();
+  let release: () => void = () => undefined;
+  const held = new Promise<void>((resolve) => (release = resolve));
+  await page.route(/\.woff2$/, async (route) => {
+    await held;
+    await route.continue();
+  });
+  await page.route(APP_SCRIPT, (route) => route.abort());
+  await page.goto('/join', { waitUntil: 'commit' });
+  await expect(page.locator('.join-form > p')).toBeVisible();
+  await expect(page.locator('main h1')).toBeHidden();
+  release();
+  await expect(page.locator('main h1')).toBeVisible();
+  // The largest paint is the painted heading, drawn in Cairn's font once the font came.
+  const largest = await page.evaluate(
+    () =>
+      new Promise<string>((resolve) => {
+        new PerformanceObserver((list) => resolve((list.getEntries().at(-1) as (PerformanceEntry & { element?: Element }) | undefined)?.element?.outerHTML ?? '')).observe({ type: 'largest-contentful-paint', buffered: true });
+      }),
+  );
+  expect(largest).toMatch(/^<h1 class="col text-h5[^"]*"/);
+  await context.close();
 });
