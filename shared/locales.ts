@@ -40,3 +40,14 @@ export function pluralIndex(locale: string, count: number, forms: number): numbe
   if (forms < 2) return 0;
   return new Intl.PluralRules(locale).select(count) === 'one' ? 0 : 1;
 }
+
+/**
+ * Whether `Intl.NumberFormat` writes a value, in every language Cairn speaks, as its plain digits: a whole
+ * number from 0 to 999 (no grouping, no sign, Latin digits in each of LOCALES; tests/shared/plain-count.test.ts
+ * checks it against `Intl` for each). A screen can then write it with `String(value)` and make no formatter.
+ * @example isPlainCount(12) // true
+ * @example isPlainCount(1200) // false
+ */
+export function isPlainCount(value: unknown): value is number {
+  return typeof value === 'number' && Number.isInteger(value) && value >= 0 && value < 1000;
+}

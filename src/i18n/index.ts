@@ -5,7 +5,7 @@ import { Lang } from 'quasar';
 // Quasar starts in US English anyway; importing it here only names it.
 import enUS from 'quasar/lang/en-US.js';
 import en from './locales/en.json';
-import { LOCALES, pluralIndex, type Locale } from '../../shared/locales';
+import { LOCALES, isPlainCount, pluralIndex, type Locale } from '../../shared/locales';
 import { PHONE_LOCALE_KEY, phoneLocaleOf } from './phone-locale';
 
 /** The English catalog's shape: every other catalog has the same keys (tests/shared/catalogs.test.ts). */
@@ -28,6 +28,15 @@ export const i18n = createI18n<[MessageSchema], Locale, false>({
   missingWarn: false,
   fallbackWarn: false,
 });
+
+// `n(count)` without a format writes whole numbers below 1,000 as their plain digits, which is what
+// `Intl.NumberFormat` writes for them in every language Cairn speaks (`isPlainCount` in shared/locales.ts): the first
+// `Intl.NumberFormat` a page makes loads the browser's number data, 30 to 200 ms in Debian's Chromium, and a
+// phone's screens count on every load (the activity's position, the dots left). Anything else, or with a format,
+// goes to vue-i18n's own `n`.
+const formatNumber = i18n.global.n as (...args: unknown[]) => string;
+i18n.global.n = ((...args: unknown[]) =>
+  args.length === 1 && isPlainCount(args[0]) ? String(args[0]) : formatNumber(...args)) as typeof i18n.global.n;
 
 const loaders: Record<Exclude<Locale, 'en'>, () => Promise<{ default: unknown }>> = {
   de: () => import('./locales/de.json'),
