@@ -12,11 +12,13 @@ import { QUASAR_BRAND, applyPalette } from './theme/palette';
 import { i18n } from './i18n';
 import { keepQuasarApp } from './quasar-later';
 import { phoneIconSet } from './theme/phone-icons';
+import { nextTask } from './boot/next-task';
 
-/** Lets the browser paint and answer input between the start-up's steps: on a slow phone each is a long task of its own. */
-const nextTask = () => new Promise<void>((resolve) => setTimeout(resolve, 0));
-
+// The start's steps, each in a task of its own (nextTask): this module's and its imports' first run; Vue, Pinia
+// and Quasar; the catalogs and the router (its first history entry); the first route's guards, then its page's
+// files asked for (router/index.ts); the page's arrival (the history entry made final); the mount.
 async function start(): Promise<void> {
+  await nextTask();
   applyPalette(document.documentElement.style);
   const app = createApp(App);
   app.use(createPinia());
@@ -33,11 +35,13 @@ async function start(): Promise<void> {
   await nextTask();
   app.use(i18n);
   const router = createCairnRouter();
+  await nextTask();
   app.use(router);
   // Mounted once the first route is resolved (its page loaded, its guards passed): mounting empties `#app`,
   // and a joined phone's page has already painted its kept screen there (src/boot/first-screen.ts), which
   // should give way to the page itself, not to an empty layout.
   await router.isReady().catch(() => undefined);
+  await nextTask();
   app.mount('#app');
 }
 void start();

@@ -5,6 +5,7 @@ import PhoneLayout from '../layouts/PhoneLayout.vue';
 import { loadFacilitatorMessages, phoneLocale, setLocale } from '../i18n';
 import { installFacilitatorQuasar } from '../quasar-later';
 import { wholeStylesheet } from '../theme/whole-stylesheet';
+import { nextTask } from '../boot/next-task';
 
 /**
  * Route meta: `public` routes need no sign-in; `admin` routes need the admin role; `phone` routes are a
@@ -74,7 +75,13 @@ const routes: RouteRecordRaw[] = [
 /** Cairn's router; its guard sends signed-out people to sign-in and keeps non-admins off admin pages. */
 export function createCairnRouter() {
   const router = createRouter({ history: createWebHistory(), routes });
+  // The first route's page is asked for (with its files, each a link Vite's loader adds) in a task after the guards.
+  let first = true;
   router.beforeEach(async (to) => {
+    if (first) {
+      first = false;
+      await nextTask();
+    }
     // A phone speaks its participant's language; the projector page takes its session's (live-projector.vue);
     // the facilitator's screens are English.
     // A screen that is not a phone's needs the whole stylesheet, which a phone route's shell leaves out.

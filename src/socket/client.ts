@@ -5,8 +5,10 @@ import type { Ack, ClientToServerEvents, Command, CommandAnswer, CommandPayload,
 export type CairnSocket = Socket<ServerToClientEvents, ClientToServerEvents>;
 
 /**
- * Opens a socket to the Cairn server with a token (an account's access token or a participant token).
- * Reconnects with exponential backoff and jitter, so a room of phones does not come back all at once.
+ * A socket to the Cairn server with a token (an account's access token or a participant token), not yet
+ * connecting: `socket.connect()` opens it (the live store does so in a task of its own, after the screen that
+ * asked for it has been drawn). Reconnects with exponential backoff and jitter, so a room of phones does not
+ * come back all at once.
  */
 export function connectSocket(token: () => string | null): CairnSocket {
   return io({
@@ -15,6 +17,7 @@ export function connectSocket(token: () => string | null): CairnSocket {
     reconnectionDelay: 500,
     reconnectionDelayMax: 8000,
     randomizationFactor: 0.5,
+    autoConnect: false,
   });
 }
 

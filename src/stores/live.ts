@@ -199,6 +199,11 @@ export const useLiveStore = defineStore('live', () => {
     });
     // Every few minutes, re-estimate the offset: clocks drift and the first sync may have been unlucky.
     clockTimer = setInterval(() => void (connected.value && syncClock(3)), 120_000);
+    // Opened in a task of its own: a screen connects as it is set up, and opening the connection inside the
+    // task that draws it would make that task longer on a slow phone. Not if the screen has let it go meanwhile.
+    setTimeout(() => {
+      if (socket.value === s) s.connect();
+    }, 0);
   }
   /** Why the socket could not connect or lost its rights, as an error the screen words in its language. */
   const connectFailure = shallowRef<ClientError | null>(null);
