@@ -230,6 +230,58 @@ function firstScreenScript(entry: string): Plugin {
   };
 }
 
+/**
+ * Marks the scripts a phone runs as its page loads with V8's compile hint (`//# allFunctionsCalledOnLoad` as the
+ * file's first line, read by Chromium since version 136, a comment to every other browser): the first script and
+ * everything it imports, each phone page (`pages`) with what it imports, and the activity inputs a phone page
+ * loads as it shows them, with what they import. The browser then compiles their functions beside the download,
+ * on another thread, instead of each on its first call on the page's thread, where they made the start's and the
+ * mount's long tasks on a slow phone (measured with Lighthouse's mobile preset, docs/benchmark.md). Written into
+ * the files once they are on disk: Vite puts its preload lists above any line added earlier, and the hint counts
+ * only on the first line. Their brotli and gzip copies are made again, a source map's lines move down by one.
+ */
+function compileHints(pages: string[]): Plugin {
+  const HINT = '//# allFunctionsCalledOnLoad';
+  return {
+    name: 'cairn-compile-hints',
+    apply: 'build',
+    writeBundle(options, bundle) {
+      const chunks = Object.values(bundle).flatMap((c) => (c.type === 'chunk' ? [c] : []));
+      const entry = chunks.find((c) => c.isEntry);
+      if (!entry) return this.error('cairn-compile-hints: no entry chunk in the bundle');
+      const hinted = new Set<string>();
+      const reach = (file: string): void => {
+        const c = bundle[file];
+        if (hinted.has(file) || c?.type !== 'chunk') return;
+        hinted.add(file);
+        c.imports.forEach(reach);
+      };
+      reach(entry.fileName);
+      for (const page of pages) {
+        const chunk = chunks.find((c) => c.facadeModuleId?.endsWith(page));
+        if (!chunk) return this.error(`cairn-compile-hints: no chunk for ${page}`);
+        reach(chunk.fileName);
+        chunk.dynamicImports.forEach(reach);
+      }
+      for (const file of hinted) {
+        const full = path.join(options.dir!, file);
+        const text = `${HINT}\n${fs.readFileSync(full, 'utf8')}`;
+        fs.writeFileSync(full, text);
+        for (const [copy, make] of [
+          ['br', () => zlib.brotliCompressSync(text)],
+          ['gz', () => zlib.gzipSync(text, { level: 9 })],
+        ] as const) {
+          if (fs.existsSync(`${full}.${copy}`)) fs.writeFileSync(`${full}.${copy}`, make());
+        }
+        if (fs.existsSync(`${full}.map`)) {
+          const map = JSON.parse(fs.readFileSync(`${full}.map`, 'utf8')) as { mappings: string };
+          fs.writeFileSync(`${full}.map`, JSON.stringify({ ...map, mappings: `;${map.mappings}` }));
+        }
+      }
+    },
+  };
+}
+
 const serverPort = Number(process.env.PORT ?? 3000);
 
 /**
@@ -320,6 +372,7 @@ export default defineConfig({
     joinWordsModule(),
     firstScreenScript('src/boot/first-screen-paint.ts'),
     routeShells({ join: '/src/pages/join.vue', phone: '/src/pages/phone.vue' }, ['/src/pages/phone-data.vue'], ['join']),
+    compileHints(['/src/pages/join.vue', '/src/pages/phone.vue']),
     // Brotli and gzip copies beside each text asset, served as they are by express-static-gzip (server/app.ts).
     compression({ algorithms: ['brotliCompress', 'gzip'], include: /\.(js|mjs|css|html|svg|json|webmanifest|txt)$/, threshold: 512 }),
   ],
