@@ -75,7 +75,8 @@ const routes: RouteRecordRaw[] = [
 /** Cairn's router; its guard sends signed-out people to sign-in and keeps non-admins off admin pages. */
 export function createCairnRouter() {
   const router = createRouter({ history: createWebHistory(), routes });
-  // The first route's page is asked for (with its files, each a link Vite's loader adds) in a task after the guards.
+  // The first navigation's guards and its page (asked for with its files, a link each that Vite's loader adds) run in
+  // a task after the router's install.
   let first = true;
   router.beforeEach(async (to) => {
     if (first) {
