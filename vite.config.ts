@@ -10,6 +10,7 @@ import zlib from 'node:zlib';
 import { build, type Plugin } from 'vite';
 import { LIGHT, cssVariables } from './src/theme/palette';
 import { phoneStylesheet } from './build/phone-stylesheet';
+import { phoneChunks } from './build/phone-chunks';
 import { ROUTE_SHELLS } from './server/common/client-assets';
 import { WHOLE_STYLESHEET_LATER } from './src/theme/whole-stylesheet';
 import { LOCALES } from './shared/locales';
@@ -68,6 +69,11 @@ function paletteInHtml(): Plugin {
  * (the join page) lists its page's files in a `<meta>` instead, which the shell's script asks for once it has
  * painted: without them the join page mounted about 0.6 s later on a phone's link.
  */
+/** The chunk a page's module is in: the chunk it is the face of, else the one it was grouped into (build/phone-chunks.ts). */
+function chunkHolding<C extends { facadeModuleId: string | null; moduleIds: string[] }>(chunks: C[], page: string): C | undefined {
+  return chunks.find((c) => c.facadeModuleId?.endsWith(page)) ?? chunks.find((c) => c.moduleIds.some((id) => id.endsWith(page)));
+}
+
 function routeShells(pages: Record<string, string>, otherPhonePages: string[], preloadAfterPaint: string[] = []): Plugin {
   return {
     name: 'cairn-route-shells',
@@ -80,7 +86,7 @@ function routeShells(pages: Record<string, string>, otherPhonePages: string[], p
         const chunks = Object.values(bundle).flatMap((c) => (c.type === 'chunk' ? [c] : []));
         const entry = chunks.find((c) => c.isEntry);
         if (html?.type !== 'asset' || !entry) return this.error('cairn-route-shells: no index.html or entry chunk in the bundle');
-        const chunkOf = (page: string) => chunks.find((c) => c.facadeModuleId?.endsWith(page));
+        const chunkOf = (page: string) => chunkHolding(chunks, page);
         const inEntry = new Set([entry.fileName, ...entry.imports]);
 
         // Every script a phone's routes can run: the first script and what it imports, and each phone page with
@@ -258,7 +264,7 @@ function compileHints(pages: string[]): Plugin {
       };
       reach(entry.fileName);
       for (const page of pages) {
-        const chunk = chunks.find((c) => c.facadeModuleId?.endsWith(page));
+        const chunk = chunkHolding(chunks, page);
         if (!chunk) return this.error(`cairn-compile-hints: no chunk for ${page}`);
         reach(chunk.fileName);
         chunk.dynamicImports.forEach(reach);
@@ -317,6 +323,12 @@ function precompiledMessages(): Plugin {
 }
 
 /** Vite builds the Cairn client; Vitest runs the unit, API and socket tests. */
+/** The phone routes' code in a file a route and one they share (build/phone-chunks.ts): each route's page, and the activity inputs the phone page shows. */
+const phoneCode = phoneChunks({
+  join: ['/src/pages/join.vue'],
+  phone: ['/src/pages/phone.vue', '/src/components/activities/ActivityPhone.vue', '/src/components/voting/VotePhone.vue'],
+});
+
 export default defineConfig({
   // Quasar's plugin needs Vue's asset-url transform first (it throws on the wrong order).
   plugins: [
@@ -373,6 +385,7 @@ export default defineConfig({
     firstScreenScript('src/boot/first-screen-paint.ts'),
     routeShells({ join: '/src/pages/join.vue', phone: '/src/pages/phone.vue' }, ['/src/pages/phone-data.vue'], ['join']),
     compileHints(['/src/pages/join.vue', '/src/pages/phone.vue']),
+    phoneCode.plugin,
     // Brotli and gzip copies beside each text asset, served as they are by express-static-gzip (server/app.ts).
     compression({ algorithms: ['brotliCompress', 'gzip'], include: /\.(js|mjs|css|html|svg|json|webmanifest|txt)$/, threshold: 512 }),
   ],
@@ -391,6 +404,7 @@ export default defineConfig({
     outDir: 'dist',
     emptyOutDir: true,
     chunkSizeWarningLimit: 900,
+    rolldownOptions: { output: { codeSplitting: { groups: phoneCode.groups } } },
   },
   server: {
     port: 5173,

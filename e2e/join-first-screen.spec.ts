@@ -64,7 +64,7 @@ async function paintedThenMounted(browser: Browser, path: string, options: { loc
   const painted = await boxes(page);
   const paintedLang = await page.evaluate(() => document.documentElement.lang);
   // Once painted, the shell asks for the join page's files without waiting for the first script.
-  await expect.poll(() => asked.some((p) => /^\/assets\/join-[^/]+\.js$/.test(p))).toBe(true);
+  await expect.poll(() => asked.some((p) => /^\/assets\/phone-join-[^/]+\.js$/.test(p))).toBe(true);
   await shot(page, `join-first-screen-painted${path.replace(/\//g, '-')}${options.locale ? `-${options.locale}` : ''}${options.picked ? `-${options.picked}` : ''}`);
   release();
   await expect(page.getByTestId('join-code')).toBeVisible();
