@@ -52,6 +52,15 @@ function paletteInHtml(): Plugin {
   };
 }
 
+/** The phone routes' pages, as the bundler names their modules. */
+const JOIN_PAGE = '/src/pages/join.vue';
+const PHONE_PAGE = '/src/pages/phone.vue';
+
+/** The chunk a page's module is in: the chunk it is the face of, else the one it was grouped into (build/phone-chunks.ts). */
+function chunkHolding<C extends { facadeModuleId: string | null; moduleIds: string[] }>(chunks: C[], page: string): C | undefined {
+  return chunks.find((c) => c.facadeModuleId?.endsWith(page)) ?? chunks.find((c) => c.moduleIds.some((id) => id.endsWith(page)));
+}
+
 /**
  * Writes an HTML shell of its own for each phone route (`route-shells/<name>.html`), which the server sends
  * for the routes' paths (server/common/client-assets.ts); every other path gets index.html.
@@ -69,11 +78,6 @@ function paletteInHtml(): Plugin {
  * (the join page) lists its page's files in a `<meta>` instead, which the shell's script asks for once it has
  * painted: without them the join page mounted about 0.6 s later on a phone's link.
  */
-/** The chunk a page's module is in: the chunk it is the face of, else the one it was grouped into (build/phone-chunks.ts). */
-function chunkHolding<C extends { facadeModuleId: string | null; moduleIds: string[] }>(chunks: C[], page: string): C | undefined {
-  return chunks.find((c) => c.facadeModuleId?.endsWith(page)) ?? chunks.find((c) => c.moduleIds.some((id) => id.endsWith(page)));
-}
-
 function routeShells(pages: Record<string, string>, otherPhonePages: string[], preloadAfterPaint: string[] = []): Plugin {
   return {
     name: 'cairn-route-shells',
@@ -322,13 +326,13 @@ function precompiledMessages(): Plugin {
   };
 }
 
-/** Vite builds the Cairn client; Vitest runs the unit, API and socket tests. */
 /** The phone routes' code in a file a route and one they share (build/phone-chunks.ts): each route's page, and the activity inputs the phone page shows. */
 const phoneCode = phoneChunks({
-  join: ['/src/pages/join.vue'],
-  phone: ['/src/pages/phone.vue', '/src/components/activities/ActivityPhone.vue', '/src/components/voting/VotePhone.vue'],
+  join: [JOIN_PAGE],
+  phone: [PHONE_PAGE, '/src/components/activities/ActivityPhone.vue', '/src/components/voting/VotePhone.vue'],
 });
 
+/** Vite builds the Cairn client; Vitest runs the unit, API and socket tests. */
 export default defineConfig({
   // Quasar's plugin needs Vue's asset-url transform first (it throws on the wrong order).
   plugins: [
@@ -383,8 +387,8 @@ export default defineConfig({
     preloadFont(/source-sans-3-latin-400-normal-[^/]*\.woff2$/),
     joinWordsModule(),
     firstScreenScript('src/boot/first-screen-paint.ts'),
-    routeShells({ join: '/src/pages/join.vue', phone: '/src/pages/phone.vue' }, ['/src/pages/phone-data.vue'], ['join']),
-    compileHints(['/src/pages/join.vue', '/src/pages/phone.vue']),
+    routeShells({ join: JOIN_PAGE, phone: PHONE_PAGE }, ['/src/pages/phone-data.vue'], ['join']),
+    compileHints([JOIN_PAGE, PHONE_PAGE]),
     phoneCode.plugin,
     // Brotli and gzip copies beside each text asset, served as they are by express-static-gzip (server/app.ts).
     compression({ algorithms: ['brotliCompress', 'gzip'], include: /\.(js|mjs|css|html|svg|json|webmanifest|txt)$/, threshold: 512 }),
