@@ -156,6 +156,9 @@ export async function openDatabase(storage: string): Promise<Database> {
       conn.run('PRAGMA synchronous=NORMAL');
       // Deleted rows are overwritten with zeros, not left in free space (personal data must go from the file).
       conn.run('PRAGMA secure_delete=ON');
+      // A statement's own rollback journal (a group commit's multi-row upsert needs one) is kept in memory:
+      // as a temporary file, every dot vote's batch wrote it through the kernel.
+      conn.run('PRAGMA temp_store=MEMORY');
       conn.__cairn = true;
     }
     return conn;

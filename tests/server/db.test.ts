@@ -30,6 +30,28 @@ async function stored(): Promise<number[]> {
   return rows.map((r) => r.n);
 }
 
+describe('the connections', () => {
+  it('keep a statement journal in memory, overwrite deleted rows and sync at checkpoints, on the writer and the reader', async () => {
+    // PRAGMA values from SQLite's documentation (sqlite.org/pragma.html): temp_store 2 = MEMORY, synchronous 1 = NORMAL, secure_delete 1 = ON.
+    const expected = { temp_store: 2, synchronous: 1, secure_delete: 1 };
+    const onWriter = await db.batchTx(async (t) => {
+      const out: Record<string, number> = {};
+      for (const name of Object.keys(expected)) {
+        const [row] = await db.raw(t).all<Record<string, number>>(`PRAGMA ${name}`, []);
+        out[name] = Number(row?.[name]);
+      }
+      return out;
+    });
+    expect(onWriter).toEqual(expected);
+    const onReader: Record<string, number> = {};
+    for (const name of Object.keys(expected)) {
+      const [row] = await db.read<Record<string, number>>(`PRAGMA ${name}`, []);
+      onReader[name] = Number(row?.[name]);
+    }
+    expect(onReader).toEqual(expected);
+  });
+});
+
 describe('the writer queue', () => {
   it('stores what a group commit collected in its before-commit step, once for the whole batch', async () => {
     await db.sequelize.query('DELETE FROM scratch');
