@@ -45,13 +45,16 @@ const BALLOT_ERROR: Record<BallotErrorCode, ErrorCode> = {
 };
 
 /**
- * How long the first dot of a group commit waits for others (server/db batchTx): twice the writer's
- * default. At a room's pace on a quiet server (about a thousand dots a second) it makes batches of about
- * 16 instead of 8, and a batch's fixed cost (begin, the change check, two writes, commit, each a trip to
- * SQLite's thread) is shared by twice as many dots: about 0.06 ms less CPU a dot, for 8 ms more on an
- * acknowledgement. A busy server fills its batches without waiting, and a phone's join keeps the default.
+ * How long the first dot of a group commit waits for others (server/db batchTx), five times the writer's
+ * default. A batch's fixed cost (begin, the change check, two writes, the commit, each a trip to SQLite's
+ * thread, and the pages the commit appends to the log) is shared by every dot in it. At a room's pace on a
+ * quiet server (about a thousand dots a second) a 16 ms window made batches of about 16 and a 40 ms one of
+ * about 40: in the benchmark at 1,000 phones the server's CPU per acknowledged vote fell by about 0.1 ms
+ * (docs/benchmark.md), and the acknowledgement's median rose from about 20 to about 40 ms, well under what
+ * a person notices on a phone. A busy server fills its batches without waiting, and a phone's join keeps
+ * the default.
  */
-const DOT_BATCH_WINDOW_MS = 16;
+const DOT_BATCH_WINDOW_MS = Number(process.env.DOTWIN ?? 40);
 
 /** Who asks for results: the facilitators see them any time, everyone else once they are revealed. */
 export type ResultsAsker = 'runner' | 'screen';
