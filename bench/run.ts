@@ -85,7 +85,7 @@ async function forkChild(script: string, argv: string[], env: NodeJS.ProcessEnv,
 
 function startServer(mode: 'cairn' | 'bare'): Promise<Child> {
   // Every simulated phone joins with the same code: the per-code join quota is the number of phones started.
-  return forkChild('server-child.ts', [mode], { ...process.env, BENCH_JOINS_PER_CODE: String(Math.max(10, PHONES)) }, ['--expose-gc', '--max-old-space-size=4096']);
+  return forkChild('server-child.ts', [mode], { ...process.env, BENCH_JOINS_PER_CODE: String(Math.max(10, PHONES)) }, ['--expose-gc', '--max-old-space-size=4096', ...(process.env.BENCH_SERVER_FLAGS ?? '').split(' ').filter(Boolean)]);
 }
 
 /** A worker of simulated phones and the offset of its clock from this process's (its time minus ours). */
@@ -217,17 +217,24 @@ async function benchCairn(workers: Worker[]) {
   const heapAfterJoin = await child.ask<number>('gc');
 
   // Fan-out of an activity change: the facilitator moves between items; every phone times the arrival.
+  // (BENCH_PROFILE=1 profiles these rounds too; their CPU is not reported.)
+  if (process.env.BENCH_PROFILE) await child.ask('reset', { name: 'fanout' });
   const fanout: number[] = [];
+  const fanoutRounds: number[] = [];
   let payload: unknown = null;
   for (let r = 0; r < WARMUP_ROUNDS + FANOUT_ROUNDS; r++) {
     const index = r % 2 === 0 ? 2 : 3;
     const round1 = await fanOut(workers, { index }, () => ask(facilitator, 'session:goto', { index }));
     // The baseline sends what a phone received: the phone's state, not the console's answer.
     payload = round1.payload;
-    if (r >= WARMUP_ROUNDS) fanout.push(...round1.times);
+    if (r >= WARMUP_ROUNDS) {
+      fanout.push(...round1.times);
+      fanoutRounds.push(round(pct(round1.times, 95)));
+    }
     await new Promise((r2) => setTimeout(r2, 200));
   }
 
+  if (process.env.BENCH_PROFILE) await child.ask('stats');
   // The burst: every phone spends its dots within the window, each at a random moment.
   const burst = await runBurst({ child, facilitator, workers, dotsEach: DOTS_EACH, windowMs: BURST_MS, ask, voteIndex, now });
   const burstStats = await child.ask<Stats>('stats');
@@ -244,6 +251,7 @@ async function benchCairn(workers: Worker[]) {
     heapPerPhone: (heapAfterJoin - heapBefore) / PHONES,
     heapPerPhoneAfterBurst: (heapAfterBurst - heapBefore) / PHONES,
     fanout,
+    fanoutRounds,
     payload,
     burst,
     onDisk,
@@ -261,13 +269,19 @@ async function benchBare(workers: Worker[], payload: unknown) {
   const joinStats = await child.ask<Stats>('stats');
   await new Promise((r) => setTimeout(r, 1000));
   const heapAfterJoin = await child.ask<number>('gc');
+  if (process.env.BENCH_PROFILE) await child.ask('reset', { name: 'fanout' });
   const fanout: number[] = [];
+  const fanoutRounds: number[] = [];
   for (let r = 0; r < WARMUP_ROUNDS + FANOUT_ROUNDS; r++) {
     const version = 1_000_000 + r;
     const { times } = await fanOut(workers, { version }, () => child.ask('broadcast', { ...(payload as object), version }));
-    if (r >= WARMUP_ROUNDS) fanout.push(...times);
+    if (r >= WARMUP_ROUNDS) {
+      fanout.push(...times);
+      fanoutRounds.push(round(pct(times, 95)));
+    }
     await new Promise((r2) => setTimeout(r2, 200));
   }
+  if (process.env.BENCH_PROFILE) await child.ask('stats');
   await child.ask('reset');
   const burst = await runBareBurst({ workers, dotsEach: DOTS_EACH, windowMs: BURST_MS, now });
   const burstStats = await child.ask<Stats>('stats');
@@ -279,6 +293,7 @@ async function benchBare(workers: Worker[], payload: unknown) {
     heapPerPhone: (heapAfterJoin - heapBefore) / PHONES,
     heapPerPhoneAfterBurst: (heapAfterBurst - heapBefore) / PHONES,
     fanout,
+    fanoutRounds,
     burst,
     cpuPerAckMs: (burstStats.cpuUserMs + burstStats.cpuSystemMs) / Math.max(1, burst.acked),
     cpuPerJoinMs: (joinStats.cpuUserMs + joinStats.cpuSystemMs) / PHONES,
@@ -314,6 +329,9 @@ async function main(): Promise<void> {
     baseline_fanout_p95_ms: round(pct(bare.fanout, 95)),
     baseline_fanout_p99_ms: round(pct(bare.fanout, 99)),
     fanout_ratio_p95: round(pct(cairn.fanout, 95) / pct(bare.fanout, 95), 2),
+    // Each measured round's p95 on its own (ms), to tell a steady gap from one slow round.
+    fanout_round_p95_ms: cairn.fanoutRounds,
+    baseline_fanout_round_p95_ms: bare.fanoutRounds,
     fanout_payload_bytes: Buffer.byteLength(JSON.stringify(cairn.payload)),
     burst_kind: cairn.burst.kind,
     ack_p50_ms: round(pct(cairn.burst.acks, 50)),
