@@ -1,6 +1,6 @@
 import crypto from 'node:crypto';
 import fs from 'node:fs/promises';
-import { Op, QueryTypes, type Transaction } from 'sequelize';
+import { Op, type Transaction } from 'sequelize';
 import type { Database } from '../../db';
 import type { AgendaItemRow, UserRow, WorkshopRow } from '../../db/models';
 import { because, errors } from '../../common/errors';
@@ -69,11 +69,12 @@ export class WorkshopsService {
    * commands check it afresh on every command.
    */
   async roleOfAccount(userId: string, workshopId: string, tokenVersion?: number): Promise<WorkshopAccessRole | null> {
-    const [row] = await this.db.sequelize.query<{ role: string; disabled: number; tokenVersion: number; ownerId: string | null; memberRole: WorkshopAccessRole | null }>(
+    // A prepared statement on the reading connection: every facilitator command runs this check before the room hears of it.
+    const [row] = await this.db.read<{ role: string; disabled: number; tokenVersion: number; ownerId: string | null; memberRole: WorkshopAccessRole | null }>(
       `SELECT u.role AS role, u.disabled AS disabled, u.tokenVersion AS tokenVersion, w.ownerId AS ownerId, m.role AS memberRole
        FROM users u LEFT JOIN workshops w ON w.id = ? LEFT JOIN memberships m ON m.workshopId = w.id AND m.userId = u.id
        WHERE u.id = ?`,
-      { replacements: [workshopId, userId], type: QueryTypes.SELECT },
+      [workshopId, userId],
     );
     if (!row || Boolean(row.disabled) || row.ownerId === null) return null;
     if (tokenVersion !== undefined && Number(row.tokenVersion) !== tokenVersion) return null;
