@@ -54,7 +54,7 @@ const BALLOT_ERROR: Record<BallotErrorCode, ErrorCode> = {
  * a person notices on a phone. A busy server fills its batches without waiting, and a phone's join keeps
  * the default.
  */
-const DOT_BATCH_WINDOW_MS = Number(process.env.DOTWIN ?? 40);
+const DOT_BATCH_WINDOW_MS = 40;
 
 /** Who asks for results: the facilitators see them any time, everyone else once they are revealed. */
 export type ResultsAsker = 'runner' | 'screen';
