@@ -34,20 +34,15 @@ describe('the connections', () => {
   it('keep a statement journal in memory, overwrite deleted rows and sync at checkpoints, on the writer and the reader', async () => {
     // PRAGMA values from SQLite's documentation (sqlite.org/pragma.html): temp_store 2 = MEMORY, synchronous 1 = NORMAL, secure_delete 1 = ON.
     const expected = { temp_store: 2, synchronous: 1, secure_delete: 1 };
-    const onWriter = await db.batchTx(async (t) => {
+    // Each setting as a connection reports it, through that connection's way of reading.
+    const settings = async (all: (sql: string) => Promise<Record<string, number>[]>) => {
       const out: Record<string, number> = {};
-      for (const name of Object.keys(expected)) {
-        const [row] = await db.raw(t).all<Record<string, number>>(`PRAGMA ${name}`, []);
-        out[name] = Number(row?.[name]);
-      }
+      for (const name of Object.keys(expected)) out[name] = Number((await all(`PRAGMA ${name}`))[0]?.[name]);
       return out;
-    });
+    };
+    const onWriter = await db.batchTx((t) => settings((sql) => db.raw(t).all<Record<string, number>>(sql, [])));
     expect(onWriter).toEqual(expected);
-    const onReader: Record<string, number> = {};
-    for (const name of Object.keys(expected)) {
-      const [row] = await db.read<Record<string, number>>(`PRAGMA ${name}`, []);
-      onReader[name] = Number(row?.[name]);
-    }
+    const onReader = await settings((sql) => db.read<Record<string, number>>(sql, []));
     expect(onReader).toEqual(expected);
   });
 });
