@@ -189,6 +189,32 @@ describe('joining from a phone', () => {
     expect(otherPhone.me.id).not.toBe(first.me.id);
   });
 
+  it('gives a phone that joins again its team and its language back, and counts it once', async () => {
+    const deviceId = newDeviceId();
+    const join = (body: object) => t.agent.post(`/api/join/${info.joinCode}`).send({ displayName: 'Tomasz', photoConsent: true, deviceId, ...body });
+    const first = await join({ locale: 'de' });
+    expect(first.status).toBe(200);
+    const id = first.body.me.id as string;
+    // The head count the console shows, as a facilitator's socket reads it.
+    const console_ = await t.connect(owner);
+    const headCount = async () => (await commandData(console_, 'session:watch', { sessionId: info.sessionId })).participantCount;
+    const participantCount = await headCount();
+    expect(participantCount).toBe(await t.cairn.ctx.db.models.Participant.count({ where: { sessionId: info.sessionId } }));
+    await t.cairn.ctx.db.models.Participant.update({ teamId: 'team-harbour' }, { where: { id } });
+    const row = () => t.cairn.ctx.db.models.Participant.findByPk(id);
+
+    // A reload that does not say its language keeps the one it had, and the team it was put in.
+    const again = await join({ displayName: 'Tomasz W.' });
+    expect(again.body.me).toEqual({ id, displayName: 'Tomasz W.', photoConsent: true, teamId: 'team-harbour' });
+    expect(await row()).toMatchObject({ displayName: 'Tomasz W.', locale: 'de', teamId: 'team-harbour' });
+    // One that says it takes it.
+    expect((await join({ locale: 'es', photoConsent: false })).body.me).toMatchObject({ id, photoConsent: false });
+    expect(await row()).toMatchObject({ locale: 'es', photoConsent: false });
+    expect(await headCount()).toBe(participantCount);
+    expect(await t.cairn.ctx.db.models.Participant.count({ where: { sessionId: info.sessionId } })).toBe(participantCount);
+    console_.disconnect();
+  });
+
   it('rate-limits code guessing from one phone (429) while another phone still joins', async () => {
     const guesser = newDeviceId();
     const wrong = unusedCode(info.joinCode);
@@ -329,7 +355,9 @@ describe('stopping a live session', () => {
     const info404 = await t.agent.get(`/api/join/${info.joinCode}`).set('X-Cairn-Device', newDeviceId());
     expect(info404.status).toBe(404);
     expect(info404.body.error.message).toMatch(/ended/);
-    expect((await t.agent.post(`/api/join/${info.joinCode}`).send({ displayName: 'Late', photoConsent: true, deviceId: newDeviceId() })).status).toBe(404);
+    const late = await t.agent.post(`/api/join/${info.joinCode}`).send({ displayName: 'Late', photoConsent: true, deviceId: newDeviceId() });
+    expect(late.status).toBe(404);
+    expect(late.body.error).toMatchObject({ code: 'not_found', reason: 'join_ended' });
     expect((await t.agent.get(`/api/workshops/${workshopId}/live`).set('Authorization', bearer(owner))).body).toBeNull();
     expect((await t.agent.post(`/api/workshops/${workshopId}/live/stop`).set('Authorization', bearer(owner))).status).toBe(404);
 

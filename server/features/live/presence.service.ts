@@ -79,51 +79,52 @@ export class PresenceService {
   /**
    * Joins a live session from a phone: the same device gets the same participant back, with the name and consent it gave last.
    * A room joins within a minute, so a join shares its transaction with the writes waiting beside it
-   * (`batchTx`) and reads and writes its row with prepared statements, not through the model layer.
+   * (`batchTx`) and looks its code up and writes its row with one prepared statement, not through the model layer.
    */
   async join(code: string, body: JoinBody): Promise<JoinAnswer> {
-    const session = await this.joinable(code);
-    const rt = this.room(session.id);
+    const id = crypto.randomUUID();
+    let rt: Room | null = null;
     const me = await this.ctx.db.batchTx(
-      async (transaction): Promise<Me> => {
+      async (transaction): Promise<(Me & { sessionId: string }) | null> => {
         const sql = this.ctx.db.raw(transaction);
         // Dates as Sequelize writes them for SQLite, booleans as 0 and 1, so the model reads them back alike.
         const now = sqliteDate(new Date());
         const consent = body.photoConsent ? 1 : 0;
-        const [found] = await sql.all<{ id: string; teamId: string | null }>('SELECT id, teamId FROM participants WHERE sessionId = ? AND deviceId = ?', [
-          session.id,
-          body.deviceId,
-        ]);
-        if (found) {
-          // A phone that says its language keeps it; one that does not leaves the language it had.
-          await sql.run('UPDATE participants SET displayName = ?, photoConsent = ?, lastSeenAt = ?, locale = COALESCE(?, locale) WHERE id = ?', [
-            body.displayName,
-            consent,
-            now,
-            body.locale ?? null,
-            found.id,
-          ]);
-          return { id: found.id, displayName: body.displayName, photoConsent: body.photoConsent, teamId: found.teamId };
-        }
-        const id = crypto.randomUUID();
-        await sql.run(
-          'INSERT INTO participants (id, sessionId, deviceId, displayName, photoConsent, teamId, email, locale, joinedAt, lastSeenAt) VALUES (?, ?, ?, ?, ?, NULL, NULL, ?, ?, ?)',
-          [id, session.id, body.deviceId, body.displayName, consent, body.locale ?? 'en', now, now],
+        // One statement for the code's lookup and the phone's row: a new device gets a row, a known one keeps
+        // its id and team and takes the name and consent it gives now (and its language, when it says one).
+        // A code that is unknown or ended inserts nothing and returns nothing.
+        const [row] = await sql.all<{ id: string; sessionId: string; teamId: string | null }>(
+          `INSERT INTO participants (id, sessionId, deviceId, displayName, photoConsent, teamId, email, locale, joinedAt, lastSeenAt)
+           SELECT ?, s.id, ?, ?, ?, NULL, NULL, ?, ?, ? FROM live_sessions s WHERE s.joinCode = ? AND s.status = 'live'
+           ON CONFLICT (sessionId, deviceId) DO UPDATE SET displayName = excluded.displayName, photoConsent = excluded.photoConsent,
+             lastSeenAt = excluded.lastSeenAt, locale = COALESCE(?, participants.locale)
+           RETURNING id, sessionId, teamId`,
+          [id, body.deviceId, body.displayName, consent, body.locale ?? 'en', now, now, code, body.locale ?? null],
         );
-        // Counted inside the writer, so a count read at the same time elsewhere cannot miss this join.
-        if (rt.participantCount === null) {
-          const [row] = await sql.all<{ n: number }>('SELECT COUNT(*) AS n FROM participants WHERE sessionId = ?', [session.id]);
-          rt.participantCount = Number(row?.n ?? 0);
-        } else rt.participantCount += 1;
-        return { id, displayName: body.displayName, photoConsent: body.photoConsent, teamId: null };
+        if (!row) return null;
+        rt = this.room(row.sessionId);
+        if (row.id === id) {
+          // Counted inside the writer, so a count read at the same time elsewhere cannot miss this join.
+          if (rt.participantCount === null) {
+            const [n] = await sql.all<{ n: number }>('SELECT COUNT(*) AS n FROM participants WHERE sessionId = ?', [row.sessionId]);
+            rt.participantCount = Number(n?.n ?? 0);
+          } else rt.participantCount += 1;
+        }
+        return { id: row.id, displayName: body.displayName, photoConsent: body.photoConsent, teamId: row.teamId, sessionId: row.sessionId };
       },
       // The batch rolled back: the count is read afresh.
       () => {
-        rt.participantCount = null;
+        if (rt) rt.participantCount = null;
       },
     );
-    this.scheduleTick(session.id);
-    return { token: this.ctx.tokens.signParticipant(me.id, session.id), sessionId: session.id, me };
+    // Nothing joined: the code is unknown or its session has ended, and the lookup says which.
+    if (!me) {
+      await this.joinable(code);
+      throw new AppError(404, 'not_found', 'That live session has ended', undefined, { reason: 'join_ended' });
+    }
+    const { sessionId, ...mine } = me;
+    this.scheduleTick(sessionId);
+    return { token: this.ctx.tokens.signParticipant(mine.id, sessionId), sessionId, me: mine };
   }
 
   /** Where a participant's socket belongs (its session and team), or `null` when there is no such participant in the session; read when a phone connects. */
