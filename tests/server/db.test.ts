@@ -4,6 +4,8 @@ import os from 'node:os';
 import path from 'node:path';
 import { QueryTypes } from 'sequelize';
 import { openDatabase, type Database } from '../../server/db';
+import { instanceOf, saveChanged } from '../../server/db/rows';
+import { DEMO_WORKSHOP_TITLE, seedDemo } from '../../server/db/seed';
 
 let dir: string;
 let db: Database;
@@ -138,5 +140,65 @@ describe('the writer queue', () => {
     const rows = await reopened.sequelize.query<{ n: number }>('SELECT n FROM scratch ORDER BY n', { type: QueryTypes.SELECT });
     expect(rows.map((r) => r.n)).toEqual([1, 2]);
     await reopened.close();
+  });
+});
+
+describe('rows by prepared statements', () => {
+  it('read back as the model layer reads them, and write what changed as `save` would', async () => {
+    const { LiveSession, Workshop } = db.models;
+    // The demo's workshop (PRODUCT.md's scenario), for the session's row to belong to.
+    await seedDemo(db);
+    const w = (await Workshop.findOne({ where: { title: DEMO_WORKSHOP_TITLE } }))!;
+    const made = await LiveSession.create({
+      id: 'rows-session',
+      workshopId: w.id,
+      joinCode: 'ROWS42',
+      status: 'live',
+      currentIndex: 0,
+      timer: { status: 'idle', durationMs: 60_000, remainingMs: 60_000, endsAt: null },
+      locked: false,
+      revealed: true,
+      message: null,
+      runs: [{ itemId: 'a', startedAt: 1, endedAt: null }],
+      version: 1,
+      startedAt: new Date('2026-12-03T09:00:00.123Z'),
+      endedAt: null,
+    });
+    const byModel = await LiveSession.findByPk(made.id);
+    const [row] = await db.read<Record<string, unknown>>('SELECT * FROM live_sessions WHERE id = ?', [made.id]);
+    const byStatement = instanceOf(LiveSession, row!);
+    expect(byStatement.get({ plain: true })).toEqual(byModel!.get({ plain: true }));
+    expect(byStatement.changed()).toBe(false);
+
+    // Changed by a transaction as a live command changes it: plain columns, a JSON column, a date, a boolean.
+    await db.writeTx(async (t) => {
+      const [inTx] = await db.raw(t).all<Record<string, unknown>>('SELECT * FROM live_sessions WHERE id = ?', [made.id]);
+      const s = instanceOf(LiveSession, inTx!);
+      s.version += 1;
+      s.status = 'ended';
+      s.locked = true;
+      s.endedAt = new Date('2026-12-03T10:30:00.456Z');
+      s.set('runs', [{ itemId: 'a', startedAt: 1, endedAt: 2 }]);
+      s.changed('runs', true);
+      await saveChanged(db.raw(t), s, 'live_sessions');
+      expect(s.changed()).toBe(false);
+    });
+    const after = (await LiveSession.findByPk(made.id))!;
+    expect(after.get({ plain: true })).toMatchObject({
+      version: 2,
+      status: 'ended',
+      locked: true,
+      revealed: true,
+      endedAt: new Date('2026-12-03T10:30:00.456Z'),
+      runs: [{ itemId: 'a', startedAt: 1, endedAt: 2 }],
+      startedAt: new Date('2026-12-03T09:00:00.123Z'),
+    });
+    expect(after.updatedAt.getTime()).toBeGreaterThanOrEqual(byModel!.updatedAt.getTime());
+    // Nothing changed, nothing written.
+    await db.writeTx(async (t) => {
+      const [inTx] = await db.raw(t).all<Record<string, unknown>>('SELECT * FROM live_sessions WHERE id = ?', [made.id]);
+      await saveChanged(db.raw(t), instanceOf(LiveSession, inTx!), 'live_sessions');
+    });
+    expect((await LiveSession.findByPk(made.id))!.updatedAt).toEqual(after.updatedAt);
   });
 });

@@ -4,6 +4,7 @@ import QRCode from 'qrcode';
 import type { Transaction } from 'sequelize';
 import type { AppContext } from '../../context';
 import type { LiveSessionRow } from '../../db/models';
+import { instanceOf, saveChanged } from '../../db/rows';
 import { AppError, because, errors } from '../../common/errors';
 import { joinBaseUrl } from '../../common/network';
 import { toAgendaItem, type AgendaItemFields } from '../workshops/workshops.service';
@@ -497,8 +498,9 @@ export class LiveService {
   }
 
   /**
-   * A live session's row with its workshop's agenda and title. A session's workshop never changes, so
-   * once known the three are read side by side (a command's own time comes before every phone's).
+   * A live session's row with its workshop's agenda and title, by prepared statements. A session's workshop
+   * never changes, so once known the three are read side by side (a command's own time comes before every
+   * phone's); `mutate` writes the row back the same way.
    */
   private async readSession(sessionId: string, transaction?: Transaction): Promise<{ s: LiveSessionRow; agenda: AgendaItem[]; title: string }> {
     const { LiveSession } = this.ctx.db.models;
@@ -508,8 +510,12 @@ export class LiveService {
         this.agendaOf(workshopId, transaction),
         this.rows<{ title: string }>('SELECT title FROM workshops WHERE id = ?', [workshopId], transaction),
       ]);
-    const [s, early] = await Promise.all([LiveSession.findByPk(sessionId, { transaction }), known ? readWorkshop(known) : null]);
-    if (!s) throw errors.notFound('live_session');
+    const [[row], early] = await Promise.all([
+      this.rows<Record<string, unknown>>('SELECT * FROM live_sessions WHERE id = ?', [sessionId], transaction),
+      known ? readWorkshop(known) : null,
+    ]);
+    if (!row) throw errors.notFound('live_session');
+    const s = instanceOf(LiveSession, row);
     this.runtime(sessionId).workshopId = s.workshopId;
     const [plan, [w]] = early ?? (await readWorkshop(s.workshopId));
     // The live run follows its own timeboxes where cuts shortened items for this session only.
@@ -534,7 +540,7 @@ export class LiveService {
       const changed = (await change(s, agenda, Date.now(), transaction)) !== false;
       if (changed) {
         s.version += 1;
-        await s.save({ transaction });
+        await saveChanged(this.ctx.db.raw(transaction), s, 'live_sessions');
       }
       const next = this.toBase(s, agenda, title);
       // Kept in the commit itself, before the writer runs the next transaction: the input gate of a dot
