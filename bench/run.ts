@@ -192,6 +192,7 @@ interface Stats {
   loopDelayP99Ms: number;
   cpuUserMs: number;
   cpuSystemMs: number;
+  preemptions: number;
 }
 
 async function benchCairn(workers: Worker[]) {
@@ -217,8 +218,8 @@ async function benchCairn(workers: Worker[]) {
   const heapAfterJoin = await child.ask<number>('gc');
 
   // Fan-out of an activity change: the facilitator moves between items; every phone times the arrival.
-  // (BENCH_PROFILE=1 profiles these rounds too; their CPU is not reported.)
-  if (process.env.BENCH_PROFILE) await child.ask('reset', { name: 'fanout' });
+  // The server's CPU and preemptions in these rounds are reported too (BENCH_PROFILE=1 profiles them).
+  await child.ask('reset', { name: 'fanout' });
   const fanout: number[] = [];
   const fanoutRounds: number[] = [];
   let payload: unknown = null;
@@ -234,7 +235,7 @@ async function benchCairn(workers: Worker[]) {
     await new Promise((r2) => setTimeout(r2, 200));
   }
 
-  if (process.env.BENCH_PROFILE) await child.ask('stats');
+  const fanoutStats = await child.ask<Stats>('stats');
   // The burst: every phone spends its dots within the window, each at a random moment.
   const burst = await runBurst({ child, facilitator, workers, dotsEach: DOTS_EACH, windowMs: BURST_MS, ask, voteIndex, now });
   const burstStats = await child.ask<Stats>('stats');
@@ -252,6 +253,7 @@ async function benchCairn(workers: Worker[]) {
     heapPerPhoneAfterBurst: (heapAfterBurst - heapBefore) / PHONES,
     fanout,
     fanoutRounds,
+    fanoutStats,
     payload,
     burst,
     onDisk,
@@ -269,7 +271,7 @@ async function benchBare(workers: Worker[], payload: unknown) {
   const joinStats = await child.ask<Stats>('stats');
   await new Promise((r) => setTimeout(r, 1000));
   const heapAfterJoin = await child.ask<number>('gc');
-  if (process.env.BENCH_PROFILE) await child.ask('reset', { name: 'fanout' });
+  await child.ask('reset', { name: 'fanout' });
   const fanout: number[] = [];
   const fanoutRounds: number[] = [];
   for (let r = 0; r < WARMUP_ROUNDS + FANOUT_ROUNDS; r++) {
@@ -281,7 +283,7 @@ async function benchBare(workers: Worker[], payload: unknown) {
     }
     await new Promise((r2) => setTimeout(r2, 200));
   }
-  if (process.env.BENCH_PROFILE) await child.ask('stats');
+  const fanoutStats = await child.ask<Stats>('stats');
   await child.ask('reset');
   const burst = await runBareBurst({ workers, dotsEach: DOTS_EACH, windowMs: BURST_MS, now });
   const burstStats = await child.ask<Stats>('stats');
@@ -294,6 +296,7 @@ async function benchBare(workers: Worker[], payload: unknown) {
     heapPerPhoneAfterBurst: (heapAfterBurst - heapBefore) / PHONES,
     fanout,
     fanoutRounds,
+    fanoutStats,
     burst,
     cpuPerAckMs: (burstStats.cpuUserMs + burstStats.cpuSystemMs) / Math.max(1, burst.acked),
     cpuPerJoinMs: (joinStats.cpuUserMs + joinStats.cpuSystemMs) / PHONES,
@@ -301,8 +304,25 @@ async function benchBare(workers: Worker[], payload: unknown) {
 }
 
 // ---------- report ----------
+/** The machine's CPU time so far as Linux counts it (/proc/stat): all of it and what the hypervisor took for others; `null` elsewhere. */
+function machineCpu(): { total: number; steal: number } | null {
+  try {
+    const ticks = fs.readFileSync('/proc/stat', 'utf8').split('\n')[0]!.trim().split(/\s+/).slice(1).map(Number);
+    // user nice system idle iowait irq softirq steal (proc(5)); guest time is already within user.
+    return { total: ticks.slice(0, 8).reduce((a, b) => a + b, 0), steal: ticks[7] ?? 0 };
+  } catch {
+    return null;
+  }
+}
+
+/** Server CPU in ms per fan-out round (its rounds and the pauses between them). */
+function perRound(stats: Stats): number {
+  return round((stats.cpuUserMs + stats.cpuSystemMs) / (WARMUP_ROUNDS + FANOUT_ROUNDS), 1);
+}
+
 async function main(): Promise<void> {
   const load = os.loadavg().map((n) => round(n, 2));
+  const cpuAtStart = machineCpu();
   console.log(
     `Cairn benchmark: ${PHONES} phones from ${CLIENT_WORKERS} client workers on ${os.cpus().length} cores (${os.cpus()[0]?.model ?? 'unknown CPU'}), Node ${process.version}, load average ${load.join(' ')}`,
   );
@@ -310,6 +330,7 @@ async function main(): Promise<void> {
   const cairn = await benchCairn(workers);
   const bare = await benchBare(workers, cairn.payload);
   for (const w of workers) w.proc.kill();
+  const cpuAtEnd = machineCpu();
   const cpuMs = cairn.burstStats.cpuUserMs + cairn.burstStats.cpuSystemMs;
   const result = {
     phones: PHONES,
@@ -317,6 +338,8 @@ async function main(): Promise<void> {
     machine: { cores: os.cpus().length, cpu: os.cpus()[0]?.model ?? '', memoryGiB: round(os.totalmem() / 2 ** 30), node: process.version },
     load_average_at_start: load,
     load_average_at_end: os.loadavg().map((n) => round(n, 2)),
+    // The share of the machine's CPU time the hypervisor gave to other guests during the run (a virtual machine's noise).
+    cpu_steal_percent: cpuAtStart && cpuAtEnd ? round((100 * (cpuAtEnd.steal - cpuAtStart.steal)) / Math.max(1, cpuAtEnd.total - cpuAtStart.total), 1) : null,
     join_p95_ms: round(pct(cairn.joinTimes, 95)),
     baseline_join_p95_ms: round(pct(bare.joinTimes, 95)),
     join_ratio_p95: round(pct(cairn.joinTimes, 95) / pct(bare.joinTimes, 95), 2),
@@ -333,6 +356,12 @@ async function main(): Promise<void> {
     fanout_round_p95_ms: cairn.fanoutRounds,
     baseline_fanout_round_p95_ms: bare.fanoutRounds,
     fanout_payload_bytes: Buffer.byteLength(JSON.stringify(cairn.payload)),
+    // What each server spent on a round, and how often the phones' processes took its core meanwhile: the
+    // rounds' p95 follows the preemptions more than the server's own work.
+    fanout_server_cpu_per_round_ms: perRound(cairn.fanoutStats),
+    baseline_fanout_server_cpu_per_round_ms: perRound(bare.fanoutStats),
+    fanout_server_preemptions: cairn.fanoutStats.preemptions,
+    baseline_fanout_server_preemptions: bare.fanoutStats.preemptions,
     burst_kind: cairn.burst.kind,
     ack_p50_ms: round(pct(cairn.burst.acks, 50)),
     ack_p99_ms: round(pct(cairn.burst.acks, 99)),
@@ -378,6 +407,11 @@ async function main(): Promise<void> {
     ['server CPU per join', `${result.server_cpu_per_join_ms} ms`, `${result.baseline_server_cpu_per_connect_ms} ms per bare connect`],
     ['fan-out p50 / p95 / p99', `${result.fanout_p50_ms} / ${result.fanout_p95_ms} / ${result.fanout_p99_ms} ms`, `${result.baseline_fanout_p50_ms} / ${result.baseline_fanout_p95_ms} / ${result.baseline_fanout_p99_ms} ms`],
     ['fan-out ratio p95', `${result.fanout_ratio_p95} (${result.fanout_payload_bytes} B message)`, '≤ 1.5'],
+    [
+      'fan-out: server CPU per round / preemptions',
+      `${result.fanout_server_cpu_per_round_ms} ms / ${result.fanout_server_preemptions}`,
+      `${result.baseline_fanout_server_cpu_per_round_ms} ms / ${result.baseline_fanout_server_preemptions}`,
+    ],
     [`${result.burst_kind} burst: ack p50 / p99`, `${result.ack_p50_ms} / ${result.ack_p99_ms} ms`, `bare p99 ${result.baseline_ack_p99_ms} ms; target p99 < 250 ms`],
     ['sent / acked / dots on disk / receipts', `${result.votes_sent} / ${result.votes_acked} / ${result.votes_stored} / ${result.receipts_on_disk}`, ''],
     ['lost / duplicates / unknown (by client id)', `${result.lost} / ${result.duplicates} / ${result.unknown_receipts}`, '0 / 0 / 0'],
@@ -388,6 +422,7 @@ async function main(): Promise<void> {
     ['event-loop delay p99 (burst)', `${result.loop_delay_p99_ms} ms`, ''],
     ['server CPU during the votes', `${result.cpu_burst_ms} ms (${result.cpu_per_acked_vote_ms} ms per acked vote, ${result.cpu_per_stored_vote_ms} per stored)`, `bare ${result.baseline_cpu_per_ack_ms} ms per ack; target ≤ 0.4 ms per vote`],
     ['load average at start / end', `${result.load_average_at_start.join(' ')} / ${result.load_average_at_end.join(' ')}`, ''],
+    ['CPU time stolen by the hypervisor', result.cpu_steal_percent === null ? 'not known' : `${result.cpu_steal_percent} %`, ''],
   ];
   const w0 = Math.max(...rows.map((r) => r[0].length));
   const w1 = Math.max(...rows.map((r) => r[1].length));

@@ -21,6 +21,7 @@ const mode = process.argv[2] === 'bare' ? 'bare' : 'cairn';
 const loop = monitorEventLoopDelay({ resolution: 10 });
 loop.enable();
 let cpuMark = process.cpuUsage();
+let switchMark = process.resourceUsage().involuntaryContextSwitches;
 
 /**
  * CPU time of each thread of this process so far (ms, by thread id), from Linux's /proc: the main thread
@@ -98,6 +99,7 @@ async function main(): Promise<void> {
         }
         loop.reset();
         cpuMark = process.cpuUsage();
+        switchMark = process.resourceUsage().involuntaryContextSwitches;
         threadMark = threadCpu();
         reply(msg.id, true);
         break;
@@ -121,6 +123,8 @@ async function main(): Promise<void> {
           loopDelayP99Ms: loop.percentile(99) / 1e6,
           cpuUserMs: cpu.user / 1000,
           cpuSystemMs: cpu.system / 1000,
+          // Times the kernel took a core from this server for another process (the phones share its cores).
+          preemptions: process.resourceUsage().involuntaryContextSwitches - switchMark,
         });
         break;
       }
