@@ -26,6 +26,11 @@ interface Room {
   seen: Set<string>;
 }
 
+/** The refusal of a join code whose session has ended. */
+function joinEnded(): AppError {
+  return new AppError(404, 'not_found', 'That live session has ended', undefined, { reason: 'join_ended' });
+}
+
 /** A participant as their own phone sees them. */
 function toMe(p: ParticipantRow): Me {
   return { id: p.id, displayName: p.displayName, photoConsent: p.photoConsent, teamId: p.teamId };
@@ -120,7 +125,7 @@ export class PresenceService {
     // Nothing joined: the code is unknown or its session has ended, and the lookup says which.
     if (!me) {
       await this.joinable(code);
-      throw new AppError(404, 'not_found', 'That live session has ended', undefined, { reason: 'join_ended' });
+      throw joinEnded();
     }
     const { sessionId, ...mine } = me;
     this.scheduleTick(sessionId);
@@ -227,7 +232,7 @@ export class PresenceService {
     if (!row) {
       throw new AppError(404, 'not_found', `No live session has the code ${code}; check the code on the room’s screen`, undefined, { reason: 'join_code_unknown', params: { code } });
     }
-    if (row.status !== 'live') throw new AppError(404, 'not_found', 'That live session has ended', undefined, { reason: 'join_ended' });
+    if (row.status !== 'live') throw joinEnded();
     return row;
   }
 
