@@ -12,9 +12,17 @@ function kindOf(type: unknown): Kind {
   return 'plain';
 }
 
-/** The attributes of a model: property name, column name and kind. */
-function columnsOf(model: ModelStatic<Model>): { key: string; field: string; kind: Kind }[] {
-  return Object.entries(model.getAttributes()).map(([key, attr]) => ({ key, field: attr.field ?? key, kind: kindOf(attr.type) }));
+type Column = { key: string; field: string; kind: Kind };
+const columnsByModel = new WeakMap<object, Column[]>();
+
+/** The attributes of a model: property name, column name and kind (worked out once per model). */
+function columnsOf(model: ModelStatic<Model>): Column[] {
+  let columns = columnsByModel.get(model);
+  if (!columns) {
+    columns = Object.entries(model.getAttributes()).map(([key, attr]) => ({ key, field: attr.field ?? key, kind: kindOf(attr.type) }));
+    columnsByModel.set(model, columns);
+  }
+  return columns;
 }
 
 /**
@@ -51,7 +59,7 @@ function toSqlite(kind: Kind, v: unknown): unknown {
  * would (its `updatedAt` too, when the model keeps one), and marks it saved. Nothing is written when
  * nothing changed.
  */
-export async function saveChanged(sql: RawStatements, instance: Model, table: string): Promise<void> {
+export async function saveChanged(sql: RawStatements, instance: Model): Promise<void> {
   const model = instance.constructor as ModelStatic<Model>;
   const changed = instance.changed();
   if (!changed || changed.length === 0) return;
@@ -63,7 +71,7 @@ export async function saveChanged(sql: RawStatements, instance: Model, table: st
   }
   const set = columns.filter((c) => changed.includes(c.key));
   const id = columns.find((c) => model.primaryKeyAttributes.includes(c.key))!;
-  await sql.run(`UPDATE ${table} SET ${set.map((c) => `${c.field} = ?`).join(', ')} WHERE ${id.field} = ?`, [
+  await sql.run(`UPDATE ${model.tableName} SET ${set.map((c) => `${c.field} = ?`).join(', ')} WHERE ${id.field} = ?`, [
     ...set.map((c) => toSqlite(c.kind, instance.get(c.key))),
     instance.get(id.key),
   ]);

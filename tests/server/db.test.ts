@@ -180,7 +180,7 @@ describe('rows by prepared statements', () => {
       s.endedAt = new Date('2026-12-03T10:30:00.456Z');
       s.set('runs', [{ itemId: 'a', startedAt: 1, endedAt: 2 }]);
       s.changed('runs', true);
-      await saveChanged(db.raw(t), s, 'live_sessions');
+      await saveChanged(db.raw(t), s);
       expect(s.changed()).toBe(false);
     });
     const after = (await LiveSession.findByPk(made.id))!;
@@ -197,7 +197,7 @@ describe('rows by prepared statements', () => {
     // Nothing changed, nothing written.
     await db.writeTx(async (t) => {
       const [inTx] = await db.raw(t).all<Record<string, unknown>>('SELECT * FROM live_sessions WHERE id = ?', [made.id]);
-      await saveChanged(db.raw(t), instanceOf(LiveSession, inTx!), 'live_sessions');
+      await saveChanged(db.raw(t), instanceOf(LiveSession, inTx!));
     });
     expect((await LiveSession.findByPk(made.id))!.updatedAt).toEqual(after.updatedAt);
   });

@@ -540,7 +540,7 @@ export class LiveService {
       const changed = (await change(s, agenda, Date.now(), transaction)) !== false;
       if (changed) {
         s.version += 1;
-        await saveChanged(this.ctx.db.raw(transaction), s, 'live_sessions');
+        await saveChanged(this.ctx.db.raw(transaction), s);
       }
       const next = this.toBase(s, agenda, title);
       // Kept in the commit itself, before the writer runs the next transaction: the input gate of a dot
