@@ -140,17 +140,22 @@ export function createLogger(level: Config['logLevel'], stream?: DestinationStre
   return pino({ level, redact: { paths: LOG_REDACT_PATHS, censor: '[hidden]' } }, stream);
 }
 
+/** A request's path as the client asked for it: Express shortens `url` while a mounted router handles the request. */
+function pathAsked(req: { url?: string; originalUrl?: string }): string {
+  return req.originalUrl ?? req.url ?? '';
+}
+
 /** Logs one short line a request at info (method, path with credentials hidden, status, time), errors at error; never headers. */
 export function requestLogger(logger: Logger, autoLogging: boolean) {
   return pinoHttp({
     logger,
     autoLogging,
     serializers: {
-      req: (req: { method?: string; url?: string }) => ({ method: req.method, url: redactUrl(req.url ?? '') }),
+      req: (req: { method?: string; url?: string; originalUrl?: string }) => ({ method: req.method, url: redactUrl(pathAsked(req)) }),
       res: (res: { statusCode?: number }) => ({ statusCode: res.statusCode }),
     },
-    customSuccessMessage: (req, res, ms) => `${req.method} ${redactUrl(req.url ?? '')} ${res.statusCode} ${Math.round(ms)} ms`,
-    customErrorMessage: (req, res) => `${req.method} ${redactUrl(req.url ?? '')} ${res.statusCode} failed`,
+    customSuccessMessage: (req, res, ms) => `${req.method} ${redactUrl(pathAsked(req))} ${res.statusCode} ${Math.round(ms)} ms`,
+    customErrorMessage: (req, res) => `${req.method} ${redactUrl(pathAsked(req))} ${res.statusCode} failed`,
     customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : 'info'),
   });
 }

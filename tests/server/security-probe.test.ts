@@ -374,6 +374,24 @@ describe('the server log (probe item 10)', () => {
   });
 });
 
+describe('the request log line', () => {
+  it('names the whole path asked for when a mounted router answers (Express shortens the url it handles)', async () => {
+    const lines: string[] = [];
+    const logger = createLogger('info', { write: (line: string) => void lines.push(line) });
+    const app = express();
+    app.use(requestLogger(logger, true));
+    const api = express.Router();
+    const join = express.Router();
+    join.post('/:code', (_req, res) => res.json({ ok: true }));
+    api.use('/join', join);
+    app.use('/api', api);
+    await supertest(app).post('/api/join/HARB-0042?token=abc').send({});
+    const entry = JSON.parse(lines[0]!) as { msg: string; req: { url: string } };
+    expect(entry.msg).toMatch(/^POST \/api\/join\/HARB-0042\?token=\[hidden\] 200 \d+ ms$/);
+    expect(entry.req.url).toBe('/api/join/HARB-0042?token=[hidden]');
+  });
+});
+
 describe('workshop dates (probe item 19)', () => {
   it('refuses days that do not exist, and takes 29 February only in a leap year', async () => {
     // Gregorian leap years (ISO 8601 uses the Gregorian calendar): every 4th year, not centuries, but every 400th.
