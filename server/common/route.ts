@@ -58,6 +58,13 @@ export interface RouteMeta {
 export class ApiRoutes {
   readonly router: Router = express.Router();
   readonly meta: RouteMeta[] = [];
+  /**
+   * One router for each first segment of a path (`/workshops/:id` goes on the `workshops` one): Express tries
+   * a request's path against each route in turn, so with every route on one router a phone's join was
+   * matched against the fifty routes declared before it. Routes of different first segments never match the
+   * same path, and within a segment the order of declaration is kept.
+   */
+  private segments = new Map<string, Router>();
 
   constructor(private app: AppContext) {}
 
@@ -79,7 +86,8 @@ export class ApiRoutes {
       produces: def.produces,
     });
     const app = this.app;
-    this.router[def.method](def.path, ...(def.before ?? []), async (req: Request, res: Response) => {
+    const { router, path } = this.routerOf(def.path);
+    router[def.method](path, ...(def.before ?? []), async (req: Request, res: Response) => {
       const caller = await app.auth.callerOf(req);
       const workshopRole = await authorise(app, def.access, caller, req);
       const parse = <T extends z.ZodType>(schema: T | undefined, value: unknown, what: string) => {
@@ -108,6 +116,20 @@ export class ApiRoutes {
       }
       res.status(def.status ?? 200).json(result);
     });
+  }
+
+  /** The router of a path's first segment and the path within it; a path that starts with a parameter stays on the main router. */
+  private routerOf(path: string): { router: Router; path: string } {
+    const m = /^\/([A-Za-z0-9._-]+)(\/.*)?$/.exec(path);
+    if (!m) return { router: this.router, path };
+    const [, segment, rest] = m as unknown as [string, string, string | undefined];
+    let router = this.segments.get(segment);
+    if (!router) {
+      router = express.Router();
+      this.segments.set(segment, router);
+      this.router.use(`/${segment}`, router);
+    }
+    return { router, path: rest ?? '/' };
   }
 }
 

@@ -221,16 +221,19 @@ describe('who gets what: the rules the matrix rests on', () => {
 
 describe('the OpenAPI document', () => {
   it('lists every route Express has mounted under /api', () => {
-    // Express 5 keeps each router's routes as layers with `route.path` and `route.methods`.
-    type Layer = { route?: { path: string; methods: Record<string, boolean> }; handle?: { stack?: Layer[] } };
+    // Express 5 keeps each router's routes as layers with `route.path` and `route.methods`, and a mounted
+    // router as a layer whose `rawPath` is where it is mounted (the registry mounts one a first segment).
+    type Layer = { rawPath?: string; route?: { path: string; methods: Record<string, boolean> }; handle?: { stack?: Layer[] } };
+    const routesUnder = (prefix: string, layers: Layer[]): string[] =>
+      layers.flatMap((l) => {
+        if (l.route) {
+          const path = `${prefix}${l.route.path === '/' && prefix ? '' : l.route.path}`;
+          return Object.keys(l.route.methods).map((m) => `${m} ${path.replace(/:(\w+)/g, '{$1}')}`);
+        }
+        return l.handle?.stack && typeof l.rawPath === 'string' && l.rawPath !== '/' ? routesUnder(prefix + l.rawPath, l.handle.stack) : [];
+      });
     const stack = (t.cairn.express as unknown as { router: { stack: Layer[] } }).router.stack;
-    const mounted = stack
-      .filter((l) => l.handle?.stack?.some((s) => s.route))
-      .flatMap((l) => l.handle!.stack!)
-      .filter((l) => l.route)
-      .flatMap((l) =>
-        Object.keys(l.route!.methods).map((m) => `${m} /api${l.route!.path.replace(/:(\w+)/g, '{$1}')}`),
-      );
+    const mounted = routesUnder('', stack).filter((r) => r.split(' ')[1]!.startsWith('/api/'));
     expect(mounted.length).toBeGreaterThanOrEqual(20);
     const documented = routes.map((r) => `${r.method} ${r.path}`);
     expect(documented.sort()).toEqual([...new Set(mounted)].sort());
