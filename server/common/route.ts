@@ -118,10 +118,11 @@ export class ApiRoutes {
     });
   }
 
-  /** The router of a path's first segment and the path within it; a path that starts with a parameter stays on the main router. */
+  /** The router of a path's first segment and the path within it; every API path starts with a fixed segment. */
   private routerOf(path: string): { router: Router; path: string } {
     const m = /^\/([A-Za-z0-9._-]+)(\/.*)?$/.exec(path);
-    if (!m) return { router: this.router, path };
+    // A first segment that is a parameter would match beside the other segments' routers, out of declaration order.
+    if (!m) throw new Error(`An API path starts with a fixed segment: ${path}`);
     const [, segment, rest] = m as unknown as [string, string, string | undefined];
     let router = this.segments.get(segment);
     if (!router) {

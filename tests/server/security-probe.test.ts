@@ -372,9 +372,7 @@ describe('the server log (probe item 10)', () => {
     expect(lines[1]).not.toMatch(/secret-value|reset-secret/);
     expect(redactUrl('/join?token=abc&t=1&x=2')).toBe('/join?token=[hidden]&t=[hidden]&x=2');
   });
-});
 
-describe('the request log line', () => {
   it('names the whole path asked for when a mounted router answers (Express shortens the url it handles)', async () => {
     const lines: string[] = [];
     const logger = createLogger('info', { write: (line: string) => void lines.push(line) });
