@@ -79,7 +79,7 @@ function criterionOf(rules: DotVoteRules, criterionId: string): string | null {
  * whose count is not a whole number are ignored.
  * @example checkBallot(rules, myDots, { optionId: 'o1', criterionId: 'overall', delta: 1 })
  */
-export function checkBallot(rules: DotVoteRules, existingDotsOfVoter: Dot[], change: DotChange): BallotCheck {
+export function checkBallot(rules: DotVoteRules, existingDotsOfVoter: readonly Dot[], change: DotChange): BallotCheck {
   if (!Number.isInteger(change.delta)) {
     return { ok: false, code: 'not_a_count', message: 'Add or take back whole dots.', why: because('dot_whole') };
   }
