@@ -5,6 +5,7 @@
  * change, a burst of votes checked by client id against the SQLite file once the server has stopped,
  * heap per phone after the joins and after the burst, event-loop delay and server CPU per acknowledged
  * vote, prints a table and writes one JSON object (`--json FILE`, default bench/results/latest.json).
+ * All of it runs once first over both servers without being counted (`--warmup-passes N`, default 1).
  */
 import { fork, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';

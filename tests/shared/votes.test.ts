@@ -70,6 +70,16 @@ describe('castDot: one dot applied to a voter’s ballot', () => {
     castDot(rules, mine, 'p', change('a', 1));
     expect(mine).toEqual([dot('p', 'a')]);
   });
+
+  it('writes every dot it makes with the fields in one order, as the server reads dots from the file (one shape for the dot path)', () => {
+    const fields = ['voterId', 'optionId', 'criterionId', 'count'];
+    const added = castDot(rules, [dot('p', 'b')], 'p', change('a', 1));
+    const stacked = castDot(rules, [dot('p', 'a'), dot('p', 'b')], 'p', change('a', 1));
+    for (const cast of [added, stacked]) {
+      if (!cast.ok) throw new Error('refused');
+      for (const d of cast.dots) expect(Object.keys(d)).toEqual(fields);
+    }
+  });
 });
 
 describe('rankedRows: what a dot vote ranks by', () => {
