@@ -36,8 +36,9 @@ const CONCURRENCY = 50;
  * Passes over both servers run first and not counted (`--warmup-passes N`): the phones' processes start
  * cold, and whichever server they met first paid for their compiling. Measured 2026-12-03 at 1,000 phones
  * with the same four workers meeting Cairn, the bare server, Cairn and the bare server again, each server
- * a fresh process: fan-out p95 53.4, 30.2, 42.8, 37.5 ms and 78.9, 37.8, 31.9, 32.0 ms; Cairn's first
- * rounds were 60–110 ms and its later ones 30–40 ms, where the bare server's, met second, were even from the start.
+ * a fresh process: fan-out p95 53.4, 30.2, 42.8, 37.5 ms and 78.9, 37.8, 31.9, 32.0 ms. In the first pass
+ * Cairn's first ten rounds had a median p95 of 59 and 79 ms and its last twenty 34 and 41 ms; the bare
+ * server's, met second, 36 and 39 ms, then 23 and 30 ms (docs/benchmark.md).
  */
 const WARMUP_PASSES = Math.max(0, Number(arg('warmup-passes', '1')));
 /** Processes the simulated phones run in, so the phones' own work is not one event loop the server's pushes wait on. */

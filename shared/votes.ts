@@ -55,7 +55,8 @@ export function castDot(rules: DotVoteRules, dots: readonly Dot[], voterId: stri
   const count = (at < 0 ? 0 : dots[at]!.count) + change.delta;
   const next: Dot[] = [];
   for (let i = 0; i < dots.length; i++) {
-    const d = i === at ? { voterId: dots[i]!.voterId, optionId: dots[i]!.optionId, criterionId: dots[i]!.criterionId, count } : dots[i]!;
+    const was = dots[i]!;
+    const d = i === at ? { voterId: was.voterId, optionId: was.optionId, criterionId: was.criterionId, count } : was;
     if (d.count > 0) next.push(d);
   }
   if (at < 0 && count > 0) next.push({ voterId, optionId: change.optionId, criterionId: change.criterionId, count });
