@@ -342,9 +342,8 @@ function addStats(list: Stats[]): Stats {
   };
 }
 
-/** Cairn's passes as one run: every sample of every pass, counts added up, the tally's slowest lag. */
-function poolCairn(passes: CairnPass[]): CairnPass {
-  const bursts = passes.map((p) => p.burst);
+/** What both servers' passes share, as one run: every join and fan-out sample, the windows' CPU added up, the heap's mean. */
+function poolShared(passes: (CairnPass | BarePass)[]) {
   return {
     joinTimes: passes.flatMap((p) => p.joinTimes),
     heapPerPhone: mean(passes.map((p) => p.heapPerPhone)),
@@ -352,6 +351,16 @@ function poolCairn(passes: CairnPass[]): CairnPass {
     fanout: passes.flatMap((p) => p.fanout),
     fanoutRounds: passes.flatMap((p) => p.fanoutRounds),
     fanoutStats: addStats(passes.map((p) => p.fanoutStats)),
+    burstStats: addStats(passes.map((p) => p.burstStats)),
+    cpuPerJoinMs: mean(passes.map((p) => p.cpuPerJoinMs)),
+  };
+}
+
+/** Cairn's passes as one run: besides what both share, the bursts' counts added up and the tally's slowest lag. */
+function poolCairn(passes: CairnPass[]): CairnPass {
+  const bursts = passes.map((p) => p.burst);
+  return {
+    ...poolShared(passes),
     payload: passes[passes.length - 1]!.payload,
     burst: {
       kind: bursts[0]!.kind,
@@ -373,24 +382,12 @@ function poolCairn(passes: CairnPass[]): CairnPass {
       duplicates: sum(passes.map((p) => p.onDisk.duplicates)),
       unknown: sum(passes.map((p) => p.onDisk.unknown)),
     },
-    burstStats: addStats(passes.map((p) => p.burstStats)),
-    cpuPerJoinMs: mean(passes.map((p) => p.cpuPerJoinMs)),
   };
 }
 
 /** The bare server's passes as one run. */
 function poolBare(passes: BarePass[]): BarePass {
-  return {
-    joinTimes: passes.flatMap((p) => p.joinTimes),
-    heapPerPhone: mean(passes.map((p) => p.heapPerPhone)),
-    heapPerPhoneAfterBurst: mean(passes.map((p) => p.heapPerPhoneAfterBurst)),
-    fanout: passes.flatMap((p) => p.fanout),
-    fanoutRounds: passes.flatMap((p) => p.fanoutRounds),
-    fanoutStats: addStats(passes.map((p) => p.fanoutStats)),
-    burst: { acked: sum(passes.map((p) => p.burst.acked)), acks: passes.flatMap((p) => p.burst.acks) },
-    burstStats: addStats(passes.map((p) => p.burstStats)),
-    cpuPerJoinMs: mean(passes.map((p) => p.cpuPerJoinMs)),
-  };
+  return { ...poolShared(passes), burst: { acked: sum(passes.map((p) => p.burst.acked)), acks: passes.flatMap((p) => p.burst.acks) } };
 }
 
 /** Server CPU in ms per acknowledged vote over a burst's window. */
